@@ -1,0 +1,61 @@
+"""The mechanism catalogue: the one registry every other module reads.
+
+Each mechanism is declared once, in the module of its family:
+
+* :mod:`mechid.catalogue.tunnelling` -- ``direct_tunnelling``, ``fowler_nordheim``
+* :mod:`mechid.catalogue.emission` -- ``schottky_emission``, ``poole_frenkel``
+* :mod:`mechid.catalogue.hopping` -- ``nearest_neighbour_hopping``, ``mott_vrh``, ``es_vrh``
+"""
+
+from __future__ import annotations
+
+from mechid.catalogue.base import Mechanism, Parameter, StraightenedPlot
+from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
+from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, NEAREST_NEIGHBOUR_HOPPING
+from mechid.catalogue.tunnelling import DIRECT_TUNNELLING, FOWLER_NORDHEIM
+from mechid.errors import UnknownMechanismError
+
+#: All mechanisms, in the order they are listed and reported.
+MECHANISMS: tuple[Mechanism, ...] = (
+    DIRECT_TUNNELLING,
+    FOWLER_NORDHEIM,
+    SCHOTTKY_EMISSION,
+    POOLE_FRENKEL,
+    NEAREST_NEIGHBOUR_HOPPING,
+    MOTT_VRH,
+    ES_VRH,
+)
+
+_BY_ID = {m.id: m for m in MECHANISMS}
+
+
+def mechanism_ids() -> tuple[str, ...]:
+    """The stable ids of all catalogued mechanisms."""
+    return tuple(_BY_ID)
+
+
+def get_mechanism(mechanism_id: str) -> Mechanism:
+    """Return the mechanism declared under ``mechanism_id``.
+
+    Raises
+    ------
+    UnknownMechanismError
+        Listing the known ids when ``mechanism_id`` is not one of them.
+    """
+    try:
+        return _BY_ID[mechanism_id]
+    except KeyError:
+        known = ", ".join(_BY_ID)
+        raise UnknownMechanismError(
+            f"unknown mechanism {mechanism_id!r}; known mechanisms: {known}"
+        ) from None
+
+
+__all__ = [
+    "MECHANISMS",
+    "Mechanism",
+    "Parameter",
+    "StraightenedPlot",
+    "get_mechanism",
+    "mechanism_ids",
+]

@@ -1,0 +1,190 @@
+"""The declaration every conduction mechanism is written in.
+
+A :class:`Mechanism` holds everything the rest of mechid needs to know about one mechanism:
+its stable id and family, the published formula (a vectorised function), its parameters
+with unit, physical range and default prior (:class:`Parameter`), its straightened plots
+(:class:`StraightenedPlot`) and the published source. Nothing outside
+:mod:`mechid.catalogue` re-lists mechanisms or their parameters; they read these objects.
+
+Shapes
+------
+``Mechanism.current(voltage_V, temperature_K, params, device)`` broadcasts: voltages and
+temperatures of shape ``(n,)`` with parameter values of shape ``(m, 1)`` give currents of
+shape ``(m, n)``, which is how the likelihood evaluates all walkers in one call.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass, field
+from typing import Any, Literal
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from mechid.device import Device
+from mechid.errors import UnknownMechanismError
+
+Family = Literal["tunnelling", "emission", "hopping"]
+FloatArray = NDArray[np.float64]
+
+#: Signature of a magnitude formula: f(|V| in V, T in K, device, **params) -> |I| in A.
+MagnitudeFormula = Callable[..., FloatArray]
+
+
+@dataclass(frozen=True)
+class Parameter:
+    """One physical parameter of a mechanism.
+
+    Parameters
+    ----------
+    name : str
+        Stable name with its unit suffix, e.g. ``"barrier_height_eV"``; used in the CLI,
+        JSON and report.
+    unit : str
+        Unit as printed (``"eV"``, ``"nm"``, ``"S"``, ``"1"`` for dimensionless).
+    symbol : str
+        Short symbol for tables and axis labels (plain text, e.g. ``"phi_B"``).
+    description : str
+        One-line meaning.
+    lower, upper : float
+        Physical range; the default prior is uniform on it (log-uniform if ``log_scale``).
+    typical : float
+        A representative value (demo data, starting guesses, documentation).
+    log_scale : bool
+        True for scale parameters spanning decades (prefactors): prior uniform in log10.
+    device_prior : str or None
+        Name of the :class:`~mechid.device.Device` attribute that, when given, replaces the
+        default prior by a Gaussian with the user's value and uncertainty.
+    """
+
+    name: str
+    unit: str
+    symbol: str
+    description: str
+    lower: float
+    upper: float
+    typical: float
+    log_scale: bool = False
+    device_prior: str | None = None
+
+    def __post_init__(self) -> None:
+        if not (self.lower < self.typical < self.upper):
+            raise ValueError(f"{self.name}: typical value must lie inside ({self.lower}, {self.upper})")
+        if self.log_scale and self.lower <= 0:
+            raise ValueError(f"{self.name}: a log-scale parameter needs a positive lower bound")
+
+    @property
+    def label(self) -> str:
+        """Axis label with unit, e.g. ``"phi_B [eV]"``."""
+        return self.symbol if self.unit in ("", "1") else f"{self.symbol} [{self.unit}]"
+
+
+@dataclass(frozen=True)
+class StraightenedPlot:
+    """A classical linearisation: a transform under which the mechanism is a straight line.
+
+    Parameters
+    ----------
+    id : str
+        Stable id, e.g. ``"fowler_nordheim_plot"``.
+    title : str
+        Human title, e.g. ``"Fowler-Nordheim plot"``.
+    x_label, y_label : str
+        Axis labels with units.
+    grouping : {"per_temperature", "per_voltage"}
+        One straight line per measured temperature (x from voltage), or one per selected
+        voltage across temperatures (x from temperature, e.g. Arrhenius).
+    transform : callable
+        ``transform(voltage_V, temperature_K, current_A, device) -> (x, y)``, arrays of the
+        input shape; points where the transform is undefined are NaN.
+    interpret : callable
+        ``interpret(slope, intercept, group_value, device) -> dict`` of physical quantities
+        read from one line (group_value is the temperature in K or the voltage in V); keys
+        carry unit suffixes. May return an empty dict when the device lacks a needed value.
+    """
+
+    id: str
+    title: str
+    x_label: str
+    y_label: str
+    grouping: Literal["per_temperature", "per_voltage"]
+    transform: Callable[[FloatArray, FloatArray, FloatArray, Device], tuple[FloatArray, FloatArray]]
+    interpret: Callable[[float, float, float, Device], dict[str, float]]
+
+
+@dataclass(frozen=True)
+class Mechanism:
+    """A conduction mechanism: formula, parameters, straightened plots and source.
+
+    The current is odd in voltage: ``I(V) = sign(V) * magnitude(|V|)``, so both bias
+    polarities are described by one set of parameters (symmetric device).
+    """
+
+    id: str
+    family: Family
+    name: str
+    formula: str
+    source: str
+    parameters: tuple[Parameter, ...]
+    magnitude: MagnitudeFormula
+    plots: tuple[StraightenedPlot, ...] = ()
+    temperature_dependence: str = ""
+    options: Mapping[str, Any] = field(default_factory=dict)
+
+    @property
+    def parameter_names(self) -> tuple[str, ...]:
+        """Parameter names in declaration order (the order of sampled vectors)."""
+        return tuple(p.name for p in self.parameters)
+
+    def parameter(self, name: str) -> Parameter:
+        """Return the declared :class:`Parameter` called ``name``."""
+        for p in self.parameters:
+            if p.name == name:
+                return p
+        known = ", ".join(self.parameter_names)
+        raise UnknownMechanismError(f"{self.id} has no parameter {name!r}; its parameters: {known}")
+
+    def typical_parameters(self) -> dict[str, float]:
+        """A representative parameter set (the declared typical values)."""
+        return {p.name: p.typical for p in self.parameters}
+
+    def current(
+        self,
+        voltage_V: ArrayLike,
+        temperature_K: ArrayLike,
+        params: Mapping[str, ArrayLike],
+        device: Device,
+    ) -> FloatArray:
+        """Current in A at the given biases and temperatures (broadcast with ``params``).
+
+        Parameters
+        ----------
+        voltage_V, temperature_K : array_like
+            Bias in V (either sign) and temperature in K, broadcastable.
+        params : mapping
+            Every declared parameter by name, each a float or an array broadcastable with the
+            data (use shape ``(m, 1)`` to evaluate ``m`` parameter sets at once).
+        device : Device
+            Supplies the electrode area for mechanisms written as a current density.
+
+        Returns
+        -------
+        ndarray
+            Current in A; zero at zero bias; NaN where the formula is outside its domain.
+        """
+        missing = [n for n in self.parameter_names if n not in params]
+        extra = [n for n in params if n not in self.parameter_names]
+        if missing or extra:
+            raise UnknownMechanismError(
+                f"{self.id} needs parameters {', '.join(self.parameter_names)}"
+                + (f"; missing {', '.join(missing)}" if missing else "")
+                + (f"; unknown {', '.join(extra)}" if extra else "")
+            )
+        v = np.asarray(voltage_V, dtype=float)
+        t = np.asarray(temperature_K, dtype=float)
+        values = {k: np.asarray(val, dtype=float) for k, val in params.items()}
+        v_abs = np.abs(v)
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            mag = self.magnitude(np.where(v_abs > 0, v_abs, np.nan), t, device, **values)
+        return np.where(v_abs > 0, np.sign(v) * mag, 0.0)

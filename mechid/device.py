@@ -1,0 +1,214 @@
+"""The device under test: geometry and material constants, each with its uncertainty.
+
+The values become priors in the Bayesian fit (a value with a standard uncertainty becomes a
+truncated Gaussian prior; a value without one is held fixed), so value and uncertainty are
+kept together in :class:`Measured`.
+
+A device description can come from command-line options or from a small TOML file, e.g.::
+
+    # device.toml
+    name = "ALD alumina film, wafer 3, pad B2"
+    thickness_nm = 6.0
+    thickness_sd_nm = 0.3
+    area_cm2 = 1e-4
+    effective_mass_ratio = 0.4
+    effective_mass_sd = 0.05
+    optical_dielectric_constant = 2.9
+    optical_dielectric_constant_sd = 0.2
+"""
+
+from __future__ import annotations
+
+import math
+import tomllib
+from dataclasses import asdict, dataclass, fields, replace
+from pathlib import Path
+from typing import Any
+
+from mechid.errors import DeviceError
+
+#: Keys accepted in a device TOML file, with a one-line meaning each.
+DEVICE_KEYS: dict[str, str] = {
+    "name": "free text naming the sample",
+    "thickness_nm": "film thickness in nm (> 0)",
+    "thickness_sd_nm": "standard uncertainty of the thickness in nm (>= 0)",
+    "area_cm2": "electrode area in cm^2 (> 0)",
+    "effective_mass_ratio": "tunnelling effective mass m*/m0 (> 0)",
+    "effective_mass_sd": "standard uncertainty of m*/m0 (>= 0)",
+    "optical_dielectric_constant": "high-frequency relative permittivity, about n^2 (>= 1)",
+    "optical_dielectric_constant_sd": "standard uncertainty of the optical dielectric constant",
+}
+
+
+@dataclass(frozen=True)
+class Measured:
+    """A measured value with an optional standard uncertainty (same unit as the value).
+
+    Parameters
+    ----------
+    value : float
+        Best estimate.
+    sd : float or None
+        Standard uncertainty; ``None`` or 0 means the value is taken as exact.
+    """
+
+    value: float
+    sd: float | None = None
+
+    @property
+    def is_exact(self) -> bool:
+        """True when no uncertainty was given (the parameter is held fixed in fits)."""
+        return self.sd is None or self.sd == 0.0
+
+
+@dataclass(frozen=True)
+class Device:
+    """Description of the device under test.
+
+    Parameters
+    ----------
+    thickness_nm : Measured or None
+        Insulator (film) thickness in nm.
+    area_cm2 : float or None
+        Electrode area in cm^2, converts current density to current.
+    effective_mass_ratio : Measured or None
+        Tunnelling effective mass m*/m0.
+    optical_dielectric_constant : Measured or None
+        High-frequency relative permittivity (about the square of the refractive index),
+        the one that governs image-force and Poole-Frenkel barrier lowering (Sze & Ng 2007).
+    name : str or None
+        Free text naming the sample.
+    """
+
+    thickness_nm: Measured | None = None
+    area_cm2: float | None = None
+    effective_mass_ratio: Measured | None = None
+    optical_dielectric_constant: Measured | None = None
+    name: str | None = None
+
+    def __post_init__(self) -> None:
+        _check_measured("thickness_nm", self.thickness_nm, minimum=0.0, strict=True)
+        _check_measured("effective_mass_ratio", self.effective_mass_ratio, minimum=0.0, strict=True)
+        _check_measured(
+            "optical_dielectric_constant", self.optical_dielectric_constant, minimum=1.0,
+            strict=False,
+        )
+        if self.area_cm2 is not None and not (math.isfinite(self.area_cm2) and self.area_cm2 > 0):
+            raise DeviceError(f"area_cm2 must be a positive number of cm^2, got {self.area_cm2!r}")
+
+    def merged_with(self, other: Device) -> Device:
+        """Return a copy where every value set in ``other`` replaces the one here."""
+        updates = {f.name: getattr(other, f.name) for f in fields(other)
+                   if getattr(other, f.name) is not None}
+        return replace(self, **updates)
+
+    def require_area(self) -> float:
+        """Return the area in cm^2, or raise a :class:`DeviceError` saying how to give it."""
+        if self.area_cm2 is None:
+            raise DeviceError(
+                "the electrode area is needed to turn current density into current; "
+                "give it with --area-cm2 or as area_cm2 in the device TOML file"
+            )
+        return self.area_cm2
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain-JSON form: ``{"thickness_nm": {"value": 6.0, "sd": 0.3}, ...}``."""
+        return asdict(self)
+
+
+def _check_measured(name: str, m: Measured | None, *, minimum: float, strict: bool) -> None:
+    if m is None:
+        return
+    ok = math.isfinite(m.value) and (m.value > minimum if strict else m.value >= minimum)
+    if not ok:
+        relation = ">" if strict else ">="
+        raise DeviceError(f"{name} must be a finite number {relation} {minimum:g}, got {m.value!r}")
+    if m.sd is not None and not (math.isfinite(m.sd) and m.sd >= 0):
+        raise DeviceError(f"the uncertainty of {name} must be a finite number >= 0, got {m.sd!r}")
+
+
+def _measured(value: float | None, sd: float | None) -> Measured | None:
+    return None if value is None else Measured(float(value), None if sd is None else float(sd))
+
+
+def device_from_values(
+    *,
+    thickness_nm: float | None = None,
+    thickness_sd_nm: float | None = None,
+    area_cm2: float | None = None,
+    effective_mass_ratio: float | None = None,
+    effective_mass_sd: float | None = None,
+    optical_dielectric_constant: float | None = None,
+    optical_dielectric_constant_sd: float | None = None,
+    name: str | None = None,
+) -> Device:
+    """Build a :class:`Device` from plain numbers (the CLI options and TOML keys).
+
+    Raises
+    ------
+    DeviceError
+        If an uncertainty is given without its value, or a value is impossible.
+    """
+    pairs = [
+        ("thickness_nm", thickness_nm, "thickness_sd_nm", thickness_sd_nm),
+        ("effective_mass_ratio", effective_mass_ratio, "effective_mass_sd", effective_mass_sd),
+        ("optical_dielectric_constant", optical_dielectric_constant,
+         "optical_dielectric_constant_sd", optical_dielectric_constant_sd),
+    ]
+    for value_name, value, sd_name, sd in pairs:
+        if value is None and sd is not None:
+            raise DeviceError(f"{sd_name} was given without {value_name}")
+    return Device(
+        thickness_nm=_measured(thickness_nm, thickness_sd_nm),
+        area_cm2=None if area_cm2 is None else float(area_cm2),
+        effective_mass_ratio=_measured(effective_mass_ratio, effective_mass_sd),
+        optical_dielectric_constant=_measured(
+            optical_dielectric_constant, optical_dielectric_constant_sd
+        ),
+        name=name,
+    )
+
+
+def read_device_toml(path: Path) -> Device:
+    """Read a device description from a TOML file (keys listed in :data:`DEVICE_KEYS`).
+
+    Raises
+    ------
+    DeviceError
+        Naming the file and the offending key when the file cannot be used.
+    """
+    try:
+        with open(path, "rb") as handle:
+            raw = tomllib.load(handle)
+    except OSError as exc:
+        raise DeviceError(f"{path}: cannot read the device file ({exc.strerror})") from None
+    except tomllib.TOMLDecodeError as exc:
+        raise DeviceError(f"{path}: not valid TOML ({exc})") from None
+    unknown = sorted(set(raw) - set(DEVICE_KEYS))
+    if unknown:
+        known = ", ".join(DEVICE_KEYS)
+        raise DeviceError(f"{path}: unknown key(s) {', '.join(unknown)}; known keys: {known}")
+    values: dict[str, Any] = {}
+    for key, value in raw.items():
+        if key == "name":
+            values[key] = str(value)
+            continue
+        if isinstance(value, bool) or not isinstance(value, int | float):
+            raise DeviceError(f"{path}: {key} must be a number ({DEVICE_KEYS[key]}), got {value!r}")
+        values[key] = float(value)
+    try:
+        return device_from_values(**values)
+    except DeviceError as exc:
+        raise DeviceError(f"{path}: {exc}") from None
+
+
+def find_device_toml(data_path: Path) -> Path | None:
+    """Return the device file that sits beside a data file or inside a data folder, if any.
+
+    Looked for, in order: ``<data stem>.device.toml`` beside a file, then ``device.toml`` in
+    the same folder (or inside the folder when ``data_path`` is a folder).
+    """
+    folder = data_path if data_path.is_dir() else data_path.parent
+    candidates = [] if data_path.is_dir() else [data_path.with_name(f"{data_path.stem}.device.toml")]
+    candidates.append(folder / "device.toml")
+    return next((c for c in candidates if c.is_file()), None)
