@@ -1,0 +1,273 @@
+"""The main job: read -> linearise -> fit and compare -> results.
+
+:func:`run_analysis` takes a validated :class:`~mechid.data.IVSeries` and a
+:class:`~mechid.device.Device`, and returns an :class:`~mechid.results.AnalysisResult`.
+It prints nothing; progress is reported through an optional callback.
+"""
+
+from __future__ import annotations
+
+import time
+from collections.abc import Callable
+from dataclasses import asdict, dataclass, field
+from typing import Any, Literal
+
+import numpy as np
+
+from mechid.catalogue import MECHANISMS, get_mechanism
+from mechid.catalogue.base import Mechanism
+from mechid.data import IVSeries
+from mechid.device import Device
+from mechid.errors import MechidError
+from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
+from mechid.inference.fit import MechanismFit, fit_mechanism
+from mechid.inference.tempering import LadderSettings
+from mechid.linearise import LinearisationResult, linearise
+from mechid.results import AnalysisResult, MechanismResult, Verdict
+
+ProgressHook = Callable[[str, int, int], None]
+Polarity = Literal["both", "positive", "negative"]
+
+#: Ladder settings of a full and of a quick run (see benchmarks/ for the evidence errors).
+FULL_LADDER = {"n_temperatures": 12, "n_burn": 300, "n_production": 600}
+QUICK_LADDER = {"n_temperatures": 8, "n_burn": 150, "n_production": 250}
+
+
+@dataclass(frozen=True)
+class AnalysisSettings:
+    """Choices of one analysis run.
+
+    Parameters
+    ----------
+    mechanisms : tuple of str, optional
+        Mechanism ids to fit (all when None).
+    quick : bool
+        Shorter ladder (rougher evidences, for a first look).
+    screen_only : bool
+        Run only the linearisation tests.
+    polarity : {"both", "positive", "negative"}
+        Which bias points enter the fit (both: joint fit of a symmetric device).
+    prior_odds : dict, optional
+        Relative prior weight per mechanism id (equal when omitted).
+    """
+
+    mechanisms: tuple[str, ...] | None = None
+    quick: bool = False
+    screen_only: bool = False
+    polarity: Polarity = "both"
+    prior_odds: dict[str, float] | None = None
+    ladder_overrides: dict[str, Any] = field(default_factory=dict)
+
+    def ladder(self) -> LadderSettings:
+        """The tempered-ladder settings these choices imply."""
+        base = dict(QUICK_LADDER if self.quick else FULL_LADDER)
+        base.update(self.ladder_overrides)
+        return LadderSettings(**base)
+
+
+@dataclass
+class AnalysisRun:
+    """The result plus the in-memory fits (for figures); only ``result`` is serialised."""
+
+    result: AnalysisResult
+    linearisation: LinearisationResult
+    fits: dict[str, MechanismFit]
+    series: IVSeries
+    device: Device
+
+
+def select_polarity(series: IVSeries, polarity: Polarity) -> np.ndarray:
+    """Boolean mask of the points that enter the fit."""
+    if polarity == "both":
+        return np.ones(series.n_points, dtype=bool)
+    if polarity == "positive":
+        return series.voltage_V > 0
+    if polarity == "negative":
+        return series.voltage_V < 0
+    raise MechidError(f"--polarity must be both, positive or negative, got {polarity!r}")
+
+
+def run_analysis(
+    series: IVSeries,
+    device: Device,
+    settings: AnalysisSettings | None = None,
+    seed: int | None = 0,
+    progress: ProgressHook | None = None,
+) -> AnalysisResult:
+    """Run the whole job and return the serialisable result (see :func:`run_analysis_full`)."""
+    return run_analysis_full(series, device, settings, seed, progress).result
+
+
+def run_analysis_full(
+    series: IVSeries,
+    device: Device,
+    settings: AnalysisSettings | None = None,
+    seed: int | None = 0,
+    progress: ProgressHook | None = None,
+) -> AnalysisRun:
+    """Linearise, fit every mechanism jointly, rank them and collect cautions.
+
+    Raises
+    ------
+    MechidError
+        If a density-type mechanism is asked for without an electrode area, or a polarity
+        selection leaves no points.
+    """
+    settings = settings or AnalysisSettings()
+    started = time.perf_counter()
+    mask = select_polarity(series, settings.polarity)
+    if mask.sum() < 3:
+        raise MechidError(f"no data points left for --polarity {settings.polarity}")
+    lin = linearise(series, device)
+    mechanisms = _selected_mechanisms(settings)
+    fits: dict[str, MechanismFit] = {}
+    if not settings.screen_only:
+        device.require_area()
+        master = np.random.default_rng(seed)
+        children = master.spawn(len(mechanisms))
+        hints = _linearisation_hints(lin)
+        for mechanism, child in zip(mechanisms, children, strict=True):
+            hook = None
+            if progress is not None:
+                label = f"fitting {mechanism.id}"
+
+                def hook(done: int, total: int, _label: str = label) -> None:
+                    progress(_label, done, total)
+
+            fits[mechanism.id] = fit_mechanism(
+                mechanism, series.voltage_V[mask], series.temperature_K[mask],
+                series.current_A[mask], device, settings.ladder(), child,
+                hints=hints.get(mechanism.id), progress=hook,
+            )
+    results = _ranked_results(fits, settings)
+    verdict = _verdict(results) if results else None
+    result = AnalysisResult(
+        input={**series.summary(), "polarity": settings.polarity,
+               "n_points_fitted": int(mask.sum())},
+        device=device.to_dict(),
+        linearisation=lin.to_dict(),
+        mechanisms=results,
+        verdict=verdict,
+        settings={**asdict(settings), "ladder": asdict(settings.ladder()),
+                  "wall_time_s": time.perf_counter() - started},
+        cautions=cautions(series, device, results, verdict),
+        seed=seed,
+    )
+    return AnalysisRun(result, lin, fits, series, device)
+
+
+def _selected_mechanisms(settings: AnalysisSettings) -> list[Mechanism]:
+    if settings.mechanisms is None:
+        return list(MECHANISMS)
+    return [get_mechanism(m) for m in settings.mechanisms]
+
+
+def _linearisation_hints(lin: LinearisationResult) -> dict[str, dict[str, float]]:
+    """Parameter values read from the straightened plots, keyed by mechanism id."""
+    hints: dict[str, dict[str, float]] = {}
+    for entry in lin.mechanisms:
+        values = {k: float(v) for k, v in entry.summary.items()
+                  if isinstance(v, int | float) and np.isfinite(v)}
+        hints[entry.mechanism_id] = values
+    return hints
+
+
+def _ranked_results(fits: dict[str, MechanismFit], settings: AnalysisSettings) -> list[MechanismResult]:
+    if not fits:
+        return []
+    ranking = rank_mechanisms(
+        {k: f.result.log_evidence for k, f in fits.items()},
+        {k: f.result.log_evidence_err for k, f in fits.items()},
+        prior_odds=settings.prior_odds,
+    )
+    ordered = []
+    for i, mechanism_id in enumerate(ranking.ids):
+        r = fits[mechanism_id].result
+        r.probability = ranking.probability[i]
+        r.probability_err = ranking.probability_err[i]
+        r.ln_bayes_factor_vs_best = ranking.ln_bayes_factor_vs_best[i]
+        r.ln_bayes_factor_vs_best_err = ranking.ln_bayes_factor_vs_best_err[i]
+        ordered.append(r)
+    return ordered
+
+
+def _verdict(results: list[MechanismResult]) -> Verdict:
+    best = results[0]
+    runner = results[1] if len(results) > 1 else None
+    ln_b = -runner.ln_bayes_factor_vs_best if runner else float("inf")
+    ln_b_err = runner.ln_bayes_factor_vs_best_err if runner else 0.0
+    strength = kass_raftery_wording(ln_b) if runner else "only one mechanism fitted"
+    resolved = runner is None or ln_b > 2 * ln_b_err
+    return Verdict(
+        id=best.id, family=best.family, probability=best.probability,
+        ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=ln_b_err,
+        runner_up=runner.id if runner else None, strength=strength, resolved=resolved,
+        fit_adequate=best.fit_adequate,
+        sentence=verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved),
+    )
+
+
+def _format_parameter(name: str, summary: Any) -> str:
+    unit = "" if summary.unit in ("", "1") else f" {summary.unit}"
+    if summary.fixed:
+        return f"{name} = {summary.median:.4g}{unit} (held fixed)"
+    lo68, hi68 = summary.ci68
+    lo95, hi95 = summary.ci95
+    return (f"{name} = {summary.median:.4g}{unit} (68 %: {lo68:.4g} to {hi68:.4g}; "
+            f"95 %: {lo95:.4g} to {hi95:.4g})")
+
+
+def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b: float,
+                     ln_b_err: float, strength: str, resolved: bool) -> str:
+    """The headline in plain words, with the numbers of the run."""
+    physical = [k for k, s in best.parameters.items()
+                if not k.startswith("noise_") and not s.fixed]
+    params = "; ".join(_format_parameter(k, best.parameters[k]) for k in physical)
+    text = (f"{best.name} ({best.id}) is the most probable mechanism, with posterior "
+            f"probability {best.probability:.3g}")
+    if runner is not None:
+        text += (f"; the Bayes factor against the runner-up, {runner.name}, is "
+                 f"ln B = {ln_b:.2f} ± {ln_b_err:.2f} ({strength} on the Kass & Raftery scale"
+                 + ("" if resolved else ", not resolved within the Monte Carlo error") + ")")
+    text += f". Parameters: {params}." if params else "."
+    text += (" The fit is adequate (posterior predictive checks passed)." if best.fit_adequate
+             else " But the fit is NOT adequate: " + "; ".join(best.adequacy.get("reasons", []))
+             + ", so no mechanism in the catalogue describes these data well.")
+    return text
+
+
+def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
+             verdict: Verdict | None) -> list[str]:
+    """Plain statements of what these data cannot distinguish."""
+    notes: list[str] = []
+    temps = series.temperatures
+    if len(temps) < 3:
+        notes.append(f"only {len(temps)} temperature(s): the temperature dependence that separates "
+                     "emission and hopping from tunnelling is poorly constrained")
+    elif temps.max() / temps.min() < 1.5:
+        notes.append(f"narrow temperature window ({temps.min():g}-{temps.max():g} K): activation "
+                     "energies and hopping exponents are weakly determined")
+    magnitude = np.abs(series.current_A[series.current_A != 0])
+    if magnitude.size and np.log10(magnitude.max() / magnitude.min()) < 2:
+        notes.append("the current spans fewer than two decades: straightened plots and exponents "
+                     "are hard to tell apart")
+    if not (np.any(series.voltage_V > 0) and np.any(series.voltage_V < 0)):
+        notes.append("only one bias polarity was measured: bulk-limited (symmetric) and "
+                     "electrode-limited (asymmetric) conduction cannot be told apart")
+    if device.optical_dielectric_constant is None:
+        notes.append("no optical dielectric constant was given: the dielectric constants read from "
+                     "Schottky and Poole-Frenkel slopes cannot be checked against n^2")
+    if device.thickness_nm is None:
+        notes.append("no film thickness was given: field-dependent parameters are degenerate with "
+                     "the thickness")
+    if verdict is not None and not verdict.resolved:
+        notes.append("the leading mechanism's margin is within twice the Monte Carlo error of the "
+                     "evidences: run longer (without --quick) before quoting the ranking")
+    if verdict is not None and not verdict.fit_adequate:
+        notes.append("the leading mechanism fails its posterior predictive checks: report it as the "
+                     "best of the candidates, not as the mechanism")
+    for r in results:
+        flags = r.sampling.get("flags", [])
+        if flags:
+            notes.append(f"{r.id}: sampler flags {', '.join(flags)}")
+    return notes

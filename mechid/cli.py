@@ -1,0 +1,339 @@
+"""The ``mechid`` command line (typer). The only module that prints or sets up logging."""
+
+from __future__ import annotations
+
+import logging
+import sys
+import warnings
+from collections.abc import Iterator
+from contextlib import contextmanager
+from pathlib import Path
+from typing import Annotated
+
+import numpy as np
+import typer
+from rich.console import Console
+from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeElapsedColumn
+from rich.table import Table
+
+from mechid import __version__
+from mechid.catalogue import MECHANISMS, get_mechanism, mechanism_ids
+from mechid.device import Device, device_from_values, find_device_toml, read_device_toml
+from mechid.errors import MechidError, MechidWarning
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    pretty_exceptions_enable=False,
+    help="Identify the conduction mechanism of thin films and junctions from I-V-T data.",
+)
+out = Console()
+err = Console(stderr=True)
+
+USER_ERROR_EXIT = 2
+
+
+def _fail(message: str) -> typer.Exit:
+    err.print(f"[bold red]error:[/] {message}", highlight=False, markup=True, soft_wrap=True)
+    return typer.Exit(code=USER_ERROR_EXIT)
+
+
+@contextmanager
+def _user_errors() -> Iterator[None]:
+    """Turn mechid errors into a clear message and exit code 2; show our warnings plainly."""
+
+    def show(message, category, filename, lineno, file=None, line=None):  # noqa: ANN001
+        if issubclass(category, MechidWarning):
+            err.print(f"[yellow]warning:[/] {message}", highlight=False, soft_wrap=True)
+        else:
+            logging.getLogger("mechid").debug("%s: %s", category.__name__, message)
+
+    previous = warnings.showwarning
+    warnings.showwarning = show
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("always", MechidWarning)
+            yield
+    except MechidError as exc:
+        raise _fail(str(exc)) from None
+    finally:
+        warnings.showwarning = previous
+
+
+def _version(value: bool) -> None:
+    if value:
+        out.print(f"mechid {__version__}")
+        raise typer.Exit()
+
+
+@app.callback()
+def main(
+    version: Annotated[bool, typer.Option("--version", callback=_version, is_eager=True,
+                                          help="Print the version and exit.")] = False,
+    verbose: Annotated[bool, typer.Option("--verbose", "-v", help="Log details to stderr.")] = False,
+) -> None:
+    """Identify the conduction mechanism of thin films and junctions from I-V-T data."""
+    logging.basicConfig(level=logging.INFO if verbose else logging.WARNING,
+                        format="%(levelname)s %(name)s: %(message)s", stream=sys.stderr)
+
+
+def _parse_number_list(text: str, option: str) -> list[float]:
+    """Parse ``"77,150,300"`` or a range ``"start:stop:count"`` (inclusive, evenly spaced)."""
+    text = text.strip()
+    try:
+        if ":" in text:
+            start, stop, count = text.split(":")
+            n = int(count)
+            if n < 1:
+                raise ValueError
+            return list(np.linspace(float(start), float(stop), n))
+        return [float(part) for part in text.split(",") if part.strip()]
+    except ValueError:
+        raise _fail(
+            f"{option} expects comma-separated numbers (e.g. 77,150,300) or start:stop:count "
+            f"(e.g. 0.05:2:40), got {text!r}"
+        ) from None
+
+
+def _parse_params(items: list[str], mechanism_id: str) -> dict[str, float]:
+    mechanism = get_mechanism(mechanism_id)
+    params: dict[str, float] = {}
+    for item in items:
+        name, sep, value = item.partition("=")
+        if not sep:
+            raise _fail(f"--param expects NAME=VALUE, got {item!r}")
+        mechanism.parameter(name.strip())
+        try:
+            params[name.strip()] = float(value)
+        except ValueError:
+            raise _fail(f"--param {name.strip()}: {value!r} is not a number") from None
+    return params
+
+
+def _device(
+    data: Path | None,
+    device_file: Path | None,
+    **values: float | None,
+) -> tuple[Device, Path | None]:
+    base = Device()
+    used = device_file or (find_device_toml(data) if data is not None else None)
+    if used is not None:
+        base = read_device_toml(used)
+    return base.merged_with(device_from_values(**values)), used
+
+
+ThicknessOpt = Annotated[float | None, typer.Option("--thickness-nm", help="Film thickness in nm.")]
+ThicknessSdOpt = Annotated[float | None, typer.Option(
+    "--thickness-sd-nm", help="Standard uncertainty of the thickness (nm); omit to hold it fixed.")]
+AreaOpt = Annotated[float | None, typer.Option("--area-cm2", help="Electrode area in cm^2.")]
+MassOpt = Annotated[float | None, typer.Option(
+    "--effective-mass", help="Tunnelling effective mass ratio m*/m0.")]
+MassSdOpt = Annotated[float | None, typer.Option(
+    "--effective-mass-sd", help="Standard uncertainty of m*/m0.")]
+EpsOpt = Annotated[float | None, typer.Option(
+    "--optical-dielectric-constant", help="High-frequency relative permittivity (about n^2).")]
+EpsSdOpt = Annotated[float | None, typer.Option(
+    "--optical-dielectric-constant-sd", help="Standard uncertainty of the optical dielectric constant.")]
+SeedOpt = Annotated[int, typer.Option("--seed", help="Random seed; the same seed gives the same numbers.")]
+
+
+@app.command("mechanisms")
+def list_mechanisms() -> None:
+    """List every catalogued mechanism: formula, parameters with units and ranges, source."""
+    for m in MECHANISMS:
+        out.rule(f"[bold]{m.id}[/]  ({m.family}) {m.name}")
+        out.print(f"  I = {m.formula}", highlight=False)
+        out.print(f"  source: {m.source}", highlight=False)
+        if m.temperature_dependence:
+            out.print(f"  temperature dependence: {m.temperature_dependence}", highlight=False)
+        table = Table(show_header=True, header_style="bold", box=None, pad_edge=False)
+        for column in ("parameter", "unit", "range", "prior", "from device", "meaning"):
+            table.add_column(column)
+        for p in m.parameters:
+            table.add_row(p.name, p.unit, f"{p.lower:g} .. {p.upper:g}",
+                          "log-uniform" if p.log_scale else "uniform", p.device_prior or "",
+                          p.description)
+        out.print(table)
+        if m.plots:
+            out.print("  straightened plots: " + "; ".join(
+                f"{pl.title} ({pl.y_label} vs {pl.x_label})" for pl in m.plots), highlight=False)
+
+
+@app.command("simulate")
+def simulate_command(
+    mechanism_id: Annotated[str, typer.Argument(
+        metavar="MECHANISM_ID", help=f"One of: {', '.join(mechanism_ids())}.")],
+    out_path: Annotated[Path, typer.Option("--out", help="CSV file to write (never overwritten).")],
+    param: Annotated[list[str], typer.Option(
+        "--param", help="NAME=VALUE for each parameter (see `mechid mechanisms`).")] = [],  # noqa: B006
+    temperatures: Annotated[str, typer.Option(
+        "--temperatures-K", help="Temperatures: 77,150,300 or start:stop:count.")] = "300",
+    voltages: Annotated[str, typer.Option(
+        "--voltages-V", help="Biases: 0.1,0.2 or start:stop:count (either sign).")] = "0.1:1:10",
+    noise_relative: Annotated[float, typer.Option(
+        "--noise-relative", help="Relative noise sd (0.02 = 2 %).")] = 0.0,
+    noise_floor: Annotated[float, typer.Option(
+        "--noise-floor-A", help="Absolute noise floor sd in A.")] = 0.0,
+    area: AreaOpt = None,
+    seed: SeedOpt = 0,
+) -> None:
+    """Write model currents of one mechanism on a temperature x voltage grid as a tidy CSV."""
+    from mechid.data import write_series_csv
+    from mechid.simulate import simulate_series
+
+    with _user_errors():
+        mechanism = get_mechanism(mechanism_id)
+        params = _parse_params(param, mechanism_id)
+        device = device_from_values(area_cm2=area)
+        if area is None and any(p.device_prior == "thickness_nm" for p in mechanism.parameters):
+            raise MechidError(f"{mechanism_id} gives a current density; pass --area-cm2")
+        result = simulate_series(
+            mechanism, params,
+            _parse_number_list(temperatures, "--temperatures-K"),
+            _parse_number_list(voltages, "--voltages-V"),
+            device, noise_relative=noise_relative, noise_floor_A=noise_floor,
+            rng=np.random.default_rng(seed),
+        )
+        write_series_csv(result, out_path)
+    err.print(f"wrote {result.current_A.size} points to {out_path}")
+
+
+def _progress_hook(progress: Progress):  # noqa: ANN202
+    tasks: dict[str, int] = {}
+
+    def hook(label: str, done: int, total: int) -> None:
+        if label not in tasks:
+            tasks[label] = progress.add_task(label, total=total)
+        progress.update(tasks[label], completed=done, total=total)
+
+    return hook
+
+
+@app.command("analyze")
+def analyze_command(
+    data: Annotated[Path, typer.Argument(
+        help="A tidy CSV (temperature, voltage, current) or a folder of per-temperature files.")],
+    thickness_nm: ThicknessOpt = None,
+    thickness_sd_nm: ThicknessSdOpt = None,
+    area_cm2: AreaOpt = None,
+    effective_mass: MassOpt = None,
+    effective_mass_sd: MassSdOpt = None,
+    optical_dielectric_constant: EpsOpt = None,
+    optical_dielectric_constant_sd: EpsSdOpt = None,
+    device_file: Annotated[Path | None, typer.Option(
+        "--device", help="Device TOML file (default: device.toml beside the data).")] = None,
+    json_path: Annotated[Path | None, typer.Option("--json", help="Write the result as JSON.")] = None,
+    samples_path: Annotated[Path | None, typer.Option(
+        "--samples", help="Write posterior draws to a .npz file.")] = None,
+    report_path: Annotated[Path | None, typer.Option(
+        "--report", help="Write a self-contained HTML evidence report.")] = None,
+    figures_dir: Annotated[Path | None, typer.Option(
+        "--figures", help="Also write each report figure as PNG and PDF into this folder.")] = None,
+    summary_path: Annotated[Path | None, typer.Option(
+        "--summary", help="Write one CSV row per mechanism and parameter.")] = None,
+    only: Annotated[list[str], typer.Option(
+        "--mechanism", help="Fit only these mechanism ids (repeatable; default: all).")] = [],  # noqa: B006
+    screen_only: Annotated[bool, typer.Option(
+        "--screen-only", help="Run only the straightened-plot tests (no Bayesian fit).")] = False,
+    quick: Annotated[bool, typer.Option(
+        "--quick", help="Shorter chains and fewer temperatures on the ladder (rougher evidences).")] = False,
+    polarity: Annotated[str, typer.Option(
+        "--polarity", help="both (joint fit), positive or negative: which bias points to fit.")] = "both",
+    seed: SeedOpt = 0,
+) -> None:
+    """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""
+    from mechid.analysis import AnalysisSettings, run_analysis
+    from mechid.data import read_series
+
+    with _user_errors():
+        for path in (json_path, samples_path, report_path, summary_path):
+            if path is not None and path.resolve() == data.resolve():
+                raise MechidError(f"refusing to overwrite the input {data}")
+        series = read_series(data)
+        device, used = _device(
+            data, device_file, thickness_nm=thickness_nm, thickness_sd_nm=thickness_sd_nm,
+            area_cm2=area_cm2, effective_mass_ratio=effective_mass,
+            effective_mass_sd=effective_mass_sd,
+            optical_dielectric_constant=optical_dielectric_constant,
+            optical_dielectric_constant_sd=optical_dielectric_constant_sd,
+        )
+        if used is not None:
+            err.print(f"device description from {used}", highlight=False)
+        for mechanism_id in only:
+            get_mechanism(mechanism_id)
+        settings = AnalysisSettings(
+            mechanisms=tuple(only) or None, quick=quick, screen_only=screen_only,
+            polarity=polarity,
+        )
+        with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
+                      TimeElapsedColumn(), console=err, transient=False,
+                      disable=not err.is_terminal) as progress:
+            result = run_analysis(series, device, settings, seed=seed,
+                                  progress=_progress_hook(progress))
+        _print_result(result)
+        _write_outputs(result, json_path, samples_path, report_path, figures_dir, summary_path)
+
+
+def _write_outputs(result, json_path, samples_path, report_path, figures_dir, summary_path) -> None:  # noqa: ANN001
+    from mechid.results import write_json, write_samples
+
+    if json_path is not None:
+        write_json(result, json_path)
+        err.print(f"result JSON written to {json_path}")
+    if samples_path is not None:
+        write_samples(result, samples_path)
+        err.print(f"posterior draws written to {samples_path}")
+    if report_path is not None or figures_dir is not None or summary_path is not None:
+        from mechid.report import write_outputs
+
+        for written in write_outputs(result, report=report_path, figures_dir=figures_dir,
+                                     summary=summary_path):
+            err.print(f"written {written}")
+
+
+def _print_result(result) -> None:  # noqa: ANN001
+    from mechid.report.console import render_console
+
+    render_console(result, out)
+
+
+@app.command("demo")
+def demo_command(
+    out_dir: Annotated[Path, typer.Option("--out", help="Folder for the demo outputs.")] = Path(
+        "mechid-demo"),
+    quick: Annotated[bool, typer.Option("--quick", help="Shorter chains (rougher evidences).")] = False,
+    seed: SeedOpt = 0,
+) -> None:
+    """Analyse the shipped demo series and write JSON and report into ./mechid-demo/."""
+    from mechid.analysis import AnalysisSettings, run_analysis
+    from mechid.demo import demo_series_path
+    from mechid.results import write_json
+
+    with _user_errors():
+        data = demo_series_path()
+        series_device = read_device_toml(find_device_toml(data))  # type: ignore[arg-type]
+        from mechid.data import read_series
+
+        series = read_series(data)
+        out_dir.mkdir(parents=True, exist_ok=True)
+        err.print(f"demo data: {data}", highlight=False)
+        with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
+                      TimeElapsedColumn(), console=err, disable=not err.is_terminal) as progress:
+            result = run_analysis(series, series_device, AnalysisSettings(quick=quick), seed=seed,
+                                  progress=_progress_hook(progress))
+        _print_result(result)
+        json_path = out_dir / "result.json"
+        write_json(result, json_path)
+        written = [json_path]
+        try:
+            from mechid.report import write_outputs
+        except ImportError:
+            write_outputs = None
+        if write_outputs is not None:
+            written += write_outputs(result, report=out_dir / "report.html",
+                                     figures_dir=None, summary=out_dir / "summary.csv")
+        err.print("demo outputs written to " + ", ".join(str(p) for p in written), highlight=False)
+
+
+if __name__ == "__main__":  # pragma: no cover
+    app()

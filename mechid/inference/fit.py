@@ -1,0 +1,144 @@
+"""Joint fit of one mechanism: MAP start, tempered ladder, evidence, summaries, adequacy."""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import NDArray
+
+from mechid.catalogue.base import Mechanism
+from mechid.device import Device
+from mechid.inference.adequacy import AdequacyCheck, check_adequacy
+from mechid.inference.evidence import EvidenceResult, estimate_evidence
+from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.priors import mechanism_priors
+from mechid.inference.start import find_map
+from mechid.inference.tempering import LadderRun, LadderSettings
+from mechid.results import MechanismResult, ParameterSummary, summarise_draws
+
+#: Correlations with |r| at least this large are listed in the results.
+NOTABLE_CORRELATION = 0.5
+
+
+@dataclass
+class MechanismFit:
+    """A fitted mechanism: the target, the sampler run, the evidence and the summaries."""
+
+    target: MechanismTarget
+    run: LadderRun
+    evidence: EvidenceResult
+    draws_internal: NDArray
+    map_internal: NDArray
+    adequacy: AdequacyCheck
+    result: MechanismResult
+
+
+def posterior_draws(run: LadderRun, max_draws: int = 4000) -> NDArray:
+    """Cold-chain draws in internal coordinates, shape ``(s, ndim)`` (production part only)."""
+    chain = np.asarray(run.cold_chain)  # (steps, walkers, ndim)
+    flat = chain.reshape(-1, chain.shape[-1])
+    if len(flat) > max_draws:
+        flat = flat[np.linspace(0, len(flat) - 1, max_draws).astype(int)]
+    return flat
+
+
+def fit_mechanism(
+    mechanism: Mechanism,
+    voltage_V: NDArray,
+    temperature_K: NDArray,
+    current_A: NDArray,
+    device: Device,
+    settings: LadderSettings,
+    rng: np.random.Generator,
+    hints: Mapping[str, float] | None = None,
+    progress: Callable[[int, int], None] | None = None,
+) -> MechanismFit:
+    """Fit one mechanism jointly to all points and estimate its evidence.
+
+    Parameters
+    ----------
+    mechanism : Mechanism
+        Catalogue declaration.
+    voltage_V, temperature_K, current_A : ndarray
+        Kept data points.
+    device : Device
+        Device description (priors and area).
+    settings : LadderSettings
+        Tempered-ladder settings.
+    rng : numpy.random.Generator
+        The one source of randomness of this fit.
+    hints : mapping, optional
+        Starting values from the linearisation tests.
+    progress : callable, optional
+        ``progress(done, total)`` during sampling.
+    """
+    priors = mechanism_priors(mechanism, device, current_A)
+    target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
+    start = find_map(target, rng, hints)
+    run, evidence = estimate_evidence(target, settings, rng, start=start, progress=progress)
+    draws = posterior_draws(run)
+    adequacy = check_adequacy(target, draws, rng)
+    result = _mechanism_result(mechanism, target, evidence, draws, start, adequacy)
+    return MechanismFit(target, run, evidence, draws, start, adequacy, result)
+
+
+def _mechanism_result(
+    mechanism: Mechanism,
+    target: MechanismTarget,
+    evidence: EvidenceResult,
+    draws: NDArray,
+    start: NDArray,
+    adequacy: AdequacyCheck,
+) -> MechanismResult:
+    physical = target.physical_values(draws)
+    best = target.physical_values(start[None, :])
+    summaries: dict[str, ParameterSummary] = {}
+    samples: dict[str, NDArray] = {}
+    for prior in target.priors:
+        values = physical[prior.name][:, 0]
+        if prior.is_fixed:
+            v = float(prior.value)
+            summaries[prior.name] = ParameterSummary(prior.name, prior.unit, v, (v, v), (v, v), True)
+        else:
+            summaries[prior.name] = summarise_draws(prior.name, prior.unit, values)
+            samples[prior.name] = values
+    return MechanismResult(
+        id=mechanism.id, family=mechanism.family, name=mechanism.name,
+        formula=mechanism.formula, source=mechanism.source,
+        log_evidence=float(evidence.log_evidence), log_evidence_err=float(evidence.log_evidence_err),
+        fit_adequate=adequacy.adequate, adequacy=adequacy.to_dict(),
+        priors=[p.to_dict() for p in target.priors],
+        parameters=summaries,
+        correlations=_correlations(target.names, draws),
+        evidence=evidence.to_dict(),
+        sampling=_sampling_summary(evidence, draws),
+        map_parameters={k: float(v[0, 0]) for k, v in best.items()},
+        draws=samples,
+    )
+
+
+def _correlations(names: tuple[str, ...], draws: NDArray) -> dict[str, object]:
+    """Posterior correlation matrix (internal coordinates) and the notable pairs."""
+    if draws.shape[1] < 2:
+        return {"names": list(names), "matrix": [[1.0]], "notable": []}
+    with np.errstate(invalid="ignore", divide="ignore"):
+        matrix = np.corrcoef(draws, rowvar=False)
+    notable = [
+        {"a": names[i], "b": names[j], "r": float(matrix[i, j])}
+        for i in range(len(names)) for j in range(i + 1, len(names))
+        if np.isfinite(matrix[i, j]) and abs(matrix[i, j]) >= NOTABLE_CORRELATION
+    ]
+    notable.sort(key=lambda item: -abs(item["r"]))
+    return {"names": list(names), "matrix": matrix.tolist(), "notable": notable}
+
+
+def _sampling_summary(evidence: EvidenceResult, draws: NDArray) -> dict[str, object]:
+    return {
+        "n_draws": int(len(draws)),
+        "autocorr_time": list(np.atleast_1d(evidence.autocorr_time).astype(float)),
+        "effective_sample_size": float(evidence.effective_sample_size),
+        "n_likelihood_calls": int(evidence.n_likelihood_calls),
+        "flags": list(evidence.flags),
+    }

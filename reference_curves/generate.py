@@ -1,0 +1,168 @@
+"""Regenerate the invented reference I-V-T series from the mechid catalogue.
+
+Every series is a scenario of our own (the fictional "Larkfield Thin-Film Laboratory"), made
+by our own models with the true values written beside the data. Run from the repo root::
+
+    python reference_curves/generate.py            # refuses to overwrite existing files
+    python reference_curves/generate.py --force    # rewrite everything
+
+Each folder gets ``data.csv`` (tidy: temperature_K, voltage_V, current_A), ``device.toml``
+(what the experimenter knows, with uncertainties) and ``truth.json`` (the true parameters,
+noise model, grid and seed). The first scenario is also copied into the package as the demo.
+"""
+
+from __future__ import annotations
+
+import json
+import shutil
+import sys
+from pathlib import Path
+
+import numpy as np
+
+from mechid.catalogue import get_mechanism
+from mechid.data import write_series_csv
+from mechid.device import device_from_values
+from mechid.simulate import simulate_series
+
+HERE = Path(__file__).resolve().parent
+DEMO_DIR = HERE.parent / "mechid" / "demo_data"
+
+
+def _bias(lo: float, hi: float, n: int) -> list[float]:
+    """Both polarities, log-spaced magnitudes from lo to hi volts."""
+    mags = np.geomspace(lo, hi, n)
+    return [float(v) for v in np.concatenate([-mags[::-1], mags])]
+
+
+SCENARIOS: list[dict] = [
+    {
+        "name": "larkfield_sinx_poole_frenkel",
+        "story": "PECVD silicon-nitride film (30 nm) between Al and n+ Si, measured 300-450 K "
+                 "on a heated probe station; bulk trap emission expected.",
+        "mechanism": "poole_frenkel",
+        "params": {"trap_depth_eV": 0.95, "dielectric_constant": 4.2,
+                   "prefactor_S_per_cm": 2.0e-2, "thickness_nm": 30.0},
+        "device": {"thickness_nm": 30.0, "thickness_sd_nm": 1.0, "area_cm2": 1e-3,
+                   "optical_dielectric_constant": 4.0, "optical_dielectric_constant_sd": 0.4},
+        "temperatures_K": [300, 325, 350, 375, 400, 425, 450],
+        "voltages_V": _bias(2.0, 20.0, 24),
+        "noise_relative": 0.02, "noise_floor_A": 1e-14, "seed": 101,
+    },
+    {
+        "name": "larkfield_alox_direct_tunnelling",
+        "story": "Al/AlOx/Al tunnel junction (plasma-oxidised, about 1.8 nm), 10 x 10 um, "
+                 "cooled in a flow cryostat from 300 K down to 10 K.",
+        "mechanism": "direct_tunnelling",
+        "params": {"barrier_height_eV": 1.6, "thickness_nm": 1.8, "effective_mass_ratio": 0.45},
+        "device": {"thickness_nm": 1.8, "thickness_sd_nm": 0.15, "area_cm2": 1e-6,
+                   "effective_mass_ratio": 0.45, "effective_mass_sd": 0.05},
+        "temperatures_K": [10, 77, 150, 225, 300],
+        "voltages_V": _bias(0.02, 0.8, 25),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 102,
+    },
+    {
+        "name": "larkfield_sio2_fowler_nordheim",
+        "story": "Thermal SiO2 gate oxide (6 nm) on p-Si, high-field stress ramp at four chuck "
+                 "temperatures; injection from the n+ poly gate.",
+        "mechanism": "fowler_nordheim",
+        "params": {"barrier_height_eV": 3.1, "thickness_nm": 6.0, "effective_mass_ratio": 0.45},
+        "device": {"thickness_nm": 6.0, "thickness_sd_nm": 0.2, "area_cm2": 1e-4,
+                   "effective_mass_ratio": 0.45, "effective_mass_sd": 0.05},
+        "temperatures_K": [250, 300, 350, 400],
+        "voltages_V": _bias(5.0, 9.0, 20),
+        "noise_relative": 0.03, "noise_floor_A": 1e-13, "seed": 103,
+    },
+    {
+        "name": "larkfield_hfo2_schottky",
+        "story": "Sputtered HfO2 (20 nm) with a TiN bottom and Pt top electrode; interface-limited "
+                 "emission over the Pt barrier, 250-400 K.",
+        "mechanism": "schottky_emission",
+        "params": {"barrier_height_eV": 0.75, "dielectric_constant": 4.0,
+                   "richardson_constant_ratio": 0.5, "thickness_nm": 20.0},
+        "device": {"thickness_nm": 20.0, "thickness_sd_nm": 1.0, "area_cm2": 1e-4,
+                   "optical_dielectric_constant": 4.0, "optical_dielectric_constant_sd": 0.4},
+        "temperatures_K": [250, 275, 300, 325, 350, 375, 400],
+        "voltages_V": _bias(0.3, 6.0, 24),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 104,
+    },
+    {
+        "name": "larkfield_polymer_nn_hopping",
+        "story": "Doped conjugated-polymer film (80 nm) in a crossbar, activated hopping "
+                 "between localised sites, 200-350 K.",
+        "mechanism": "nearest_neighbour_hopping",
+        "params": {"activation_energy_eV": 0.25, "hopping_distance_nm": 2.0,
+                   "prefactor_A_per_cm2": 1.0e2, "thickness_nm": 80.0},
+        "device": {"thickness_nm": 80.0, "thickness_sd_nm": 4.0, "area_cm2": 1e-4},
+        "temperatures_K": [200, 225, 250, 275, 300, 325, 350],
+        "voltages_V": _bias(0.5, 15.0, 22),
+        "noise_relative": 0.02, "noise_floor_A": 1e-14, "seed": 105,
+    },
+    {
+        "name": "larkfield_nanocrystal_mott_vrh",
+        "story": "Disordered nanocrystal film between gold fingers, ohmic bias sweep from 20 K "
+                 "to 300 K; variable-range hopping expected.",
+        "mechanism": "mott_vrh",
+        "params": {"characteristic_temperature_K": 2.0e6, "prefactor_S": 1.0e-2},
+        "device": {"thickness_nm": 100.0, "area_cm2": 1e-4},
+        "temperatures_K": [20, 30, 45, 70, 100, 150, 220, 300],
+        "voltages_V": _bias(0.01, 0.2, 12),
+        "noise_relative": 0.02, "noise_floor_A": 1e-15, "seed": 106,
+    },
+    {
+        "name": "larkfield_granular_es_vrh",
+        "story": "Granular metal film near its insulating side, measured in a helium cryostat at "
+                 "2-40 K; Coulomb-gap hopping expected.",
+        "mechanism": "es_vrh",
+        "params": {"characteristic_temperature_K": 4.0e3, "prefactor_S": 1.0e-3},
+        "device": {"thickness_nm": 50.0, "area_cm2": 1e-4},
+        "temperatures_K": [2, 3, 4.5, 7, 10, 15, 25, 40],
+        "voltages_V": _bias(0.001, 0.02, 12),
+        "noise_relative": 0.02, "noise_floor_A": 1e-15, "seed": 107,
+    },
+]
+
+
+def _toml(values: dict) -> str:
+    lines = []
+    for key, value in values.items():
+        lines.append(f'{key} = "{value}"' if isinstance(value, str) else f"{key} = {value!r}")
+    return "\n".join(lines) + "\n"
+
+
+def generate(scenario: dict, force: bool) -> Path:
+    """Write one scenario's folder and return it."""
+    folder = HERE / scenario["name"]
+    folder.mkdir(exist_ok=True)
+    mechanism = get_mechanism(scenario["mechanism"])
+    device_values = {"name": scenario["story"].split(";")[0], **scenario["device"]}
+    device = device_from_values(**device_values)
+    rng = np.random.default_rng(scenario["seed"])
+    sim = simulate_series(mechanism, scenario["params"], scenario["temperatures_K"],
+                          scenario["voltages_V"], device,
+                          noise_relative=scenario["noise_relative"],
+                          noise_floor_A=scenario["noise_floor_A"], rng=rng)
+    write_series_csv(sim, folder / "data.csv", overwrite=force)
+    (folder / "device.toml").write_text(_toml(device_values), encoding="utf-8")
+    truth = {key: scenario[key] for key in
+             ("name", "story", "mechanism", "params", "device", "temperatures_K", "voltages_V",
+              "noise_relative", "noise_floor_A", "seed")}
+    truth["generated_by"] = "reference_curves/generate.py with mechid.simulate.simulate_series"
+    (folder / "truth.json").write_text(json.dumps(truth, indent=2) + "\n", encoding="utf-8")
+    return folder
+
+
+def main(argv: list[str]) -> int:
+    """Regenerate all scenarios; copy the first into the package as the demo series."""
+    force = "--force" in argv
+    folders = [generate(s, force) for s in SCENARIOS]
+    DEMO_DIR.mkdir(exist_ok=True)
+    for name in ("data.csv", "device.toml", "truth.json"):
+        shutil.copyfile(folders[0] / name, DEMO_DIR / name)
+    for folder in folders:
+        print(f"wrote {folder.relative_to(HERE.parent)}")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main(sys.argv[1:]))
