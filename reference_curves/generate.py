@@ -41,12 +41,12 @@ SCENARIOS: list[dict] = [
         "story": "PECVD silicon-nitride film (30 nm) between Al and n+ Si, measured 300-450 K "
                  "on a heated probe station; bulk trap emission expected.",
         "mechanism": "poole_frenkel",
-        "params": {"trap_depth_eV": 0.95, "dielectric_constant": 4.2,
-                   "prefactor_S_per_cm": 2.0e-2, "thickness_nm": 30.0},
-        "device": {"thickness_nm": 30.0, "thickness_sd_nm": 1.0, "area_cm2": 1e-3,
+        "params": {"trap_depth_eV": 1.2, "dielectric_constant": 4.2,
+                   "prefactor_S_per_cm": 1.0, "thickness_nm": 30.0},
+        "device": {"thickness_nm": 30.0, "thickness_sd_nm": 1.0, "area_cm2": 1e-4,
                    "optical_dielectric_constant": 4.0, "optical_dielectric_constant_sd": 0.4},
         "temperatures_K": [300, 325, 350, 375, 400, 425, 450],
-        "voltages_V": _bias(2.0, 20.0, 24),
+        "voltages_V": _bias(3.0, 12.0, 24),
         "noise_relative": 0.02, "noise_floor_A": 1e-14, "seed": 101,
     },
     {
@@ -112,11 +112,11 @@ SCENARIOS: list[dict] = [
     {
         "name": "larkfield_granular_es_vrh",
         "story": "Granular metal film near its insulating side, measured in a helium cryostat at "
-                 "2-40 K; Coulomb-gap hopping expected.",
+                 "3-60 K; Coulomb-gap hopping expected.",
         "mechanism": "es_vrh",
-        "params": {"characteristic_temperature_K": 4.0e3, "prefactor_S": 1.0e-3},
+        "params": {"characteristic_temperature_K": 1.0e3, "prefactor_S": 1.0e-1},
         "device": {"thickness_nm": 50.0, "area_cm2": 1e-4},
-        "temperatures_K": [2, 3, 4.5, 7, 10, 15, 25, 40],
+        "temperatures_K": [3, 4.5, 7, 10, 15, 25, 40, 60],
         "voltages_V": _bias(0.001, 0.02, 12),
         "noise_relative": 0.02, "noise_floor_A": 1e-15, "seed": 107,
     },
@@ -142,7 +142,9 @@ def generate(scenario: dict, force: bool) -> Path:
                           scenario["voltages_V"], device,
                           noise_relative=scenario["noise_relative"],
                           noise_floor_A=scenario["noise_floor_A"], rng=rng)
-    write_series_csv(sim, folder / "data.csv", overwrite=force)
+    write_series_csv(sim, folder / "data.csv", overwrite=force,
+                     comment=f"invented reference series '{scenario['name']}' "
+                             "(mechid reference_curves/generate.py); true values in truth.json")
     (folder / "device.toml").write_text(_toml(device_values), encoding="utf-8")
     truth = {key: scenario[key] for key in
              ("name", "story", "mechanism", "params", "device", "temperatures_K", "voltages_V",

@@ -32,6 +32,30 @@ FloatArray = NDArray[np.float64]
 MagnitudeFormula = Callable[..., FloatArray]
 
 
+def positive_or_nan(values: ArrayLike) -> FloatArray:
+    """Return ``values`` as floats with every non-positive or NaN entry replaced by NaN.
+
+    Straightened-plot transforms use it so that logarithms, square roots and reciprocals
+    of undefined points give NaN silently instead of warnings or errors.
+    """
+    x = np.asarray(values, dtype=float)
+    return np.where(x > 0, x, np.nan)
+
+
+def iv_magnitudes(voltage_V: ArrayLike, current_A: ArrayLike) -> tuple[FloatArray, FloatArray]:
+    """Return ``(|V|, |I|)`` where bias and current are non-zero and share a sign, else NaN.
+
+    A symmetric device gives ``I(-V) = -I(V)``, so both polarities map onto one branch;
+    points with zero bias, zero current or a current against the bias (noise near zero
+    bias) are undefined on logarithmic plots and come back as NaN.
+    """
+    v, i = np.broadcast_arrays(
+        np.asarray(voltage_V, dtype=float), np.asarray(current_A, dtype=float)
+    )
+    same_sign = v * i > 0
+    return np.where(same_sign, np.abs(v), np.nan), np.where(same_sign, np.abs(i), np.nan)
+
+
 @dataclass(frozen=True)
 class Parameter:
     """One physical parameter of a mechanism.

@@ -1,0 +1,672 @@
+"""Tunnelling mechanisms: direct tunnelling (Simmons) and Fowler-Nordheim tunnelling.
+
+Every formula the two declarations use is a public function of this module, so the
+physics can be read, tested and reused without going through a :class:`Mechanism`:
+
+* :func:`simmons_current_density_A_per_m2` -- Simmons (1963) rectangular barrier, T = 0
+* :func:`simmons_thermal_factor` -- Simmons (1964) temperature factor
+* :func:`simmons_low_bias_current_density_A_per_m2` -- the ohmic (V -> 0) limit
+* :func:`fowler_nordheim_current_density_A_per_m2` -- Lenzlinger & Snow (1969) form
+* :func:`murphy_good_thermal_factor` -- Murphy & Good (1956) temperature factor
+* :func:`schottky_nordheim_parameter`, :func:`forbes_v`, :func:`forbes_t`,
+  :func:`schottky_nordheim_current_density_A_per_m2` -- image-rounded barrier (Forbes 2006)
+
+Units: voltages in V, energies in eV, thicknesses in nm, fields in V/nm, current densities
+in A/m^2 (the unit in each name); the declarations multiply by the electrode area.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from numpy.typing import ArrayLike
+from scipy.special import xlogy
+
+from mechid.catalogue.base import (
+    FloatArray,
+    Mechanism,
+    Parameter,
+    StraightenedPlot,
+    iv_magnitudes,
+)
+from mechid.constants import (
+    BOLTZMANN_EV,
+    ELECTRON_MASS,
+    ELEMENTARY_CHARGE,
+    FN_A_A_EV_PER_V2,
+    FN_B_EV32_V_PER_NM,
+    PLANCK,
+    SCHOTTKY_BETA_EV_SQRT_M_PER_V,
+    WKB_KAPPA_PER_NM_SQRT_EV,
+)
+from mechid.device import Device, Measured
+
+#: Largest argument x of the thermal factor x/sin(x) that is used as is. Above it the
+#: factor is held at its value here (x/sin x = 9.15): the expansion behind both thermal
+#: factors is only valid for x well below pi, and where x approaches pi the tunnel current
+#: is astronomically small or the barrier is far too thick for the formula anyway.
+THERMAL_ARGUMENT_CAP = 0.9 * np.pi
+
+_A_PER_M2_TO_A_PER_CM2 = 1e-4
+_PER_NM2_TO_PER_M2 = 1e18
+#: e^2/(4 pi eps0) in eV nm (1.439964), the Schottky constant of the image force.
+_SCHOTTKY_CONSTANT_EV_NM = SCHOTTKY_BETA_EV_SQRT_M_PER_V**2 * 1e9
+
+
+def thermal_smearing_factor(x: ArrayLike) -> FloatArray:
+    """Thermal factor ``x / sin(x)`` of tunnelling currents, held constant above the cap.
+
+    Parameters
+    ----------
+    x : array_like
+        ``pi * c * kT`` with ``c`` the energy-decay coefficient of the transmission (1/eV)
+        and ``kT`` in eV; ``x >= 0``.
+
+    Returns
+    -------
+    ndarray
+        ``x/sin(x)`` (1 at x = 0) for ``x <= THERMAL_ARGUMENT_CAP``, and the value at the cap
+        above it, so a fit over all biases and temperatures never meets the pole at ``x = pi``.
+
+    Notes
+    -----
+    The factor comes from integrating the Fermi-Dirac occupation against a transmission
+    that decays as ``exp(-c E)`` below the Fermi level (Murphy & Good 1956, Phys. Rev. 102,
+    1464; Simmons 1964, J. Appl. Phys. 35, 2655). It is valid only for ``x`` well below pi.
+    """
+    held = np.minimum(np.asarray(x, dtype=float), THERMAL_ARGUMENT_CAP)
+    return 1.0 / np.sinc(held / np.pi)  # np.sinc(y) = sin(pi y)/(pi y)
+
+
+# --------------------------------------------------------------------------------------
+# Direct tunnelling: Simmons (1963) with the Simmons (1964) temperature factor
+# --------------------------------------------------------------------------------------
+
+
+def simmons_mean_barrier(
+    voltage_V: ArrayLike, barrier_height_eV: ArrayLike, thickness_nm: ArrayLike
+) -> tuple[FloatArray, FloatArray]:
+    """Mean barrier height and effective width of a biased rectangular barrier.
+
+    Parameters
+    ----------
+    voltage_V : array_like
+        Bias magnitude in V (``eV`` in eV is numerically the same number).
+    barrier_height_eV : array_like
+        Zero-bias barrier height ``phi0`` in eV.
+    thickness_nm : array_like
+        Barrier thickness ``s`` in nm.
+
+    Returns
+    -------
+    mean_barrier_eV, width_nm : ndarray
+        For ``eV < phi0``: ``phibar = phi0 - eV/2`` and ``ds = s``; for ``eV >= phi0`` the
+        barrier is triangular over ``ds = s phi0/(eV)`` with ``phibar = phi0/2``. Both are
+        continuous at ``eV = phi0``.
+
+    Notes
+    -----
+    Simmons, J. Appl. Phys. 34, 1793 (1963), rectangular barrier without image force,
+    beta = 1 (from memory; equation numbers not re-checked).
+    """
+    v = np.asarray(voltage_V, dtype=float)
+    phi0 = np.asarray(barrier_height_eV, dtype=float)
+    s = np.asarray(thickness_nm, dtype=float)
+    mean_barrier = phi0 - 0.5 * np.minimum(v, phi0)
+    width = s * phi0 / np.maximum(v, phi0)
+    return mean_barrier, width
+
+
+def simmons_decay_coefficient(width_nm: ArrayLike, effective_mass_ratio: ArrayLike) -> FloatArray:
+    """Simmons' ``A = 4 pi ds sqrt(2 m*)/h`` in eV^-1/2 (so ``A sqrt(phi)`` is dimensionless).
+
+    Parameters
+    ----------
+    width_nm : array_like
+        Effective barrier width ``ds`` in nm.
+    effective_mass_ratio : array_like
+        Tunnelling effective mass ``m*/m0``.
+
+    Returns
+    -------
+    ndarray
+        ``A = 2 ds sqrt(2 m* e)/hbar`` with energies in eV (Simmons 1963).
+    """
+    return (
+        2.0
+        * WKB_KAPPA_PER_NM_SQRT_EV
+        * np.sqrt(np.asarray(effective_mass_ratio, dtype=float))
+        * np.asarray(width_nm, dtype=float)
+    )
+
+
+def simmons_current_density_A_per_m2(
+    voltage_V: ArrayLike,
+    barrier_height_eV: ArrayLike,
+    thickness_nm: ArrayLike,
+    effective_mass_ratio: ArrayLike,
+) -> FloatArray:
+    """Tunnel current density through a rectangular barrier at T = 0 (Simmons 1963).
+
+    Parameters
+    ----------
+    voltage_V : array_like
+        Bias magnitude in V (> 0).
+    barrier_height_eV : array_like
+        Barrier height ``phi0`` in eV.
+    thickness_nm : array_like
+        Barrier thickness ``s`` in nm.
+    effective_mass_ratio : array_like
+        Tunnelling effective mass ``m*/m0``.
+
+    Returns
+    -------
+    ndarray
+        Current density in A/m^2, never negative (see Notes).
+
+    Notes
+    -----
+    Simmons, J. Appl. Phys. 34, 1793 (1963), general formula with beta = 1:
+
+    .. math::
+
+        J = \\frac{e}{2\\pi h\\,\\Delta s^2}\\Big[\\bar\\varphi\\, e^{-A\\sqrt{\\bar\\varphi}}
+            - (\\bar\\varphi + eV)\\, e^{-A\\sqrt{\\bar\\varphi + eV}}\\Big],
+        \\qquad A = \\frac{4\\pi\\,\\Delta s\\sqrt{2 m^*}}{h}
+
+    with ``phibar`` and ``Delta s`` from :func:`simmons_mean_barrier`. The bracket is
+    evaluated as ``phibar exp(-A sqrt(phibar)) * (-expm1(log1p(eV/phibar) - A d))`` with
+    ``d = sqrt(phibar+eV) - sqrt(phibar)`` so tiny biases keep full precision. Where the
+    reverse term exceeds the forward one (an almost transparent barrier, roughly
+    ``A sqrt(phibar) < 2``, where Simmons' expansion has broken down) the bracket changes
+    sign; the density is then set to zero, which is continuous and finite.
+    """
+    v = np.asarray(voltage_V, dtype=float)
+    mean_barrier, width_nm = simmons_mean_barrier(v, barrier_height_eV, thickness_nm)
+    decay = simmons_decay_coefficient(width_nm, effective_mass_ratio)
+    root_low = np.sqrt(mean_barrier)
+    root_high = np.sqrt(mean_barrier + v)
+    # e/(2 pi h ds^2) times e (energies converted from eV to J): A m^-2 eV^-1.
+    prefactor = ELEMENTARY_CHARGE**2 / (2 * np.pi * PLANCK * (width_nm * 1e-9) ** 2)
+    forward = mean_barrier * np.exp(-decay * root_low)
+    reverse_over_forward = np.log1p(v / mean_barrier) - decay * v / (root_high + root_low)
+    net_fraction = np.maximum(-np.expm1(reverse_over_forward), 0.0)
+    return prefactor * forward * net_fraction
+
+
+def simmons_low_bias_current_density_A_per_m2(
+    voltage_V: ArrayLike,
+    barrier_height_eV: ArrayLike,
+    thickness_nm: ArrayLike,
+    effective_mass_ratio: ArrayLike,
+) -> FloatArray:
+    """Ohmic (V -> 0) limit of the Simmons current density.
+
+    Parameters
+    ----------
+    voltage_V, barrier_height_eV, thickness_nm, effective_mass_ratio : array_like
+        As in :func:`simmons_current_density_A_per_m2`.
+
+    Returns
+    -------
+    ndarray
+        ``J = (e/h)^2 (sqrt(2 m* phi0)/s) V exp(-A sqrt(phi0))`` in A/m^2 (Simmons 1963,
+        low-voltage range; the same constant as the zero-bias conductance of Brinkman, Dynes
+        & Rowell 1970, J. Appl. Phys. 41, 1915). The full formula tends to this times
+        ``1 - 2/(A sqrt(phi0))`` as V -> 0, the leading term of the expansion.
+    """
+    phi0 = np.asarray(barrier_height_eV, dtype=float)
+    s_nm = np.asarray(thickness_nm, dtype=float)
+    mass = np.asarray(effective_mass_ratio, dtype=float)
+    momentum = np.sqrt(2 * mass * ELECTRON_MASS * phi0 * ELEMENTARY_CHARGE)
+    decay = simmons_decay_coefficient(s_nm, mass)
+    return (
+        (ELEMENTARY_CHARGE / PLANCK) ** 2
+        * momentum
+        / (s_nm * 1e-9)
+        * np.asarray(voltage_V, dtype=float)
+        * np.exp(-decay * np.sqrt(phi0))
+    )
+
+
+def simmons_thermal_coefficient(
+    voltage_V: ArrayLike,
+    barrier_height_eV: ArrayLike,
+    thickness_nm: ArrayLike,
+    effective_mass_ratio: ArrayLike,
+) -> FloatArray:
+    """Simmons' ``B = A/(2 sqrt(phibar))`` in 1/eV, the energy decay rate of the transmission.
+
+    Parameters
+    ----------
+    voltage_V, barrier_height_eV, thickness_nm, effective_mass_ratio : array_like
+        As in :func:`simmons_current_density_A_per_m2`.
+
+    Returns
+    -------
+    ndarray
+        ``B`` in 1/eV, with ``phibar`` and ``A`` at the given bias (Simmons 1964,
+        J. Appl. Phys. 35, 2655; from memory).
+    """
+    mean_barrier, width_nm = simmons_mean_barrier(voltage_V, barrier_height_eV, thickness_nm)
+    return simmons_decay_coefficient(width_nm, effective_mass_ratio) / (2 * np.sqrt(mean_barrier))
+
+
+def simmons_thermal_factor(
+    voltage_V: ArrayLike,
+    temperature_K: ArrayLike,
+    barrier_height_eV: ArrayLike,
+    thickness_nm: ArrayLike,
+    effective_mass_ratio: ArrayLike,
+) -> FloatArray:
+    """Temperature factor ``J(V, T)/J(V, 0) = x/sin(x)``, ``x = pi B kT`` (Simmons 1964).
+
+    Parameters
+    ----------
+    voltage_V, barrier_height_eV, thickness_nm, effective_mass_ratio : array_like
+        As in :func:`simmons_current_density_A_per_m2`.
+    temperature_K : array_like
+        Temperature in K.
+
+    Returns
+    -------
+    ndarray
+        The factor, held at its ``x = 0.9 pi`` value beyond that (see
+        :func:`thermal_smearing_factor`). Simmons, J. Appl. Phys. 35, 2655 (1964).
+    """
+    coefficient = simmons_thermal_coefficient(
+        voltage_V, barrier_height_eV, thickness_nm, effective_mass_ratio
+    )
+    kT = BOLTZMANN_EV * np.asarray(temperature_K, dtype=float)
+    return thermal_smearing_factor(np.pi * coefficient * kT)
+
+
+def _direct_tunnelling_current(
+    voltage_V: FloatArray,
+    temperature_K: FloatArray,
+    device: Device,
+    *,
+    barrier_height_eV: FloatArray,
+    thickness_nm: FloatArray,
+    effective_mass_ratio: FloatArray,
+) -> FloatArray:
+    """|I| in A of direct tunnelling: Simmons (1963) density x Simmons (1964) factor x area."""
+    density = simmons_current_density_A_per_m2(
+        voltage_V, barrier_height_eV, thickness_nm, effective_mass_ratio
+    )
+    factor = simmons_thermal_factor(
+        voltage_V, temperature_K, barrier_height_eV, thickness_nm, effective_mass_ratio
+    )
+    return density * factor * _A_PER_M2_TO_A_PER_CM2 * device.require_area()
+
+
+# --------------------------------------------------------------------------------------
+# Fowler-Nordheim tunnelling
+# --------------------------------------------------------------------------------------
+
+
+def fowler_nordheim_slope_V_per_nm(
+    barrier_height_eV: ArrayLike, effective_mass_ratio: ArrayLike
+) -> FloatArray:
+    """FN slope ``B = b sqrt(m*/m0) phi^(3/2)`` in V/nm: ``J ∝ exp(-B/E)``.
+
+    Parameters
+    ----------
+    barrier_height_eV : array_like
+        Barrier height ``phi`` in eV.
+    effective_mass_ratio : array_like
+        Tunnelling effective mass ``m*/m0``.
+
+    Returns
+    -------
+    ndarray
+        ``B`` in V/nm, with the second FN constant ``b`` of Forbes & Deane (2007, Proc.
+        R. Soc. A 463, 2907). On a plot of ln(I/V^2) against 1/V the slope is ``-B d``.
+    """
+    phi = np.asarray(barrier_height_eV, dtype=float)
+    return FN_B_EV32_V_PER_NM * np.sqrt(np.asarray(effective_mass_ratio, dtype=float)) * phi**1.5
+
+
+def fowler_nordheim_current_density_A_per_m2(
+    field_V_per_nm: ArrayLike, barrier_height_eV: ArrayLike, effective_mass_ratio: ArrayLike
+) -> FloatArray:
+    """Fowler-Nordheim current density through a triangular barrier at T = 0.
+
+    Parameters
+    ----------
+    field_V_per_nm : array_like
+        Field in the insulator in V/nm (> 0).
+    barrier_height_eV : array_like
+        Barrier height ``phi`` in eV.
+    effective_mass_ratio : array_like
+        Tunnelling effective mass ``m*/m0``.
+
+    Returns
+    -------
+    ndarray
+        Current density in A/m^2.
+
+    Notes
+    -----
+    Lenzlinger & Snow, J. Appl. Phys. 40, 278 (1969) (from memory), pinned here with the
+    ``m0/m*`` prefactor (some reviews drop it):
+
+    .. math::
+
+        J = \\frac{a}{\\varphi}\\frac{m_0}{m^*} E^2
+            \\exp\\Big(-\\frac{b\\sqrt{m^*/m_0}\\,\\varphi^{3/2}}{E}\\Big)
+
+    with ``a = e^3/(8 pi h)`` and ``b = (8 pi/3) sqrt(2 m0)/(e h)`` (Forbes & Deane 2007).
+    No image-force rounding (``v = t = 1``).
+    """
+    field = np.asarray(field_V_per_nm, dtype=float)
+    phi = np.asarray(barrier_height_eV, dtype=float)
+    mass = np.asarray(effective_mass_ratio, dtype=float)
+    exponent = -fowler_nordheim_slope_V_per_nm(phi, mass) / field
+    return FN_A_A_EV_PER_V2 / (phi * mass) * field**2 * np.exp(exponent) * _PER_NM2_TO_PER_M2
+
+
+def murphy_good_thermal_coefficient(
+    field_V_per_nm: ArrayLike,
+    barrier_height_eV: ArrayLike,
+    effective_mass_ratio: ArrayLike,
+    t_value: ArrayLike = 1.0,
+) -> FloatArray:
+    """Energy decay rate ``c = (3/2) b sqrt(m*/m0) phi^(1/2) t(f)/E`` in 1/eV.
+
+    Parameters
+    ----------
+    field_V_per_nm : array_like
+        Field in V/nm.
+    barrier_height_eV : array_like
+        Barrier height in eV.
+    effective_mass_ratio : array_like
+        Tunnelling effective mass ``m*/m0``.
+    t_value : array_like, optional
+        Barrier function ``t(f)``; 1 for the triangular barrier, :func:`forbes_t` for the
+        image-rounded one.
+
+    Returns
+    -------
+    ndarray
+        ``c = 1/d_F`` in 1/eV (Murphy & Good, Phys. Rev. 102, 1464 (1956); from memory).
+    """
+    phi = np.asarray(barrier_height_eV, dtype=float)
+    return (
+        1.5
+        * FN_B_EV32_V_PER_NM
+        * np.sqrt(np.asarray(effective_mass_ratio, dtype=float))
+        * np.sqrt(phi)
+        * np.asarray(t_value, dtype=float)
+        / np.asarray(field_V_per_nm, dtype=float)
+    )
+
+
+def murphy_good_thermal_factor(
+    field_V_per_nm: ArrayLike,
+    temperature_K: ArrayLike,
+    barrier_height_eV: ArrayLike,
+    effective_mass_ratio: ArrayLike,
+    t_value: ArrayLike = 1.0,
+) -> FloatArray:
+    """Temperature factor ``J(T)/J(0) = pi c kT / sin(pi c kT)`` (Murphy & Good 1956).
+
+    Parameters
+    ----------
+    field_V_per_nm, barrier_height_eV, effective_mass_ratio, t_value : array_like
+        As in :func:`murphy_good_thermal_coefficient`.
+    temperature_K : array_like
+        Temperature in K.
+
+    Returns
+    -------
+    ndarray
+        The factor, held at its ``pi c kT = 0.9 pi`` value beyond that (see
+        :func:`thermal_smearing_factor`).
+    """
+    c = murphy_good_thermal_coefficient(
+        field_V_per_nm, barrier_height_eV, effective_mass_ratio, t_value
+    )
+    kT = BOLTZMANN_EV * np.asarray(temperature_K, dtype=float)
+    return thermal_smearing_factor(np.pi * c * kT)
+
+
+def schottky_nordheim_parameter(
+    barrier_height_eV: ArrayLike, field_V_per_nm: ArrayLike
+) -> FloatArray:
+    """Scaled barrier field ``f = (e^3/(4 pi eps0)) F/phi^2`` (Forbes 2006).
+
+    Parameters
+    ----------
+    barrier_height_eV : array_like
+        Work function / barrier height ``phi`` in eV.
+    field_V_per_nm : array_like
+        Surface field ``F`` in V/nm (vacuum).
+
+    Returns
+    -------
+    ndarray
+        ``f = 1.439964 F/phi^2``; ``f = 1`` removes the Schottky-Nordheim barrier.
+    """
+    phi = np.asarray(barrier_height_eV, dtype=float)
+    return _SCHOTTKY_CONSTANT_EV_NM * np.asarray(field_V_per_nm, dtype=float) / phi**2
+
+
+def forbes_v(f: ArrayLike) -> FloatArray:
+    """Forbes' approximation ``v(f) = 1 - f + (f/6) ln f`` of the SN barrier function.
+
+    Forbes, Appl. Phys. Lett. 89, 113122 (2006); stated accuracy about 0.3 % for 0 <= f <= 1.
+    ``v(0) = 1``.
+    """
+    f = np.asarray(f, dtype=float)
+    return 1.0 - f + xlogy(f, f) / 6.0
+
+
+def forbes_t(f: ArrayLike) -> FloatArray:
+    """Forbes' approximation ``t(f) = 1 + f/9 - (f/18) ln f`` (Forbes 2006). ``t(0) = 1``."""
+    f = np.asarray(f, dtype=float)
+    return 1.0 + f / 9.0 - xlogy(f, f) / 18.0
+
+
+def schottky_nordheim_current_density_A_per_m2(
+    field_V_per_nm: ArrayLike, barrier_height_eV: ArrayLike
+) -> FloatArray:
+    """Murphy-Good FN-type current density for the image-rounded (SN) barrier, T = 0.
+
+    Parameters
+    ----------
+    field_V_per_nm : array_like
+        Surface field in V/nm.
+    barrier_height_eV : array_like
+        Work function in eV.
+
+    Returns
+    -------
+    ndarray
+        ``J = a/(phi t(f)^2) F^2 exp(-v(f) b phi^(3/2)/F)`` in A/m^2 with the free-electron
+        mass, ``v`` and ``t`` from :func:`forbes_v` and :func:`forbes_t` (Murphy & Good 1956;
+        Forbes 2006; Forbes & Deane 2007). For field emission into vacuum; the catalogue's
+        ``fowler_nordheim`` mechanism uses the triangular barrier of Lenzlinger & Snow.
+    """
+    field = np.asarray(field_V_per_nm, dtype=float)
+    phi = np.asarray(barrier_height_eV, dtype=float)
+    f = schottky_nordheim_parameter(phi, field)
+    exponent = -forbes_v(f) * FN_B_EV32_V_PER_NM * phi**1.5 / field
+    return FN_A_A_EV_PER_V2 / (phi * forbes_t(f) ** 2) * field**2 * np.exp(exponent) * 1e18
+
+
+def _fowler_nordheim_current(
+    voltage_V: FloatArray,
+    temperature_K: FloatArray,
+    device: Device,
+    *,
+    barrier_height_eV: FloatArray,
+    thickness_nm: FloatArray,
+    effective_mass_ratio: FloatArray,
+) -> FloatArray:
+    """|I| in A of FN tunnelling: Lenzlinger-Snow density x Murphy-Good factor x area."""
+    field = voltage_V / thickness_nm
+    density = fowler_nordheim_current_density_A_per_m2(
+        field, barrier_height_eV, effective_mass_ratio
+    )
+    factor = murphy_good_thermal_factor(
+        field, temperature_K, barrier_height_eV, effective_mass_ratio
+    )
+    return density * factor * _A_PER_M2_TO_A_PER_CM2 * device.require_area()
+
+
+# --------------------------------------------------------------------------------------
+# Straightened plots
+# --------------------------------------------------------------------------------------
+
+
+def _known(value: Measured | None) -> float | None:
+    """The value of a device :class:`~mechid.device.Measured` field, or None."""
+    return None if value is None else float(value.value)
+
+
+def _low_bias_conductance_transform(
+    voltage_V: FloatArray, temperature_K: FloatArray, current_A: FloatArray, device: Device
+) -> tuple[FloatArray, FloatArray]:
+    """x = V^2, y = |I|/|V| (use the low-bias points, eV well below the barrier)."""
+    v, i = iv_magnitudes(voltage_V, current_A)
+    v, i, _ = np.broadcast_arrays(v, i, np.asarray(temperature_K, dtype=float))
+    return v**2, i / v
+
+
+def _low_bias_conductance_interpret(
+    slope: float, intercept: float, temperature_K: float, device: Device
+) -> dict[str, float]:
+    """I/V = G0 (1 + gamma V^2): intercept G0 in S, gamma = slope/intercept in 1/V^2."""
+    with np.errstate(divide="ignore", invalid="ignore"):
+        gamma = np.float64(slope) / np.float64(intercept)
+    return {"zero_bias_conductance_S": float(intercept), "cubic_coefficient_per_V2": float(gamma)}
+
+
+def fowler_nordheim_transform(
+    voltage_V: FloatArray, temperature_K: FloatArray, current_A: FloatArray, device: Device
+) -> tuple[FloatArray, FloatArray]:
+    """Fowler-Nordheim coordinates ``x = 1/|V|``, ``y = ln(|I|/V^2)``; NaN where undefined.
+
+    Also the coordinates of transition-voltage spectroscopy (the minimum of y against x;
+    Beebe et al., Phys. Rev. Lett. 97, 026801 (2006)).
+    """
+    v, i = iv_magnitudes(voltage_V, current_A)
+    v, i, _ = np.broadcast_arrays(v, i, np.asarray(temperature_K, dtype=float))
+    return 1.0 / v, np.log(i / v**2)
+
+
+def _fowler_nordheim_interpret(
+    slope: float, intercept: float, temperature_K: float, device: Device
+) -> dict[str, float]:
+    """Barrier height from the FN slope ``-b sqrt(m*/m0) phi^(3/2) d`` (and the intercept).
+
+    Needs the device thickness. Without a device effective mass the keys say
+    ``assuming_unit_mass``. With the area, the intercept
+    ``ln(area a/(phi (m*/m0) d^2))`` gives a second, independent barrier estimate.
+    """
+    thickness = _known(device.thickness_nm)
+    if thickness is None:
+        return {}
+    mass = _known(device.effective_mass_ratio)
+    suffix = "eV" if mass is not None else "assuming_unit_mass_eV"
+    mass = 1.0 if mass is None else mass
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        product = -np.float64(slope) / (FN_B_EV32_V_PER_NM * thickness * np.sqrt(mass))
+        barrier = np.where(product > 0, np.abs(product) ** (2.0 / 3.0), np.nan)
+        result = {f"barrier_height_{suffix}": float(barrier)}
+        if device.area_cm2 is not None:
+            area_nm2 = device.area_cm2 * 1e14
+            from_intercept = area_nm2 * FN_A_A_EV_PER_V2 / (
+                mass * thickness**2 * np.exp(np.float64(intercept))
+            )
+            result[f"barrier_height_from_intercept_{suffix}"] = float(from_intercept)
+    return result
+
+
+#: The Fowler-Nordheim plot, one line per temperature.
+FOWLER_NORDHEIM_PLOT = StraightenedPlot(
+    id="fowler_nordheim_plot",
+    title="Fowler-Nordheim plot",
+    x_label="1/|V| [1/V]",
+    y_label="ln(|I|/V^2) [ln(A/V^2)]",
+    grouping="per_temperature",
+    transform=fowler_nordheim_transform,
+    interpret=_fowler_nordheim_interpret,
+)
+
+LOW_BIAS_CONDUCTANCE_PLOT = StraightenedPlot(
+    id="low_bias_conductance_plot",
+    title="Low-bias conductance (I/V against V^2)",
+    x_label="V^2 [V^2]",
+    y_label="|I|/|V| [S]",
+    grouping="per_temperature",
+    transform=_low_bias_conductance_transform,
+    interpret=_low_bias_conductance_interpret,
+)
+
+
+# --------------------------------------------------------------------------------------
+# Declarations
+# --------------------------------------------------------------------------------------
+
+
+def _barrier(lower: float, typical: float) -> Parameter:
+    return Parameter(
+        name="barrier_height_eV", unit="eV", symbol="phi_B",
+        description="tunnel barrier height (electrode Fermi level to insulator band edge)",
+        lower=lower, upper=5.0, typical=typical,
+    )
+
+
+def _thickness(lower: float, upper: float, typical: float) -> Parameter:
+    return Parameter(
+        name="thickness_nm", unit="nm", symbol="d", description="barrier (film) thickness",
+        lower=lower, upper=upper, typical=typical, device_prior="thickness_nm",
+    )
+
+
+_MASS = Parameter(
+    name="effective_mass_ratio", unit="1", symbol="m*/m0",
+    description="tunnelling effective mass in units of the free-electron mass",
+    lower=0.05, upper=1.0, typical=0.5, device_prior="effective_mass_ratio",
+)
+
+DIRECT_TUNNELLING = Mechanism(
+    id="direct_tunnelling",
+    family="tunnelling",
+    name="Direct tunnelling (Simmons)",
+    formula=(
+        "J = e/(2 pi h ds^2) [phibar exp(-A sqrt(phibar))"
+        " - (phibar + eV) exp(-A sqrt(phibar + eV))] * x/sin(x);"
+        "  A = 4 pi ds sqrt(2 m*)/h,  x = pi kT A/(2 sqrt(phibar));"
+        "  eV < phi0: phibar = phi0 - eV/2, ds = d;  eV >= phi0: phibar = phi0/2, ds = d phi0/(eV)"
+    ),
+    source=(
+        "Simmons, J. Appl. Phys. 34, 1793 (1963) (rectangular barrier, no image force); "
+        "temperature factor: Simmons, J. Appl. Phys. 35, 2655 (1964)"
+    ),
+    parameters=(_barrier(0.1, 2.0), _thickness(0.3, 20.0, 2.0), _MASS),
+    magnitude=_direct_tunnelling_current,
+    plots=(LOW_BIAS_CONDUCTANCE_PLOT,),
+    temperature_dependence="nearly none: rises a few per cent from 0 to 300 K (x/sin x factor)",
+)
+
+FOWLER_NORDHEIM = Mechanism(
+    id="fowler_nordheim",
+    family="tunnelling",
+    name="Fowler-Nordheim tunnelling",
+    formula=(
+        "J = (a/phi)(m0/m*) E^2 exp(-b sqrt(m*/m0) phi^(3/2)/E) * x/sin(x);  E = V/d,"
+        "  x = pi c kT,  c = (3/2) b sqrt(m*/m0) phi^(1/2)/E,  a = e^3/(8 pi h),"
+        "  b = (8 pi/3) sqrt(2 m0)/(e h)"
+    ),
+    source=(
+        "Lenzlinger & Snow, J. Appl. Phys. 40, 278 (1969) (with the m0/m* prefactor); "
+        "temperature factor: Murphy & Good, Phys. Rev. 102, 1464 (1956); "
+        "constants: Forbes & Deane, Proc. R. Soc. A 463, 2907 (2007)"
+    ),
+    parameters=(_barrier(0.5, 3.0), _thickness(1.0, 100.0, 8.0), _MASS),
+    magnitude=_fowler_nordheim_current,
+    plots=(FOWLER_NORDHEIM_PLOT,),
+    temperature_dependence="weak: rises slowly with temperature (pi c kT/sin(pi c kT) factor)",
+)

@@ -1,0 +1,176 @@
+"""Contract of the mechanism catalogue: ids, parameters, shapes, symmetry, numerical safety."""
+
+from __future__ import annotations
+
+import itertools
+from dataclasses import fields
+
+import numpy as np
+import pytest
+
+from mechid.catalogue import MECHANISMS, get_mechanism, mechanism_ids
+from mechid.catalogue.hopping import mott_vrh_variant
+from mechid.device import Device, Measured
+from mechid.errors import DeviceError
+
+AREA_CM2 = 1e-4
+DEVICE = Device(area_cm2=AREA_CM2)
+
+#: The ids, families and parameter names fixed by the project's design (other modules,
+#: the CLI and the JSON contract use these names).
+EXPECTED = {
+    "direct_tunnelling": ("tunnelling",
+                          ("barrier_height_eV", "thickness_nm", "effective_mass_ratio")),
+    "fowler_nordheim": ("tunnelling",
+                        ("barrier_height_eV", "thickness_nm", "effective_mass_ratio")),
+    "schottky_emission": ("emission", ("barrier_height_eV", "dielectric_constant",
+                                       "richardson_constant_ratio", "thickness_nm")),
+    "poole_frenkel": ("emission", ("trap_depth_eV", "dielectric_constant",
+                                   "prefactor_S_per_cm", "thickness_nm")),
+    "nearest_neighbour_hopping": ("hopping", ("activation_energy_eV", "hopping_distance_nm",
+                                              "prefactor_A_per_cm2", "thickness_nm")),
+    "mott_vrh": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
+    "es_vrh": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
+}
+
+ALL = [*MECHANISMS, mott_vrh_variant(2)]
+IDS = [f"{m.id}{m.options.get('dimension', '')}" for m in ALL]
+
+
+def test_ids_families_and_parameter_names():
+    assert mechanism_ids() == tuple(EXPECTED)
+    for mechanism_id, (family, names) in EXPECTED.items():
+        mechanism = get_mechanism(mechanism_id)
+        assert mechanism.family == family
+        assert mechanism.parameter_names == names
+
+
+@pytest.mark.parametrize("mechanism", ALL, ids=IDS)
+def test_declaration_is_complete(mechanism):
+    assert mechanism.name and mechanism.formula and mechanism.source
+    assert mechanism.temperature_dependence
+    assert mechanism.plots
+    device_fields = {f.name for f in fields(Device)}
+    for p in mechanism.parameters:
+        assert p.device_prior is None or p.device_prior in device_fields
+        assert p.unit and p.symbol and p.description
+    for plot in mechanism.plots:
+        assert plot.grouping in ("per_temperature", "per_voltage")
+        assert plot.x_label and plot.y_label and plot.title
+
+
+def test_plot_ids_are_unique():
+    plot_ids = [plot.id for m in MECHANISMS for plot in m.plots]
+    assert len(plot_ids) == len(set(plot_ids))
+
+
+@pytest.mark.parametrize("mechanism", ALL, ids=IDS)
+def test_current_is_odd_and_zero_at_zero_bias(mechanism):
+    params = mechanism.typical_parameters()
+    v = np.array([-2.0, -0.3, -1e-3, 0.0, 1e-3, 0.3, 2.0])
+    t = np.full_like(v, 250.0)
+    i = mechanism.current(v, t, params, DEVICE)
+    assert i[3] == 0.0
+    assert i[4:] == pytest.approx(-i[:3][::-1], rel=1e-15)
+    assert np.all(i[5:] > 0)  # FN underflows to 0 at 1 mV: exp(-b phi^1.5 d/V) < 1e-308
+    assert i[4] >= 0
+
+
+@pytest.mark.parametrize("mechanism", ALL, ids=IDS)
+def test_broadcasting_equals_loop_of_scalars(mechanism):
+    rng = np.random.default_rng(7)
+    m, n = 4, 6
+    params = {}
+    for p in mechanism.parameters:
+        if p.log_scale:
+            draw = 10 ** rng.uniform(np.log10(p.lower), np.log10(p.upper), size=(m, 1))
+        else:
+            draw = rng.uniform(p.lower, p.upper, size=(m, 1))
+        params[p.name] = draw
+    v = rng.uniform(0.01, 5.0, size=n) * rng.choice([-1.0, 1.0], size=n)
+    t = rng.uniform(5.0, 500.0, size=n)
+    batch = mechanism.current(v, t, params, DEVICE)
+    assert batch.shape == (m, n)
+    looped = np.array([
+        [mechanism.current(v[k], t[k], {name: float(val[j, 0]) for name, val in params.items()},
+                           DEVICE) for k in range(n)]
+        for j in range(m)
+    ])
+    np.testing.assert_array_equal(batch, looped)
+
+
+def _corner_and_random_parameter_sets(mechanism, rng, n_random=40):
+    corners = [
+        dict(zip(mechanism.parameter_names, values, strict=True))
+        for values in itertools.product(*[(p.lower, p.upper) for p in mechanism.parameters])
+    ]
+    randoms = []
+    for _ in range(n_random):
+        draw = {}
+        for p in mechanism.parameters:
+            if p.log_scale:
+                draw[p.name] = 10 ** rng.uniform(np.log10(p.lower), np.log10(p.upper))
+            else:
+                draw[p.name] = rng.uniform(p.lower, p.upper)
+        randoms.append(draw)
+    return corners + randoms + [mechanism.typical_parameters()]
+
+
+@pytest.mark.parametrize("mechanism", ALL, ids=IDS)
+def test_current_finite_and_non_negative_over_declared_ranges(mechanism):
+    # Any parameters inside the declared ranges, V in (0, 50] V and T in [1, 800] K:
+    # finite (a joint fit over all biases must never meet inf or NaN), never against the bias.
+    rng = np.random.default_rng(11)
+    v = np.concatenate([np.geomspace(1e-6, 50.0, 40), [50.0]])
+    t = np.array([1.0, 2.0, 4.2, 20.0, 77.0, 150.0, 300.0, 500.0, 800.0])
+    vv, tt = (a.ravel() for a in np.meshgrid(v, t))
+    sets = _corner_and_random_parameter_sets(mechanism, rng)
+    stacked = {name: np.array([[s[name]] for s in sets]) for name in mechanism.parameter_names}
+    i = mechanism.current(vv, tt, stacked, DEVICE)
+    assert i.shape == (len(sets), vv.size)
+    bad = ~np.isfinite(i)
+    assert not bad.any(), [sets[j] for j in np.unique(np.nonzero(bad)[0])][:3]
+    assert np.all(i >= 0)
+
+
+@pytest.mark.parametrize("mechanism", MECHANISMS, ids=[m.id for m in MECHANISMS])
+def test_area_needed_exactly_for_density_formulas(mechanism):
+    params = mechanism.typical_parameters()
+    if mechanism.id in ("mott_vrh", "es_vrh"):
+        assert np.isfinite(mechanism.current(1.0, 300.0, params, Device()))
+    else:
+        with pytest.raises(DeviceError, match="area"):
+            mechanism.current(1.0, 300.0, params, Device())
+
+
+@pytest.mark.parametrize("mechanism", ALL, ids=IDS)
+def test_transforms_give_nan_for_undefined_points_without_warnings(mechanism):
+    # filterwarnings = error: any RuntimeWarning from log/sqrt/division fails this test
+    v = np.array([0.0, 1.0, 1.0, -1.0, 1.0, 1.0, 1.0, 2.0, -2.0])
+    i = np.array([1e-9, 0.0, -1e-9, 1e-9, np.nan, 1e-9, 1e-9, 3e-9, -3e-9])
+    t = np.array([300.0, 300.0, 300.0, 300.0, 300.0, 0.0, -5.0, 300.0, 300.0])
+    device = Device(area_cm2=AREA_CM2, thickness_nm=Measured(10.0))
+    for plot in mechanism.plots:
+        x, y = plot.transform(v, t, i, device)
+        assert x.shape == v.shape and y.shape == v.shape
+        undefined = np.isnan(x) | np.isnan(y)
+        assert undefined[:5].all(), plot.id  # zero bias, zero or opposite or NaN current
+        assert np.isfinite(x[7:]).all() and np.isfinite(y[7:]).all(), plot.id
+        # both polarities of a symmetric device land on the same point
+        assert x[7] == x[8] and y[7] == y[8]
+        if plot.grouping == "per_voltage":
+            assert undefined[5:7].all(), plot.id  # non-positive temperature
+
+
+@pytest.mark.parametrize("mechanism", ALL, ids=IDS)
+def test_interpret_returns_plain_floats_with_unit_suffixed_keys(mechanism):
+    device = Device(area_cm2=AREA_CM2, thickness_nm=Measured(10.0),
+                    effective_mass_ratio=Measured(0.5))
+    for plot in mechanism.plots:
+        for dev in (device, Device()):
+            found = plot.interpret(-2.0, -20.0, 300.0, dev)
+            assert isinstance(found, dict)
+            for key, value in found.items():
+                assert isinstance(key, str) and isinstance(value, float)
+                assert key.endswith(("_eV", "_nm", "_K", "_S", "_S_per_cm", "_per_V2",
+                                     "_A_per_cm2_K2", "_ratio", "dielectric_constant"))

@@ -1,0 +1,308 @@
+"""Physics of the tunnelling mechanisms against outside values.
+
+Check values come from /work/shared/physics-references.md (sections 0-2 and 9), each
+recomputed there from the published formula with scipy.constants (CODATA 2022); the source
+of each check is named beside it.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from scipy import constants
+from scipy.optimize import minimize_scalar
+
+from mechid.catalogue import DIRECT_TUNNELLING, FOWLER_NORDHEIM
+from mechid.catalogue.tunnelling import (
+    FOWLER_NORDHEIM_PLOT,
+    LOW_BIAS_CONDUCTANCE_PLOT,
+    THERMAL_ARGUMENT_CAP,
+    forbes_t,
+    forbes_v,
+    fowler_nordheim_current_density_A_per_m2,
+    fowler_nordheim_slope_V_per_nm,
+    murphy_good_thermal_coefficient,
+    murphy_good_thermal_factor,
+    schottky_nordheim_current_density_A_per_m2,
+    schottky_nordheim_parameter,
+    simmons_current_density_A_per_m2,
+    simmons_decay_coefficient,
+    simmons_low_bias_current_density_A_per_m2,
+    simmons_thermal_coefficient,
+    simmons_thermal_factor,
+    thermal_smearing_factor,
+)
+from mechid.constants import FN_A_A_EV_PER_V2, FN_B_EV32_V_PER_NM, WKB_KAPPA_PER_NM_SQRT_EV
+from mechid.device import Device, Measured
+
+AREA_CM2 = 1e-4
+
+
+# ---- constants ---------------------------------------------------------------------------
+
+
+def test_fowler_nordheim_constants_match_forbes_deane():
+    # Forbes & Deane 2007 recommended values: a = 1.541434e-6 A eV V^-2, b = 6.830890 eV^-3/2 V/nm
+    a, b = FN_A_A_EV_PER_V2, FN_B_EV32_V_PER_NM
+    assert a == pytest.approx(1.541434e-6, rel=1e-6)
+    assert b == pytest.approx(6.830890, rel=1e-6)
+    # b is (4/3) of the WKB decay constant sqrt(2 m e)/hbar (physics-references §0)
+    assert b == pytest.approx(4 / 3 * WKB_KAPPA_PER_NM_SQRT_EV, rel=1e-12)
+
+
+# ---- Simmons direct tunnelling ------------------------------------------------------------
+
+
+def test_simmons_exponent_coefficient():
+    # physics-references §1 [C]: A sqrt(phi0) = 28.9810 for phi0 = 2 eV, s = 2 nm, m = m_e
+    assert simmons_decay_coefficient(2.0, 1.0) * np.sqrt(2.0) == pytest.approx(28.9810, rel=1e-5)
+
+
+@pytest.mark.parametrize(("voltage", "expected"), [(0.5, 4.39032), (0.1, 0.550479)])
+def test_simmons_intermediate_voltage_density(voltage, expected):
+    # Simmons 1963 intermediate-voltage formula; physics-references §1 [C], A/m^2
+    j = simmons_current_density_A_per_m2(voltage, 2.0, 2.0, 1.0)
+    assert j == pytest.approx(expected, rel=1e-5)
+
+
+def test_simmons_low_bias_formula_value():
+    # Simmons 1963 low-voltage (ohmic) limit; physics-references §1 [C]: 0.579049 A/m^2 at 0.1 V
+    j = simmons_low_bias_current_density_A_per_m2(0.1, 2.0, 2.0, 1.0)
+    assert j == pytest.approx(0.579049, rel=1e-5)
+
+
+def test_simmons_tends_to_low_bias_limit():
+    # physics-references §1 [C, derived]: J_Simmons/J_low -> 1 - 2/(A sqrt(phi0)) as V -> 0
+    voltages = np.array([1e-9, 1e-6, 1e-4])
+    ratio = simmons_current_density_A_per_m2(voltages, 2.0, 2.0, 1.0) / (
+        simmons_low_bias_current_density_A_per_m2(voltages, 2.0, 2.0, 1.0)
+    )
+    expected = 1 - 2 / 28.98097
+    assert ratio == pytest.approx(np.full(3, expected), rel=2e-5)
+
+
+def test_simmons_low_bias_thickness_ratio():
+    # physics-references §1 [C]: low-V J(s = 1.0 nm)/J(1.1 nm) = 4.68498 at phi0 = 2 eV
+    ratio = simmons_low_bias_current_density_A_per_m2(
+        0.1, 2.0, 1.0, 1.0
+    ) / simmons_low_bias_current_density_A_per_m2(0.1, 2.0, 1.1, 1.0)
+    assert ratio == pytest.approx(4.68498, rel=1e-5)
+
+
+def test_simmons_thermal_factor_values():
+    # Simmons 1964 factor; physics-references §1 [C]: B = 7.24525 1/eV, x1.06013 (300 K),
+    # x1.00381 (77 K) for phi0 = 2 eV, s = 2 nm, m = m_e (zero-bias limit)
+    v = 1e-9
+    assert simmons_thermal_coefficient(v, 2.0, 2.0, 1.0) == pytest.approx(7.24525, rel=1e-5)
+    assert simmons_thermal_factor(v, 300.0, 2.0, 2.0, 1.0) == pytest.approx(1.06013, rel=1e-4)
+    assert simmons_thermal_factor(v, 77.0, 2.0, 2.0, 1.0) == pytest.approx(1.00381, rel=1e-4)
+
+
+def test_simmons_apparent_activation_energy_is_meV():
+    # physics-references §1 [C]: apparent E_a(300 K) = 3.06 meV (direct tunnelling is ~flat in T)
+    t = np.array([299.9, 300.1])
+    factor = simmons_thermal_factor(1e-9, t, 2.0, 2.0, 1.0)
+    apparent_eV = -constants.k / constants.e * np.diff(np.log(factor))[0] / np.diff(1 / t)[0]
+    assert apparent_eV == pytest.approx(3.06e-3, rel=5e-3)
+
+
+def test_direct_tunnelling_is_nearly_temperature_independent():
+    # Simmons 1964: J(300 K)/J(77 K) equals the ratio of the thermal factors, a few per cent
+    device = Device(area_cm2=AREA_CM2)
+    params = {"barrier_height_eV": 2.0, "thickness_nm": 2.0, "effective_mass_ratio": 1.0}
+    v = np.array([1e-6, 1e-6])
+    i = DIRECT_TUNNELLING.current(v, np.array([300.0, 77.0]), params, device)
+    assert i[0] / i[1] == pytest.approx(1.06013 / 1.00381, rel=1e-4)
+    assert 1.0 < i[0] / i[1] < 1.1
+
+
+def test_simmons_continuous_where_high_voltage_regime_starts():
+    # Simmons 1963: at eV = phi0 both regimes give phibar = phi0/2 and ds = s
+    phi0, s, m = 2.0, 2.0, 0.5
+    below, above = phi0 * (1 - 1e-10), phi0 * (1 + 1e-10)
+    j = simmons_current_density_A_per_m2(np.array([below, above]), phi0, s, m)
+    assert j[0] == pytest.approx(j[1], rel=1e-8)
+    f = simmons_thermal_factor(np.array([below, above]), 300.0, phi0, s, m)
+    assert f[0] == pytest.approx(f[1], rel=1e-8)
+
+
+def test_simmons_high_voltage_regime_is_fowler_nordheim_like():
+    # Above eV = phi0 Simmons' formula is FN-like: ln(J/V^2) is linear in 1/V with slope
+    # -(4 pi sqrt(2 m*)/h) s phi0^(3/2)/sqrt(2) = -(3/(2 sqrt 2)) b sqrt(m*) phi0^(3/2) s
+    # (beta = 1) and J/V^2 -> e^2/(4 pi h s^2 phi0), twice the FN a/(phi s^2) (Simmons 1963;
+    # his high-voltage constants differ by beta ~ 1; derived from the formula pinned here).
+    phi0, s, m = 2.0, 5.0, 0.5
+    v = np.linspace(4.0, 8.0, 9)
+    j = simmons_current_density_A_per_m2(v, phi0, s, m)
+    slope, intercept = np.polyfit(1 / v, np.log(j / v**2), 1)
+    expected_slope = -3 / (2 * np.sqrt(2)) * fowler_nordheim_slope_V_per_nm(phi0, m) * s
+    assert slope == pytest.approx(expected_slope, rel=1e-6)
+    prefactor = constants.e**2 / (4 * np.pi * constants.h * (s * 1e-9) ** 2 * phi0)
+    assert np.exp(intercept) == pytest.approx(prefactor, rel=1e-6)
+
+
+@pytest.mark.parametrize(("thickness_nm", "expected_V"), [(1.0, 1.05765), (2.0, 0.526519)])
+def test_simmons_transition_voltage(thickness_nm, expected_V):
+    # Transition voltage (minimum of ln(I/V^2) vs 1/V; Beebe et al. 2006) of the Simmons
+    # intermediate formula, phi0 = 2 eV, m = m_e; physics-references §9 [C]
+    def fn_ordinate(v):
+        return np.log(simmons_current_density_A_per_m2(v, 2.0, thickness_nm, 1.0) / v**2)
+
+    found = minimize_scalar(fn_ordinate, bounds=(0.1, 1.99), method="bounded",
+                            options={"xatol": 1e-9})
+    assert found.x == pytest.approx(expected_V, rel=1e-4)
+
+
+def test_simmons_transparent_barrier_gives_zero_not_negative():
+    # Where the reverse term exceeds the forward one (A sqrt(phibar) < ~2) the bracket of
+    # Simmons' formula turns negative; the density is held at zero there (documented choice).
+    j = simmons_current_density_A_per_m2(np.array([0.01, 1.0, 50.0]), 0.1, 0.3, 0.05)
+    assert np.all(j >= 0) and np.all(np.isfinite(j))
+    assert simmons_decay_coefficient(0.3, 0.05) * np.sqrt(0.1) < 2
+
+
+def test_low_bias_conductance_plot_recovers_zero_bias_conductance():
+    # Simmons 1963: J ~ G0 (V + gamma V^3) at low bias, so I/V against V^2 is straight with
+    # intercept G0 = J_low/V * area
+    device = Device(area_cm2=AREA_CM2)
+    params = {"barrier_height_eV": 2.0, "thickness_nm": 2.0, "effective_mass_ratio": 1.0}
+    v = np.linspace(0.005, 0.05, 10)
+    t = np.full_like(v, 1.0)
+    i = DIRECT_TUNNELLING.current(v, t, params, device)
+    x, y = LOW_BIAS_CONDUCTANCE_PLOT.transform(v, t, i, device)
+    slope, intercept = np.polyfit(x, y, 1)
+    found = LOW_BIAS_CONDUCTANCE_PLOT.interpret(slope, intercept, 1.0, device)
+    g0 = (1 - 2 / 28.98097) * 0.579049 / 0.1 * AREA_CM2 * 1e-4  # S, from the checks above
+    assert found["zero_bias_conductance_S"] == pytest.approx(g0, rel=1e-4)
+    assert found["cubic_coefficient_per_V2"] > 0
+
+
+# ---- Fowler-Nordheim ---------------------------------------------------------------------
+
+
+def test_fowler_nordheim_density_pins_mass_prefactor():
+    # Lenzlinger & Snow 1969 form with m0/m*; physics-references §2 [C]: phi = 3.2 eV,
+    # m* = 0.5, E = 1 V/nm -> 0.945760 A/m^2 (0.472880 without the m0/m* prefactor)
+    j = fowler_nordheim_current_density_A_per_m2(1.0, 3.2, 0.5)
+    assert j == pytest.approx(0.945760, rel=1e-5)
+    assert j * 0.5 == pytest.approx(0.472880, rel=1e-5)
+
+
+@pytest.mark.parametrize(("mass", "expected"), [(0.42, 25.3412), (0.5, 27.6495)])
+def test_fowler_nordheim_slope(mass, expected):
+    # physics-references §2 [C]: B = b sqrt(m*) phi^(3/2) at phi = 3.2 eV, in V/nm
+    assert fowler_nordheim_slope_V_per_nm(3.2, mass) == pytest.approx(expected, rel=1e-5)
+
+
+def test_fowler_nordheim_plot_slope_proportional_to_thickness():
+    # physics-references §2 [C]: ln(I/V^2) vs 1/V slope -138.247 V (5 nm), -276.495 V (10 nm)
+    params = {"barrier_height_eV": 3.2, "effective_mass_ratio": 0.5}
+    slopes = []
+    for thickness, expected in [(5.0, -138.247), (10.0, -276.495)]:
+        device = Device(area_cm2=AREA_CM2, thickness_nm=Measured(thickness),
+                        effective_mass_ratio=Measured(0.5))
+        v = np.linspace(0.6, 1.4, 9) * thickness  # E = 0.6 .. 1.4 V/nm
+        t = np.full_like(v, 1.0)  # 1 K: thermal factor 1 + O(1e-5)
+        i = FOWLER_NORDHEIM.current(v, t, params | {"thickness_nm": thickness}, device)
+        x, y = FOWLER_NORDHEIM_PLOT.transform(v, t, i, device)
+        slope, intercept = np.polyfit(x, y, 1)
+        assert slope == pytest.approx(expected, rel=1e-4)
+        found = FOWLER_NORDHEIM_PLOT.interpret(slope, intercept, 1.0, device)
+        assert found["barrier_height_eV"] == pytest.approx(3.2, rel=1e-4)
+        assert found["barrier_height_from_intercept_eV"] == pytest.approx(3.2, rel=1e-3)
+        slopes.append(slope)
+    assert slopes[1] / slopes[0] == pytest.approx(2.0, rel=1e-6)
+
+
+def test_fowler_nordheim_interpret_says_when_mass_was_assumed():
+    device = Device(thickness_nm=Measured(5.0))
+    found = FOWLER_NORDHEIM_PLOT.interpret(-138.247, 0.0, 300.0, device)
+    # slope/(b d) = phi^(3/2) sqrt(m*) = 4.0477 -> phi = 2.54 eV at m* = 1
+    assert set(found) == {"barrier_height_assuming_unit_mass_eV"}
+    expected = (138.247 / (FN_B_EV32_V_PER_NM * 5.0)) ** (2 / 3)
+    assert found["barrier_height_assuming_unit_mass_eV"] == pytest.approx(expected, rel=1e-12)
+    assert FOWLER_NORDHEIM_PLOT.interpret(-138.247, 0.0, 300.0, Device()) == {}
+    assert np.isnan(FOWLER_NORDHEIM_PLOT.interpret(1.0, 0.0, 300.0, device)[
+        "barrier_height_assuming_unit_mass_eV"])
+
+
+def test_murphy_good_thermal_factor_values():
+    # Murphy & Good 1956; physics-references §2 [C]: phi = 3.2, m* = 0.5, F = 1 V/nm:
+    # c = 12.9607 1/eV, x1.21169 (300 K), x1.01227 (77 K)
+    assert murphy_good_thermal_coefficient(1.0, 3.2, 0.5) == pytest.approx(12.9607, rel=1e-5)
+    assert murphy_good_thermal_factor(1.0, 300.0, 3.2, 0.5) == pytest.approx(1.21169, rel=1e-4)
+    assert murphy_good_thermal_factor(1.0, 77.0, 3.2, 0.5) == pytest.approx(1.01227, rel=1e-4)
+
+
+def test_murphy_good_factor_vacuum_with_forbes_t():
+    # physics-references §2 [C]: phi = 4.5 eV, F = 5 V/nm with t(f): c = 4.60768, x1.02373 (300 K)
+    t_value = forbes_t(schottky_nordheim_parameter(4.5, 5.0))
+    c = murphy_good_thermal_coefficient(5.0, 4.5, 1.0, t_value)
+    assert c == pytest.approx(4.60768, rel=1e-5)
+    factor = murphy_good_thermal_factor(5.0, 300.0, 4.5, 1.0, t_value)
+    assert factor == pytest.approx(1.02373, rel=1e-4)
+
+
+def test_forbes_barrier_functions():
+    # Forbes 2006 worked example phi = 4.5 eV, F = 5 V/nm (f ~ 0.36, v ~ 0.58 [P]);
+    # physics-references §2 [C]: f = 0.355547, v = 0.583175, t = 1.059931
+    f = schottky_nordheim_parameter(4.5, 5.0)
+    assert f == pytest.approx(0.355547, rel=1e-6)
+    assert forbes_v(f) == pytest.approx(0.583175, rel=1e-6)
+    assert forbes_t(f) == pytest.approx(1.059931, rel=1e-6)
+    assert forbes_v(0.0) == 1.0 and forbes_t(0.0) == 1.0
+
+
+def test_forbes_v_close_to_exact_schottky_nordheim_integral():
+    # physics-references §2 [C]: exact v(f) by numerical integration 0.859439 / 0.581317 /
+    # 0.169987 at f = 0.1 / 0.3555 / 0.8; Forbes 2006 stated accuracy ~0.3 %
+    f = np.array([0.1, 0.3555, 0.8])
+    exact = np.array([0.859439, 0.581317, 0.169987])
+    assert np.max(np.abs(forbes_v(f) - exact)) < 3e-3
+
+
+def test_schottky_nordheim_versus_elementary_fn_density():
+    # Murphy & Good / Forbes 2006; physics-references §2 [C] at phi = 4.5 eV, F = 5 V/nm:
+    # 3.79396e9 A/m^2 (SN barrier), 1.85704e7 A/m^2 (elementary, v = t = 1)
+    j_sn = schottky_nordheim_current_density_A_per_m2(5.0, 4.5)
+    assert j_sn == pytest.approx(3.79396e9, rel=1e-5)
+    assert fowler_nordheim_current_density_A_per_m2(5.0, 4.5, 1.0) == pytest.approx(
+        1.85704e7, rel=1e-5
+    )
+
+
+# ---- thermal factor cap and numerical safety ----------------------------------------------
+
+
+def test_thermal_smearing_factor_is_held_at_the_cap():
+    x = np.array([0.0, 0.5, THERMAL_ARGUMENT_CAP, 0.99 * np.pi, np.pi, 10.0, 1e300])
+    factor = thermal_smearing_factor(x)
+    assert factor[0] == 1.0
+    assert factor[1] == pytest.approx(0.5 / np.sin(0.5), rel=1e-14)
+    cap_value = THERMAL_ARGUMENT_CAP / np.sin(THERMAL_ARGUMENT_CAP)
+    assert factor[2:] == pytest.approx(np.full(5, cap_value), rel=1e-12)
+    assert np.all(np.diff(factor) >= 0)
+
+
+def _grid_current(mechanism, params):
+    v = np.geomspace(1e-6, 50.0, 60)
+    t = np.array([1.0, 4.2, 77.0, 300.0, 800.0])
+    vv, tt = np.meshgrid(v, t)
+    device = Device(area_cm2=AREA_CM2)
+    return mechanism.current(vv.ravel(), tt.ravel(), params, device)
+
+
+@settings(max_examples=60, deadline=None)
+@given(data=st.data())
+def test_tunnelling_currents_finite_inside_declared_ranges(data):
+    # Any parameters inside the declared ranges, V in (0, 50] V, T in [1, 800] K: finite, >= 0
+    for mechanism in (DIRECT_TUNNELLING, FOWLER_NORDHEIM):
+        params = {
+            p.name: data.draw(st.floats(p.lower, p.upper), label=f"{mechanism.id}.{p.name}")
+            for p in mechanism.parameters
+        }
+        i = _grid_current(mechanism, params)
+        assert np.all(np.isfinite(i)), (mechanism.id, params)
+        assert np.all(i >= 0)
