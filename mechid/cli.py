@@ -13,8 +13,8 @@ from typing import Annotated
 import numpy as np
 import typer
 from rich.console import Console
+from rich.markup import escape
 from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeElapsedColumn
-from rich.table import Table
 
 from mechid import __version__
 from mechid.catalogue import MECHANISMS, get_mechanism, mechanism_ids
@@ -34,7 +34,7 @@ USER_ERROR_EXIT = 2
 
 
 def _fail(message: str) -> typer.Exit:
-    err.print(f"[bold red]error:[/] {message}", highlight=False, markup=True, soft_wrap=True)
+    err.print(f"[bold red]error:[/] {escape(message)}", highlight=False, soft_wrap=True)
     return typer.Exit(code=USER_ERROR_EXIT)
 
 
@@ -44,7 +44,7 @@ def _user_errors() -> Iterator[None]:
 
     def show(message, category, filename, lineno, file=None, line=None):  # noqa: ANN001
         if issubclass(category, MechidWarning):
-            err.print(f"[yellow]warning:[/] {message}", highlight=False, soft_wrap=True)
+            err.print(f"[yellow]warning:[/] {escape(str(message))}", highlight=False, soft_wrap=True)
         else:
             logging.getLogger("mechid").debug("%s: %s", category.__name__, message)
 
@@ -142,21 +142,19 @@ def list_mechanisms() -> None:
     """List every catalogued mechanism: formula, parameters with units and ranges, source."""
     for m in MECHANISMS:
         out.rule(f"[bold]{m.id}[/]  ({m.family}) {m.name}")
-        out.print(f"  I = {m.formula}", highlight=False)
-        out.print(f"  source: {m.source}", highlight=False)
+        out.print(f"  I = {m.formula}", highlight=False, markup=False)
+        out.print(f"  source: {m.source}", highlight=False, markup=False)
         if m.temperature_dependence:
             out.print(f"  temperature dependence: {m.temperature_dependence}", highlight=False)
-        table = Table(show_header=True, header_style="bold", box=None, pad_edge=False)
-        for column in ("parameter", "unit", "range", "prior", "from device", "meaning"):
-            table.add_column(column)
+        out.print("  parameters:", highlight=False)
         for p in m.parameters:
-            table.add_row(p.name, p.unit, f"{p.lower:g} .. {p.upper:g}",
-                          "log-uniform" if p.log_scale else "uniform", p.device_prior or "",
-                          p.description)
-        out.print(table)
+            prior = "log-uniform" if p.log_scale else "uniform"
+            device_note = f"; from the device's {p.device_prior} when given" if p.device_prior else ""
+            out.print(f"    {p.name}  [{p.unit}]  range {p.lower:g} .. {p.upper:g} ({prior} prior"
+                      f"{device_note}): {p.description}", highlight=False, soft_wrap=True, markup=False)
         if m.plots:
             out.print("  straightened plots: " + "; ".join(
-                f"{pl.title} ({pl.y_label} vs {pl.x_label})" for pl in m.plots), highlight=False)
+                f"{pl.title} ({pl.y_label} vs {pl.x_label})" for pl in m.plots), highlight=False, markup=False)
 
 
 @app.command("simulate")
