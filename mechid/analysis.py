@@ -19,6 +19,7 @@ from mechid.catalogue.base import Mechanism
 from mechid.data import IVSeries
 from mechid.device import Device
 from mechid.errors import MechidError
+from mechid.formatting import format_estimate
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.fit import MechanismFit, fit_mechanism
 from mechid.inference.tempering import LadderSettings
@@ -208,13 +209,10 @@ def _verdict(results: list[MechanismResult]) -> Verdict:
 
 
 def _format_parameter(name: str, summary: Any) -> str:
-    unit = "" if summary.unit in ("", "1") else f" {summary.unit}"
     if summary.fixed:
+        unit = "" if summary.unit in ("", "1") else f" {summary.unit}"
         return f"{name} = {summary.median:.4g}{unit} (held fixed)"
-    lo68, hi68 = summary.ci68
-    lo95, hi95 = summary.ci95
-    return (f"{name} = {summary.median:.4g}{unit} (68 %: {lo68:.4g} to {hi68:.4g}; "
-            f"95 %: {lo95:.4g} to {hi95:.4g})")
+    return f"{name} = {format_estimate(summary.median, summary.ci68, summary.ci95, summary.unit)}"
 
 
 def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b: float,

@@ -149,3 +149,12 @@ def test_adequacy_flags_a_wrong_curve_shape_and_passes_the_right_one():
         draws = best + 1e-3 * rng.standard_normal((400, target.ndim))
         check = check_adequacy(target, draws, rng)
         assert check.adequate is expected, check.reasons
+
+
+def test_estimates_are_printed_to_the_digits_their_interval_supports():
+    from mechid.formatting import format_estimate
+
+    assert format_estimate(1.2001289, (1.19951, 1.20073), (1.1990, 1.2012), "eV") == (
+        "1.2001 eV (68 %: 1.1995 to 1.2007; 95 %: 1.1990 to 1.2012)")
+    assert format_estimate(2.0e6, (1.9e6, 2.1e6), (1.8e6, 2.2e6), "K").startswith("2.00e+06 K")
+    assert format_estimate(5.7e-15, (1.2e-15, 4.2e-14), (1e-15, 5e-14), "A").startswith("5.7e-15 A")

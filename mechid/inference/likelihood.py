@@ -17,6 +17,9 @@ Physical parameters are shared across all temperatures and both polarities.
 
 from __future__ import annotations
 
+import functools
+import os
+from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -27,6 +30,14 @@ from mechid.device import Device
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, Prior
 
 _LOG_2PI = float(np.log(2 * np.pi))
+_WORKERS = max(1, min(4, os.cpu_count() or 1))
+#: Below about this many walker-points per chunk, thread overhead outweighs the gain.
+_POINTS_PER_CHUNK = 20_000
+
+
+@functools.cache
+def _pool() -> ThreadPoolExecutor:
+    return ThreadPoolExecutor(max_workers=_WORKERS, thread_name_prefix="mechid-likelihood")
 
 
 @dataclass
@@ -119,20 +130,34 @@ class MechanismTarget:
         return total
 
     def log_likelihood(self, theta: NDArray) -> NDArray:
-        """Gaussian log likelihood of the series, ``(m, ndim)`` -> ``(m,)``; -inf where invalid."""
+        """Gaussian log likelihood of the series, ``(m, ndim)`` -> ``(m,)``; -inf where invalid.
+
+        Large batches are split in chunks evaluated on a small thread pool: NumPy releases
+        the GIL inside its array loops, so the chunks run on separate cores.
+        """
         theta = np.atleast_2d(theta)
         inside = np.all((theta >= self._prior_lo) & (theta <= self._prior_hi), axis=1)
         result = np.full(theta.shape[0], -np.inf)
         if not inside.any():
             return result
         ok = theta[inside]
-        with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
-            model = self.model_current(ok)
-            variance = self.noise_sd(ok, model) ** 2
-            chi2 = (self.current_A - model) ** 2 / variance
-            loglike = -0.5 * np.sum(chi2 + np.log(variance) + _LOG_2PI, axis=1)
-        result[inside] = np.where(np.isfinite(loglike), loglike, -np.inf)
+        n_chunks = min(_WORKERS, max(1, ok.shape[0] * self.n_points // _POINTS_PER_CHUNK))
+        if n_chunks > 1:
+            parts = list(_pool().map(self._log_likelihood_block, np.array_split(ok, n_chunks)))
+            loglike = np.concatenate(parts)
+        else:
+            loglike = self._log_likelihood_block(ok)
+        result[inside] = loglike
         return result
+
+    def _log_likelihood_block(self, theta: NDArray) -> NDArray:
+        with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
+            model = self.model_current(theta)
+            values = self.physical_values(theta)
+            variance = (values[NOISE_RELATIVE] * model) ** 2 + values[NOISE_FLOOR] ** 2
+            chi2 = (self.current_A - model) ** 2 / variance
+            loglike = -0.5 * np.sum(chi2 + np.log(variance), axis=1) - 0.5 * _LOG_2PI * self.n_points
+        return np.where(np.isfinite(loglike), loglike, -np.inf)
 
     def log_posterior(self, theta: NDArray) -> NDArray:
         """Unnormalised log posterior ``(m, ndim) -> (m,)``."""

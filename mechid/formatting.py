@@ -1,0 +1,52 @@
+"""Number formatting shared by the verdict sentence, the console and the report.
+
+Values are printed with as many digits as their uncertainty supports: the width of the
+68 % interval sets the last printed digit (two significant digits of the width, the usual
+convention for quoting a result with its uncertainty).
+"""
+
+from __future__ import annotations
+
+import math
+
+
+def last_digit_for(width: float, significant: int = 2) -> int | None:
+    """Power of ten of the last digit that shows ``significant`` digits of ``width``."""
+    if not (math.isfinite(width) and width > 0):
+        return None
+    return math.floor(math.log10(width)) - (significant - 1)
+
+
+def format_number(value: float, last_digit: int | None = None, sig: int = 4) -> str:
+    """``value`` printed down to the digit 10**last_digit (``sig`` significant digits if None).
+
+    Magnitudes of 1e5 and above or below 1e-3 use scientific notation.
+    """
+    if not math.isfinite(value):
+        return "n/a"
+    magnitude = abs(value)
+    exponent = math.floor(math.log10(magnitude)) if magnitude > 0 else 0
+    if last_digit is None:
+        last_digit = exponent - (sig - 1)
+    last_digit = max(last_digit, exponent - 6)  # never more than 7 significant digits
+    if magnitude != 0 and (magnitude >= 1e5 or magnitude < 1e-3):
+        return f"{value:.{max(exponent - last_digit, 0)}e}"
+    return f"{value:.{max(-last_digit, 0)}f}"
+
+
+def format_interval(lo: float, hi: float, last_digit: int | None) -> str:
+    """``"lo to hi"`` with a shared last digit."""
+    return f"{format_number(lo, last_digit)} to {format_number(hi, last_digit)}"
+
+
+def format_estimate(median: float, ci68: tuple[float, float], ci95: tuple[float, float],
+                    unit: str = "") -> str:
+    """``"1.2001 eV (68 %: 1.1995 to 1.2007; 95 %: 1.1990 to 1.2012)"``."""
+    unit_text = "" if unit in ("", "1") else f" {unit}"
+    if ci68[0] > 0 and ci68[1] / ci68[0] > 3:  # spans decades: two significant digits each
+        return (f"{median:.2g}{unit_text} (68 %: {ci68[0]:.2g} to {ci68[1]:.2g}; "
+                f"95 %: {ci95[0]:.2g} to {ci95[1]:.2g})")
+    last = last_digit_for(ci68[1] - ci68[0])
+    unit_text = "" if unit in ("", "1") else f" {unit}"
+    return (f"{format_number(median, last)}{unit_text} (68 %: {format_interval(*ci68, last)}; "
+            f"95 %: {format_interval(*ci95, last)})")
