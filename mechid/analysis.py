@@ -30,8 +30,10 @@ ProgressHook = Callable[[str, int, int], None]
 Polarity = Literal["both", "positive", "negative"]
 
 #: Ladder settings of a full and of a quick run (see benchmarks/ for the evidence errors).
-FULL_LADDER = {"n_temperatures": 12, "n_burn": 300, "n_production": 600}
-QUICK_LADDER = {"n_temperatures": 8, "n_burn": 150, "n_production": 250}
+FULL_LADDER = {"n_temperatures": 8, "beta_power": 2.0, "n_burn": 150, "n_production": 300,
+               "max_production": 600}
+QUICK_LADDER = {"n_temperatures": 6, "beta_power": 2.0, "n_burn": 80, "n_production": 150,
+                "max_production": 150, "n_walkers": 24}
 
 
 @dataclass(frozen=True)

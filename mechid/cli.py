@@ -154,7 +154,8 @@ def list_mechanisms() -> None:
                       f"{device_note}): {p.description}", highlight=False, soft_wrap=True, markup=False)
         if m.plots:
             out.print("  straightened plots: " + "; ".join(
-                f"{pl.title} ({pl.y_label} vs {pl.x_label})" for pl in m.plots), highlight=False, markup=False)
+                f"{pl.title} ({pl.y_label} vs {pl.x_label})" for pl in m.plots),
+                highlight=False, markup=False)
 
 
 @app.command("simulate")
@@ -240,7 +241,7 @@ def analyze_command(
     seed: SeedOpt = 0,
 ) -> None:
     """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""
-    from mechid.analysis import AnalysisSettings, run_analysis
+    from mechid.analysis import AnalysisSettings, run_analysis_full
     from mechid.data import read_series
 
     with _user_errors():
@@ -266,15 +267,16 @@ def analyze_command(
         with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
                       TimeElapsedColumn(), console=err, transient=False,
                       disable=not err.is_terminal) as progress:
-            result = run_analysis(series, device, settings, seed=seed,
-                                  progress=_progress_hook(progress))
-        _print_result(result)
-        _write_outputs(result, json_path, samples_path, report_path, figures_dir, summary_path)
+            run = run_analysis_full(series, device, settings, seed=seed,
+                                    progress=_progress_hook(progress))
+        _print_result(run.result)
+        _write_outputs(run, json_path, samples_path, report_path, figures_dir, summary_path)
 
 
-def _write_outputs(result, json_path, samples_path, report_path, figures_dir, summary_path) -> None:  # noqa: ANN001
+def _write_outputs(run, json_path, samples_path, report_path, figures_dir, summary_path) -> None:  # noqa: ANN001
     from mechid.results import write_json, write_samples
 
+    result = run.result
     if json_path is not None:
         write_json(result, json_path)
         err.print(f"result JSON written to {json_path}")
@@ -284,7 +286,7 @@ def _write_outputs(result, json_path, samples_path, report_path, figures_dir, su
     if report_path is not None or figures_dir is not None or summary_path is not None:
         from mechid.report import write_outputs
 
-        for written in write_outputs(result, report=report_path, figures_dir=figures_dir,
+        for written in write_outputs(run, report=report_path, figures_dir=figures_dir,
                                      summary=summary_path):
             err.print(f"written {written}")
 
@@ -303,33 +305,32 @@ def demo_command(
     seed: SeedOpt = 0,
 ) -> None:
     """Analyse the shipped demo series and write JSON and report into ./mechid-demo/."""
-    from mechid.analysis import AnalysisSettings, run_analysis
-    from mechid.demo import demo_series_path
+    from mechid.analysis import AnalysisSettings, run_analysis_full
+    from mechid.data import read_series
+    from mechid.demo import demo_series_path, demo_truth
+    from mechid.report import write_outputs
     from mechid.results import write_json
 
     with _user_errors():
         data = demo_series_path()
-        series_device = read_device_toml(find_device_toml(data))  # type: ignore[arg-type]
-        from mechid.data import read_series
-
+        device_path = find_device_toml(data)
+        device = read_device_toml(device_path) if device_path else Device()
         series = read_series(data)
         out_dir.mkdir(parents=True, exist_ok=True)
         err.print(f"demo data: {data}", highlight=False)
+        err.print(f"scenario: {demo_truth()['story']}", highlight=False)
         with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
                       TimeElapsedColumn(), console=err, disable=not err.is_terminal) as progress:
-            result = run_analysis(series, series_device, AnalysisSettings(quick=quick), seed=seed,
-                                  progress=_progress_hook(progress))
-        _print_result(result)
+            run = run_analysis_full(series, device, AnalysisSettings(quick=quick), seed=seed,
+                                    progress=_progress_hook(progress))
+        _print_result(run.result)
         json_path = out_dir / "result.json"
-        write_json(result, json_path)
-        written = [json_path]
-        try:
-            from mechid.report import write_outputs
-        except ImportError:
-            write_outputs = None
-        if write_outputs is not None:
-            written += write_outputs(result, report=out_dir / "report.html",
-                                     figures_dir=None, summary=out_dir / "summary.csv")
+        write_json(run.result, json_path)
+        written = [json_path, *write_outputs(run, report=out_dir / "report.html", figures_dir=None,
+                                             summary=out_dir / "summary.csv")]
+        truth = demo_truth()
+        err.print(f"true mechanism of the demo series: {truth['mechanism']} with "
+                  + ", ".join(f"{k} = {v:g}" for k, v in truth["params"].items()), highlight=False)
         err.print("demo outputs written to " + ", ".join(str(p) for p in written), highlight=False)
 
 

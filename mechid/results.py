@@ -90,8 +90,11 @@ class MechanismResult:
 
 
 def _exp_or_zero(ln_value: float) -> float:
-    if not math.isfinite(ln_value):
-        return 0.0 if ln_value < 0 else float("nan")
+    """exp(ln_value), 0 on underflow and inf (written as null) on overflow."""
+    if math.isnan(ln_value):
+        return float("nan")
+    if ln_value > 709.0:
+        return float("inf")
     return math.exp(ln_value) if ln_value > -745 else 0.0
 
 

@@ -158,3 +158,10 @@ def test_estimates_are_printed_to_the_digits_their_interval_supports():
         "1.2001 eV (68 %: 1.1995 to 1.2007; 95 %: 1.1990 to 1.2012)")
     assert format_estimate(2.0e6, (1.9e6, 2.1e6), (1.8e6, 2.2e6), "K").startswith("2.00e+06 K")
     assert format_estimate(5.7e-15, (1.2e-15, 4.2e-14), (1e-15, 5e-14), "A").startswith("5.7e-15 A")
+
+
+def test_ranking_orders_by_evidence_even_when_probabilities_underflow():
+    ranking = rank_mechanisms({"a": 0.0, "b": -3000.0, "c": -900.0, "d": -2000.0},
+                              {k: 0.05 for k in "abcd"})
+    assert ranking.ids == ("a", "c", "d", "b")
+    assert ranking.ln_bayes_factor_best_vs_runner_up == pytest.approx(900.0)

@@ -99,7 +99,9 @@ def rank_mechanisms(
     draws = logits + np.where(np.isfinite(err), err, 0.0) * rng.standard_normal((n_draws, len(ids)))
     prob_err = softmax(draws, axis=1).std(axis=0)
 
-    order = np.argsort(-np.nan_to_num(prob, nan=-1.0), kind="stable")
+    # Order by log posterior weight, not by probability: probabilities of clearly losing
+    # mechanisms underflow to exactly 0 and would tie.
+    order = np.argsort(-np.nan_to_num(logits, nan=-np.inf), kind="stable")
     best = order[0]
     ln_b = logz - logz[best]
     ln_b_err = np.sqrt(err**2 + err[best] ** 2)

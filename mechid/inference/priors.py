@@ -19,6 +19,7 @@ Where the priors come from:
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 from typing import Any, Literal
 
@@ -96,13 +97,17 @@ class Prior:
             dens = np.full_like(x, -np.log(hi - lo))
         elif self.kind == "truncated_normal":
             assert self.mean is not None and self.sd is not None
-            a, b = (lo - self.mean) / self.sd, (hi - self.mean) / self.sd
-            log_mass = _log_normal_mass(a, b)
             z = (x - self.mean) / self.sd
-            dens = -0.5 * z**2 - np.log(self.sd * np.sqrt(2 * np.pi)) - log_mass
+            dens = -0.5 * z**2 - np.log(self.sd * np.sqrt(2 * np.pi)) - self._log_normal_mass
         else:
             raise ValueError("a fixed parameter has no density")
         return np.where(inside, dens, -np.inf)
+
+    @functools.cached_property
+    def _log_normal_mass(self) -> float:
+        """log of the Gaussian mass inside the support (truncated_normal only)."""
+        lo, hi = self.internal_bounds()
+        return _log_normal_mass((lo - self.mean) / self.sd, (hi - self.mean) / self.sd)
 
     def sample(self, rng: np.random.Generator, n: int) -> NDArray:
         """``n`` exact draws in the internal coordinate."""

@@ -32,8 +32,8 @@ def find_map(
     target: MechanismTarget,
     rng: np.random.Generator,
     hints: Mapping[str, float] | None = None,
-    n_screen: int = 4000,
-    n_polish: int = 3,
+    n_screen: int = 2000,
+    n_polish: int = 1,
 ) -> NDArray:
     """Approximate MAP point of ``target`` in internal coordinates, shape ``(ndim,)``.
 
@@ -65,7 +65,7 @@ def find_map(
 
     polished = [
         optimize.minimize(negative, x0, method="Nelder-Mead",
-                          options={"maxiter": 400 * target.ndim, "xatol": 1e-6, "fatol": 1e-6})
+                          options={"maxiter": 100 * target.ndim, "xatol": 1e-6, "fatol": 1e-3})
         for x0 in best
     ]
     winner = min(polished, key=lambda r: r.fun)

@@ -1,0 +1,229 @@
+"""A reference distribution close to the posterior, and the path that starts from it.
+
+Why: with a Gaussian noise model on currents spanning ten or more decades, prior draws give
+log-likelihoods down to -1e25 while the posterior sits at +1e3. The power-posterior path from
+the prior to the posterior then crosses some 25 decades of beta, far more than a practical
+ladder can bridge. The *generalised stepping-stone* method (Fan, Wu, Chen, Kuo & Lewis 2011,
+Mol. Biol. Evol. 28, 523) replaces the prior at the hot end of the ladder by a normalised
+reference distribution r close to the posterior:
+
+.. math::
+
+    p_\\beta(\\theta) \\propto r(\\theta)^{1-\\beta}\\,[L(\\theta)\\pi(\\theta)]^{\\beta},
+    \\qquad Z = \\int L\\pi\\,d\\theta = E_r\\!\\left[\\frac{L\\pi}{r}\\right].
+
+This module builds r from a short emcee run at beta = 1 (the *pilot*) and wraps the model as
+a :class:`ReferencePathTarget` whose "prior" is r and whose "likelihood" is L*pi/r, so the
+evidence engine's stepping-stone, thermodynamic-integration and bridge estimators apply
+unchanged and still estimate Z of the original model (Lefebvre, Steele & Vandal 2010,
+Comput. Stat. Data Anal. 54, 1719, give the matching path-sampling identity).
+
+The reference is a multivariate Student-t with 10 degrees of freedom, fitted to the pilot
+draws, widened and truncated to the prior support. Its tails are heavier than a Gaussian's,
+so the ratio L*pi/r stays bounded, yet light enough that thermodynamic integration's first
+rung is not dominated by rare catastrophic fits. Its mass inside the support is estimated
+from many cheap draws and enters log r.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import emcee
+import numpy as np
+from numpy.typing import NDArray
+from scipy import stats
+
+from mechid.inference.target import Target
+
+#: Degrees of freedom of the Student-t reference (heavy tails keep L*pi/r bounded).
+REFERENCE_DOF = 10.0
+#: Scale factor applied to the pilot covariance.
+REFERENCE_WIDENING = 1.5
+#: Draws used to estimate the reference mass inside the prior support.
+MASS_DRAWS = 200_000
+
+
+@dataclass
+class StudentReference:
+    """A multivariate Student-t truncated to a box, with its normalisation.
+
+    Parameters
+    ----------
+    mean : ndarray, shape (d,)
+        Location.
+    scale : ndarray, shape (d, d)
+        Scale matrix (covariance times (dof - 2)/dof).
+    lower, upper : ndarray, shape (d,)
+        Box (the prior support in sampling coordinates).
+    dof : float
+        Degrees of freedom.
+    rng : numpy.random.Generator
+        Used once to estimate the mass inside the box.
+    """
+
+    mean: NDArray
+    scale: NDArray
+    lower: NDArray
+    upper: NDArray
+    dof: float
+    rng: np.random.Generator
+    log_mass: float = field(init=False)
+    mass_err: float = field(init=False)
+
+    def __post_init__(self) -> None:
+        self._dist = stats.multivariate_t(loc=self.mean, shape=self.scale, df=self.dof,
+                                          allow_singular=False)
+        draws = self._dist.rvs(size=MASS_DRAWS, random_state=self.rng)
+        inside = self._inside(np.atleast_2d(draws)).mean()
+        if inside <= 0:
+            raise ValueError("reference distribution has no mass inside the prior support")
+        self.log_mass = float(np.log(inside))
+        self.mass_err = float(np.sqrt((1 - inside) / (inside * MASS_DRAWS)))
+
+    def _inside(self, theta: NDArray) -> NDArray:
+        return np.all((theta >= self.lower) & (theta <= self.upper), axis=1)
+
+    def log_density(self, theta: NDArray) -> NDArray:
+        """Normalised log density ``(m, d) -> (m,)``; -inf outside the box."""
+        theta = np.atleast_2d(theta)
+        values = np.atleast_1d(self._dist.logpdf(theta)) - self.log_mass
+        return np.where(self._inside(theta), values, -np.inf)
+
+    def sample(self, rng: np.random.Generator, n: int) -> NDArray:
+        """``n`` exact draws (rejection from the untruncated distribution)."""
+        kept: list[NDArray] = []
+        count = 0
+        while count < n:
+            batch = np.atleast_2d(self._dist.rvs(size=max(2 * (n - count), 16), random_state=rng))
+            batch = batch[self._inside(batch)]
+            kept.append(batch)
+            count += len(batch)
+        return np.vstack(kept)[:n]
+
+
+@dataclass
+class ReferencePathTarget:
+    """The model seen along the reference-to-posterior path (a :class:`Target`).
+
+    Its prior is the reference r and its likelihood L*pi/r, so its evidence equals the
+    evidence of ``model``.
+    """
+
+    model: Target
+    reference: StudentReference
+
+    @property
+    def ndim(self) -> int:
+        """Number of sampled parameters."""
+        return self.model.ndim
+
+    @property
+    def names(self) -> tuple[str, ...]:
+        """Parameter names."""
+        return self.model.names
+
+    def log_prior(self, theta: NDArray) -> NDArray:
+        """log r(theta)."""
+        return self.reference.log_density(theta)
+
+    def log_likelihood(self, theta: NDArray) -> NDArray:
+        """log L + log pi - log r."""
+        theta = np.atleast_2d(theta)
+        with np.errstate(invalid="ignore"):
+            value = (self.model.log_likelihood(theta) + self.model.log_prior(theta)
+                     - self.reference.log_density(theta))
+        return np.where(np.isfinite(value), value, -np.inf)
+
+    def sample_prior(self, rng: np.random.Generator, n: int) -> NDArray:
+        """Exact draws from r."""
+        return self.reference.sample(rng, n)
+
+
+def local_scales(target: Target, centre: NDArray, lower: NDArray, upper: NDArray) -> NDArray:
+    """Per-parameter step over which the log posterior drops by about 2 nats (one call)."""
+    steps = np.logspace(-9, 0, 19)[:, None] * (upper - lower)[None, :]  # (s, d)
+    d = len(centre)
+    points = np.repeat(centre[None, None, :], len(steps), axis=0).repeat(d, axis=1)  # (s, d, d)
+    idx = np.arange(d)
+    points[:, idx, idx] += steps
+    flat = np.clip(points.reshape(-1, d), lower, upper)
+    logp = target.log_prior(flat) + _finite_like(target, flat)
+    drop = (target.log_prior(centre[None]) + _finite_like(target, centre[None]))[0] - logp
+    drop = drop.reshape(len(steps), d)
+    scales = np.empty(d)
+    for j in range(d):
+        ok = np.nonzero(drop[:, j] <= 2.0)[0]
+        scales[j] = steps[ok[-1], j] if ok.size else steps[0, j]
+    return scales
+
+
+def _finite_like(target: Target, theta: NDArray) -> NDArray:
+    value = target.log_likelihood(theta)
+    return np.where(np.isfinite(value), value, -1e300)
+
+
+@dataclass
+class PilotRun:
+    """Cold-chain draws of the pilot run and the reference built from them."""
+
+    draws: NDArray
+    reference: StudentReference
+    n_likelihood_calls: int
+
+
+def pilot_reference(
+    target: Target,
+    start: NDArray,
+    lower: NDArray,
+    upper: NDArray,
+    rng: np.random.Generator,
+    n_walkers: int | None = None,
+    n_steps: int = 400,
+) -> PilotRun:
+    """Run emcee at beta = 1 from ``start`` and fit the Student-t reference to its draws.
+
+    Parameters
+    ----------
+    target : Target
+        The model (normalised prior, vectorised likelihood).
+    start : ndarray, shape (d,)
+        A point near the posterior mode (e.g. the MAP).
+    lower, upper : ndarray, shape (d,)
+        Prior support in sampling coordinates.
+    rng : numpy.random.Generator
+        The random source (emcee receives a state drawn from it).
+    n_walkers : int, optional
+        Ensemble size, default ``max(32, 4 d)`` rounded to even.
+    n_steps : int
+        Steps; the second half is used.
+    """
+    d = target.ndim
+    walkers = n_walkers or max(32, 4 * d)
+    walkers += walkers % 2
+    scales = local_scales(target, start, lower, upper)
+    p0 = start + scales * 0.3 * rng.standard_normal((walkers, d))
+    p0 = np.clip(p0, lower, upper)
+
+    def log_prob(theta: NDArray) -> NDArray:
+        lp = target.log_prior(theta)
+        out = np.full(len(theta), -np.inf)
+        ok = np.isfinite(lp)
+        if ok.any():
+            out[ok] = lp[ok] + target.log_likelihood(theta[ok])
+        return np.where(np.isfinite(out), out, -np.inf)
+
+    sampler = emcee.EnsembleSampler(
+        walkers, d, log_prob, vectorize=True,
+        # emcee 3.1.6's DESnookerMove does not use a unit vector (measured: posterior variances
+        # 8-10 % too narrow), so only DE and stretch moves are used here.
+        moves=[(emcee.moves.DEMove(), 0.8), (emcee.moves.StretchMove(), 0.2)],
+    )
+    sampler.random_state = np.random.RandomState(int(rng.integers(2**32 - 1))).get_state()
+    sampler.run_mcmc(p0, n_steps, progress=False)
+    chain = sampler.get_chain(discard=n_steps // 2, flat=True)
+    cov = np.atleast_2d(np.cov(chain, rowvar=False))
+    cov = cov + np.diag(np.maximum(1e-12 * (upper - lower) ** 2, 1e-300))
+    shape = cov * REFERENCE_WIDENING**2 * (REFERENCE_DOF - 2) / REFERENCE_DOF
+    reference = StudentReference(np.mean(chain, axis=0), shape, lower, upper, REFERENCE_DOF, rng)
+    return PilotRun(chain, reference, walkers * n_steps)

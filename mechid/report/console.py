@@ -1,0 +1,137 @@
+"""The terminal summary printed by ``mechid analyze``.
+
+:func:`render_console` prints, in this order: the straightened-plot screening (one row per
+mechanism: key quantities read from the lines, checks passed/failed, screening rank), then,
+when mechanisms were fitted, the evidence ranking (ln Z ± error, probability, ln B against the
+leader, adequacy, key parameters as median [68 %]), the verdict sentence and the cautions.
+It reads the plain-JSON form of the result, so every number printed equals the JSON.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from typing import Any
+
+from rich.console import Console
+from rich.markup import escape
+from rich.table import Table
+
+from mechid.report.text import (
+    estimate_spec,
+    fmt,
+    fmt_ln,
+    fmt_probability,
+    is_number,
+    key_parameters,
+    parameter_symbol,
+    screening_entry,
+    unit_suffix,
+)
+from mechid.results import AnalysisResult, to_plain_json
+
+#: Quantities shown per mechanism in the screening table.
+MAX_SCREENING_QUANTITIES = 3
+
+
+def _quantities(entry: Mapping[str, Any]) -> str:
+    """The first few finite quantities read from the straightened plots, ``name=value``."""
+    parts = []
+    for key, value in (entry.get("summary") or {}).items():
+        if is_number(value):
+            parts.append(f"{key.split('.', 1)[-1]}={fmt(value, '.3g')}")
+        if len(parts) == MAX_SCREENING_QUANTITIES:
+            break
+    return ", ".join(parts) or "-"
+
+
+def screening_table(data: Mapping[str, Any]) -> Table | None:
+    """Rich table of the linearisation screening, in screening-rank order."""
+    lin = data.get("linearisation") or {}
+    ranking = lin.get("ranking") or []
+    if not ranking:
+        return None
+    table = Table(title="Straightened-plot screening", title_justify="left", expand=False)
+    table.add_column("rank", justify="right")
+    table.add_column("mechanism")
+    table.add_column("read from the lines")
+    table.add_column("checks", justify="center")
+    table.add_column("score", justify="right")
+    for rank, mechanism_id in enumerate(ranking, start=1):
+        entry = screening_entry(data, mechanism_id) or {}
+        checks = entry.get("checks") or []
+        passed = sum(c.get("passed") is True for c in checks)
+        failed = sum(c.get("passed") is False for c in checks)
+        table.add_row(str(rank), escape(mechanism_id), escape(_quantities(entry)),
+                      f"[green]{passed} ok[/green] / [red]{failed} failed[/red]",
+                      fmt(entry.get("score"), ".3g"))
+    return table
+
+
+def _parameters_cell(mechanism: Mapping[str, Any]) -> str:
+    parts = []
+    for name, s in key_parameters(mechanism):
+        lo, hi = s.get("ci68") or (None, None)
+        spec = estimate_spec(s)
+        parts.append(f"{parameter_symbol(str(mechanism.get('id')), name)}="
+                     f"{fmt(s.get('median'), spec)}{unit_suffix(s.get('unit'))} "
+                     f"[{fmt(lo, spec)}, {fmt(hi, spec)}]")
+    return "\n".join(parts) or "-"
+
+
+def ranking_table(data: Mapping[str, Any]) -> Table | None:
+    """Rich table of the evidence ranking (None for a screening-only result)."""
+    mechanisms = data.get("mechanisms") or []
+    if not mechanisms:
+        return None
+    table = Table(title="Evidence ranking (joint fit)", title_justify="left")
+    table.add_column("mechanism")
+    table.add_column("ln Z ± err", justify="right")
+    table.add_column("probability", justify="right")
+    table.add_column("ln B vs best", justify="right")
+    table.add_column("adequate", justify="center")
+    table.add_column("key parameters: median [68 %]")
+    for m in mechanisms:
+        adequate = "[green]yes[/green]" if m.get("fit_adequate") else "[red]no[/red]"
+        table.add_row(
+            escape(str(m.get("id"))),
+            f"{fmt_ln(m.get('log_evidence'))} ± {fmt_ln(m.get('log_evidence_err'))}",
+            fmt_probability(m.get("probability")),
+            fmt_ln(m.get("ln_bayes_factor_vs_best")),
+            adequate, escape(_parameters_cell(m)),
+        )
+    return table
+
+
+def render_console(result: AnalysisResult | Mapping[str, Any], console: Console) -> None:
+    """Print the analysis summary to a rich console.
+
+    Parameters
+    ----------
+    result : AnalysisResult or mapping
+        The result, or its plain-JSON form; works for screening-only results (no fitted
+        mechanisms, no verdict).
+    console : rich.console.Console
+        Where to print.
+    """
+    data = (to_plain_json(result.to_dict()) if isinstance(result, AnalysisResult)
+            else dict(result))
+    screening = screening_table(data)
+    if screening is not None:
+        console.print(screening)
+    ranking = ranking_table(data)
+    if ranking is not None:
+        console.print(ranking)
+    verdict = data.get("verdict")
+    if verdict is not None:
+        style = "bold" if verdict.get("fit_adequate") and verdict.get("resolved") else "bold yellow"
+        console.print(f"[{style}]Verdict:[/{style}] {escape(str(verdict.get('sentence')))}")
+    elif not data.get("mechanisms"):
+        best = (data.get("linearisation") or {}).get("best")
+        console.print("Screening only (no Bayesian fit): "
+                      + (f"the straightened plots favour {escape(str(best))}." if best
+                         else "no mechanism could be assessed."))
+    cautions = data.get("cautions") or []
+    if cautions:
+        console.print("[bold]Cautions[/bold]")
+        for caution in cautions:
+            console.print(f"  - {escape(str(caution))}")

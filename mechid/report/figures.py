@@ -1,0 +1,849 @@
+"""The report's figures, built as :class:`matplotlib.figure.Figure` objects (never pyplot).
+
+Every figure is made at publication size (``DOUBLE_COLUMN_IN`` wide, the usual two-column
+journal width) with units in every axis label and one shared style (:data:`STYLE`), so the
+same object can be embedded in the HTML report as a PNG and written by ``--figures`` as a
+PNG and a vector PDF. Nothing here chooses a backend: figures are drawn by
+:class:`~matplotlib.backends.backend_agg.FigureCanvasAgg` (PNG) and the PDF canvas through
+``Figure.savefig``, so importing this module never calls ``matplotlib.use``.
+
+Figures
+-------
+* :func:`iv_curves_figure` -- the measured I-V curves at every temperature, on a log-current
+  axis, both polarities, excluded points marked;
+* :func:`straightened_figure` -- one mechanism's straightened plots with their straight lines
+  and R^2 (from the linearisation result);
+* :func:`joint_fit_figure` -- the joint fit: data with the posterior median curve and the 95 %
+  posterior predictive band, and the standardised residuals below;
+* :func:`corner_figure` -- the posterior of the physical parameters (corner.py, Foreman-Mackey
+  2016), 68 % and 95 % contours;
+* :func:`ranking_figure` -- ln B of every fitted mechanism against the leader, on the Kass &
+  Raftery (1995) scale;
+* :func:`zabrodskii_figure` -- the reduced activation energy w(T) and its power-law slope
+  (Zabrodskii & Zinov'eva 1984).
+"""
+
+from __future__ import annotations
+
+import io
+import logging
+import math
+import warnings
+from collections.abc import Iterator, Mapping, Sequence
+from contextlib import contextmanager
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import matplotlib
+import numpy as np
+from matplotlib import ticker
+from matplotlib.figure import Figure
+from numpy.typing import NDArray
+
+from mechid.catalogue import get_mechanism
+from mechid.catalogue.base import Mechanism, StraightenedPlot
+from mechid.data import IVSeries
+from mechid.device import Device
+from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE
+
+logger = logging.getLogger(__name__)
+
+FloatArray = NDArray[np.float64]
+
+#: Two-column journal figure width in inches (about 178 mm).
+DOUBLE_COLUMN_IN = 7.0
+#: Resolution of the PNG embedded in the HTML report (sharp on screen and in print).
+HTML_DPI = 150
+#: Resolution of the PNG files written by ``--figures``.
+FILE_DPI = 300
+#: Posterior draws used for the predictive band (fixed subset: same report for same run).
+PREDICTIVE_DRAWS = 150
+#: Posterior draws shown in a corner plot (evenly thinned; enough for 95 % contours).
+CORNER_DRAWS = 2500
+#: Grid points per (temperature, polarity) branch of the model curves.
+CURVE_POINTS = 70
+#: Relative |V| mismatch accepted when matching a common bias (as in mechid.linearise).
+BIAS_MATCH_RTOL = 0.05
+
+#: One consistent style for every figure (fonts embedded as TrueType in PDFs).
+STYLE: dict[str, Any] = {
+    "font.family": "DejaVu Sans",
+    "font.size": 8.0,
+    "axes.titlesize": 8.5,
+    "axes.labelsize": 8.0,
+    "legend.fontsize": 6.5,
+    "legend.title_fontsize": 7.0,
+    "xtick.labelsize": 7.0,
+    "ytick.labelsize": 7.0,
+    "axes.grid": True,
+    "grid.alpha": 0.35,
+    "grid.linewidth": 0.5,
+    "axes.spines.top": False,
+    "axes.spines.right": False,
+    "axes.linewidth": 0.7,
+    "lines.linewidth": 1.1,
+    "lines.markersize": 3.2,
+    "legend.frameon": False,
+    "pdf.fonttype": 42,
+    "svg.fonttype": "none",
+}
+
+#: Colours of the report (shared with the HTML stylesheet).
+INK = "#1d2433"
+MUTED = "#6b7280"
+PASS_COLOUR = "#1a7f4b"
+FAIL_COLOUR = "#b42318"
+LEADER_COLOUR = "#2456a6"
+
+
+@dataclass
+class ReportFigure:
+    """A figure of the report with its file stem, title and caption.
+
+    Parameters
+    ----------
+    key : str
+        File stem used by ``--figures`` (``<key>.png``, ``<key>.pdf``); unique in a report.
+    title : str
+        Short title shown above the figure.
+    caption : str
+        What the figure shows, including conventions (contour levels, band width).
+    figure : matplotlib.figure.Figure
+        The figure itself.
+    section : str
+        ``"data"``, ``"comparison"`` or ``"mechanism"``.
+    mechanism_id : str or None
+        The mechanism a ``"mechanism"`` figure belongs to.
+    """
+
+    key: str
+    title: str
+    caption: str
+    figure: Figure
+    section: str
+    mechanism_id: str | None = None
+    tight: bool = False
+
+    def png_bytes(self, dpi: int = HTML_DPI) -> bytes:
+        """The figure as PNG bytes (tight bounding box)."""
+        buffer = io.BytesIO()
+        with _style():
+            self.figure.savefig(buffer, format="png", dpi=dpi, bbox_inches=self._bbox(),
+                                facecolor="white", pil_kwargs={"compress_level": 3})
+        return buffer.getvalue()
+
+    def _bbox(self) -> str | None:
+        """Tight bounding box only where asked (corner plots, corner#262)."""
+        return "tight" if self.tight else None
+
+    def write_files(self, directory: Path) -> list[Path]:
+        """Write ``<key>.png`` (FILE_DPI) and ``<key>.pdf`` (vector) into ``directory``."""
+        directory.mkdir(parents=True, exist_ok=True)
+        written = []
+        for suffix, dpi in (("png", FILE_DPI), ("pdf", None)):
+            path = directory / f"{self.key}.{suffix}"
+            extra = {"pil_kwargs": {"compress_level": 3}} if suffix == "png" else {}
+            with _style():
+                self.figure.savefig(path, format=suffix, dpi=dpi, bbox_inches=self._bbox(),
+                                    facecolor="white", **extra)
+            written.append(path)
+        return written
+
+
+@contextmanager
+def _style() -> Iterator[None]:
+    """The report style as an rc context (restored afterwards; no global change)."""
+    with matplotlib.rc_context(STYLE):
+        yield
+
+
+def temperature_colours(temperatures: Sequence[float]) -> dict[float, tuple[float, ...]]:
+    """One colour per temperature, cold = dark violet to hot = orange (``plasma``)."""
+    temps = sorted({float(t) for t in temperatures})
+    cmap = matplotlib.colormaps["plasma"]
+    positions = np.linspace(0.0, 0.82, len(temps)) if len(temps) > 1 else np.array([0.35])
+    return {t: tuple(cmap(p)) for t, p in zip(temps, positions, strict=True)}
+
+
+def _series_colours(n: int) -> list[tuple[float, ...]]:
+    """Colours for lines that are not temperatures (biases): ``viridis`` without the yellow."""
+    cmap = matplotlib.colormaps["viridis"]
+    return [tuple(cmap(p)) for p in (np.linspace(0.0, 0.85, n) if n > 1 else [0.4])]
+
+
+def _temperature_label(t: float) -> str:
+    return f"{t:g} K"
+
+
+def _legend(ax: Any, n_entries: int, **kwargs: Any) -> None:
+    """A compact legend with more columns when there are many entries."""
+    ncol = 1 if n_entries <= 6 else 2 if n_entries <= 14 else 3
+    ax.legend(ncol=ncol, handlelength=1.4, columnspacing=0.8, borderaxespad=0.3, **kwargs)
+
+
+def _plain_log_ticks(axis: Any) -> None:
+    """Label a log axis with plain numbers (1, 2, 5, 10, ...) instead of powers of ten."""
+    axis.set_major_locator(ticker.LogLocator(base=10, subs=(1.0, 2.0, 5.0)))
+    axis.set_major_formatter(ticker.FuncFormatter(lambda value, _pos: f"{value:g}"))
+    axis.set_minor_formatter(ticker.NullFormatter())
+
+
+_SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+
+
+def _power_of_ten(value: float, _pos: Any = None) -> str:
+    """Tick label ``10⁻⁶`` in Unicode superscripts (no mathtext: several times faster)."""
+    if not (value > 0 and math.isfinite(value)):
+        return ""
+    exponent = math.log10(value)
+    if abs(exponent - round(exponent)) < 1e-9:
+        return "10" + str(int(round(exponent))).translate(_SUPERSCRIPT)
+    return f"{value:g}"
+
+
+def _log_axis(axis: Any) -> None:
+    """Decade ticks labelled ``10ⁿ`` on a log axis, unlabelled minor ticks."""
+    axis.set_major_formatter(ticker.FuncFormatter(_power_of_ten))
+    axis.set_minor_formatter(ticker.NullFormatter())
+
+
+def _margins(fig: Figure, left: float, right: float, bottom: float, top: float,
+             wspace: float = 0.3, hspace: float = 0.2) -> None:
+    """Fixed margins in inches (a fixed layout is several times faster than a layout engine
+    and gives every figure of a kind the same frame)."""
+    width, height = fig.get_size_inches()
+    fig.subplots_adjust(left=left / width, right=1 - right / width, bottom=bottom / height,
+                        top=1 - top / height, wspace=wspace, hspace=hspace)
+
+
+def _positive_floor(values: FloatArray) -> float:
+    """A small positive value below the data, for log axes (clip of lower bands)."""
+    positive = values[np.isfinite(values) & (values > 0)]
+    return float(positive.min()) * 0.3 if positive.size else 1e-15
+
+
+# --------------------------------------------------------------------------------------------
+# The data
+# --------------------------------------------------------------------------------------------
+
+
+def iv_curves_figure(series: IVSeries) -> ReportFigure:
+    """Measured |I| against V at every temperature, and |I| against |V| on log-log axes.
+
+    Left: both polarities against signed bias (log-current axis). Right: |I| against |V|
+    with filled markers for positive and open markers for negative bias, so an asymmetric
+    (electrode-limited) device shows as two separate branches. Excluded points with a
+    non-zero current are drawn as grey crosses.
+    """
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN, 3.0))
+        _margins(fig, 0.62, 0.12, 0.45, 0.28, wspace=0.28)
+        ax_lin, ax_log = fig.subplots(1, 2)
+        colours = temperature_colours(series.temperatures)
+        magnitude = np.abs(series.current_A)
+        for t, colour in colours.items():
+            at_t = series.temperature_K == t
+            order = np.argsort(series.voltage_V[at_t])
+            v, i = series.voltage_V[at_t][order], magnitude[at_t][order]
+            ok = i > 0
+            ax_lin.plot(v[ok], i[ok], "o-", color=colour, ms=2.6, lw=0.8,
+                        label=_temperature_label(t))
+            positive, negative = ok & (v > 0), ok & (v < 0)
+            ax_log.plot(v[positive], i[positive], "o", color=colour, ms=2.8)
+            ax_log.plot(-v[negative], i[negative], "o", mfc="none", mec=colour, ms=3.2,
+                        mew=0.7)
+        excluded = [(p.voltage_V, abs(p.current_A)) for p in series.excluded
+                    if p.current_A != 0 and np.isfinite(p.current_A)]
+        if excluded:
+            ev, ei = np.array(excluded).T
+            ax_lin.plot(ev, ei, "x", color=MUTED, ms=4, mew=0.9, label="excluded")
+            nonzero_v = ev != 0
+            ax_log.plot(np.abs(ev[nonzero_v]), ei[nonzero_v], "x", color=MUTED, ms=4, mew=0.9)
+        for ax in (ax_lin, ax_log):
+            ax.set_yscale("log")
+            _log_axis(ax.yaxis)
+            ax.set_ylabel("|I| [A]")
+        ax_log.set_xscale("log")
+        _plain_log_ticks(ax_log.xaxis)
+        ax_lin.set_xlabel("bias V [V]")
+        ax_log.set_xlabel("|V| [V]")
+        ax_lin.set_title("(a) both polarities")
+        ax_log.set_title("(b) log-log; filled V > 0, open V < 0")
+        _legend(ax_lin, len(colours) + bool(excluded), title="temperature", loc="best")
+    caption = (f"Measured current magnitude at {len(colours)} temperature(s), "
+               f"{series.n_points} points kept"
+               + (f", {len(series.excluded)} excluded (grey crosses where |I| > 0)"
+                  if series.excluded else "")
+               + ". Colour runs from the coldest (violet) to the hottest (orange) sweep.")
+    return ReportFigure("data_iv_curves", "Measured I-V curves", caption, fig, "data")
+
+
+def zabrodskii_figure(linearisation: Mapping[str, Any]) -> ReportFigure | None:
+    """Reduced activation energy w = d ln G / d ln T against T on log-log axes.
+
+    For G = G0 exp[-(T0/T)^p] the points lie on a line of slope -p (Zabrodskii & Zinov'eva,
+    Sov. Phys. JETP 59, 425 (1984)); guides of slope -1, -1/2 and -1/4 (nearest-neighbour,
+    Efros-Shklovskii, Mott) are drawn through the data's centre. Returns None when the
+    linearisation could not compute w (fewer than three temperatures, or not activated).
+    """
+    z = linearisation.get("zabrodskii") or {}
+    temps = np.array([t for t in z.get("temperatures_K", []) if t is not None], dtype=float)
+    w = np.array([v for v in z.get("w", []) if v is not None], dtype=float)
+    if temps.size < 3 or temps.size != w.size or np.any(w <= 0):
+        return None
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN * 0.55, 2.7))
+        _margins(fig, 0.62, 0.12, 0.45, 0.28)
+        ax = fig.subplots()
+        ax.plot(temps, w, "o", color=INK, label="data (finite differences)")
+        centre_t, centre_w = math.exp(np.log(temps).mean()), math.exp(np.log(w).mean())
+        span = np.geomspace(temps.min(), temps.max(), 20)
+        laws = z.get("law_exponents") or {}
+        for (law, p), colour in zip(sorted(laws.items(), key=lambda kv: -kv[1]),
+                                    _series_colours(len(laws)), strict=True):
+            ax.plot(span, centre_w * (span / centre_t) ** (-p), "--", color=colour, lw=0.9,
+                    label=f"slope -{p:g} ({law})")
+        ax.set_xscale("log")
+        ax.set_yscale("log")
+        _plain_log_ticks(ax.xaxis)
+        _plain_log_ticks(ax.yaxis)
+        ax.set_xlabel("T [K]")
+        ax.set_ylabel("w = d ln G / d ln T")
+        p_value = z.get("exponent_p")
+        title = "Reduced activation energy"
+        if p_value is not None:
+            err = z.get("exponent_p_err")
+            title += f": p = {p_value:.2f}" + (f" ± {err:.2f}" if err is not None else "")
+        ax.set_title(title)
+        _legend(ax, len(laws) + 1, loc="best")
+    bias = z.get("bias_V")
+    caption = ("Zabrodskii & Zinov'eva (1984) analysis: for G = G0 exp[-(T0/T)^p] the reduced "
+               "activation energy falls on a line of slope -p"
+               + (f" (G = I/V at {bias:g} V)" if bias is not None else "")
+               + ". " + str(z.get("detail", "")))
+    return ReportFigure("data_zabrodskii", "Reduced activation energy", caption, fig, "data")
+
+
+# --------------------------------------------------------------------------------------------
+# Straightened plots
+# --------------------------------------------------------------------------------------------
+
+
+def _common_bias_points(series: IVSeries, bias_V: float) -> tuple[FloatArray, FloatArray]:
+    """Temperatures and folded current at the measured |V| nearest ``bias_V`` (within 5 %).
+
+    Mirrors the common-bias matching of :mod:`mechid.linearise`: positive folded currents
+    only, repeated points at the same |V| averaged. Temperatures without a match are dropped.
+    """
+    abs_v = np.abs(series.voltage_V)
+    folded = np.sign(series.voltage_V) * series.current_A
+    usable = (abs_v > 0) & (folded > 0)
+    temps_out, current_out = [], []
+    for t in series.temperatures:
+        at_t = usable & (series.temperature_K == t)
+        if not at_t.any():
+            continue
+        v, i = abs_v[at_t], folded[at_t]
+        nearest = v[np.argmin(np.abs(v - bias_V))]
+        if abs(nearest - bias_V) <= BIAS_MATCH_RTOL * bias_V:
+            temps_out.append(float(t))
+            current_out.append(float(i[v == nearest].mean()))
+    return np.array(temps_out), np.array(current_out)
+
+
+def _draw_plot_panel(ax: Any, plot: StraightenedPlot, lines: Sequence[Mapping[str, Any]],
+                     series: IVSeries, device: Device) -> None:
+    """Scatter the transformed data of one straightened plot and draw its fitted lines."""
+    n_entries = 0
+    if plot.grouping == "per_temperature":
+        abs_v = np.abs(series.voltage_V)
+        folded = np.sign(series.voltage_V) * series.current_A
+        nonzero = abs_v > 0
+        with np.errstate(all="ignore"):
+            x, y = plot.transform(abs_v[nonzero], series.temperature_K[nonzero],
+                                  folded[nonzero], device)
+        x = np.broadcast_to(np.asarray(x, dtype=float), abs_v[nonzero].shape)
+        y = np.broadcast_to(np.asarray(y, dtype=float), abs_v[nonzero].shape)
+        temps_all = series.temperature_K[nonzero]
+        for t, colour in temperature_colours(series.temperatures).items():
+            sel = (temps_all == t) & np.isfinite(x) & np.isfinite(y)
+            if sel.any():
+                ax.plot(x[sel], y[sel], "o", color=colour, ms=2.6, label=_temperature_label(t))
+                n_entries += 1
+        line_colours = temperature_colours(series.temperatures)
+        for line in lines:
+            colour = line_colours.get(float(line["group_value"]), INK)
+            _draw_line(ax, line, colour)
+    else:
+        colours = _series_colours(len(lines))
+        for line, colour in zip(lines, colours, strict=True):
+            bias = float(line["group_value"])
+            temps, current = _common_bias_points(series, bias)
+            with np.errstate(all="ignore"):
+                x, y = plot.transform(np.full(temps.shape, bias), temps, current, device)
+            x = np.broadcast_to(np.asarray(x, dtype=float), temps.shape)
+            y = np.broadcast_to(np.asarray(y, dtype=float), temps.shape)
+            ok = np.isfinite(x) & np.isfinite(y)
+            ax.plot(x[ok], y[ok], "o", color=colour, ms=3.0, label=f"{bias:.3g} V")
+            _draw_line(ax, line, colour)
+            n_entries += 1
+    r2 = np.array([line["r_squared"] for line in lines if line.get("r_squared") is not None])
+    if r2.size:
+        text = (f"R² = {r2[0]:.4f}" if r2.size == 1 else
+                f"R² from {r2.min():.4f} to {r2.max():.4f}\n({r2.size} lines)")
+    else:
+        text = "no straight line could be drawn"
+    ax.text(0.98, 0.03, text, transform=ax.transAxes, ha="right", va="bottom", fontsize=6.5,
+            bbox={"boxstyle": "round,pad=0.3", "fc": "white", "ec": "#c9ced6", "lw": 0.5})
+    ax.set_xlabel(plot.x_label)
+    ax.set_ylabel(plot.y_label)
+    ax.set_title(plot.title, loc="left")
+    if n_entries:
+        ax.legend(ncol=min(n_entries, 5), loc="upper center", bbox_to_anchor=(0.5, -0.17),
+                  handlelength=1.0, columnspacing=0.8, handletextpad=0.3,
+                  title="line at" if plot.grouping == "per_voltage" else None)
+
+
+def _legend_entries(plot: StraightenedPlot, lines: Sequence[Mapping[str, Any]],
+                    series: IVSeries) -> int:
+    """Number of legend entries of one straightened-plot panel."""
+    if plot.grouping == "per_temperature":
+        return int(series.temperatures.size)
+    return sum(1 for line in lines if line.get("plot_id") == plot.id)
+
+
+def _draw_line(ax: Any, line: Mapping[str, Any], colour: Any) -> None:
+    """Draw one fitted straight line over the x range of its points."""
+    keys = ("slope", "intercept", "x_min", "x_max")
+    if any(line.get(k) is None for k in keys):
+        return
+    x = np.array([line["x_min"], line["x_max"]], dtype=float)
+    ax.plot(x, line["intercept"] + line["slope"] * x, "-", color=colour, lw=1.0, alpha=0.9)
+
+
+def straightened_figure(mechanism: Mechanism, linearisation_entry: Mapping[str, Any],
+                        series: IVSeries, device: Device) -> ReportFigure | None:
+    """The mechanism's straightened plots with the straight lines of the linearisation.
+
+    Parameters
+    ----------
+    mechanism : Mechanism
+        Catalogue declaration (plots, transforms, labels).
+    linearisation_entry : mapping
+        The mechanism's entry of ``result.linearisation["mechanisms"]`` (plain JSON form), so
+        the lines and R^2 drawn are exactly those in the JSON.
+    series, device : IVSeries, Device
+        The data and the device description the transforms need.
+
+    Returns
+    -------
+    ReportFigure or None
+        None when the mechanism declares no straightened plot.
+    """
+    if not mechanism.plots:
+        return None
+    n = len(mechanism.plots)
+    all_lines = linearisation_entry.get("lines", [])
+    legend_rows = max(math.ceil(_legend_entries(p, all_lines, series) / 5) for p in mechanism.plots)
+    bottom = 0.5 + 0.16 * legend_rows + (0.14 if legend_rows else 0.0)
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN if n > 1 else DOUBLE_COLUMN_IN * 0.6,
+                              2.25 + bottom))
+        _margins(fig, 0.62, 0.12, bottom, 0.28, wspace=0.3)
+        axes = np.atleast_1d(fig.subplots(1, n))
+        for ax, plot in zip(axes, mechanism.plots, strict=True):
+            lines = [line for line in all_lines if line.get("plot_id") == plot.id]
+            _draw_plot_panel(ax, plot, lines, series, device)
+    titles = " and ".join(p.title for p in mechanism.plots)
+    caption = (f"{titles}: if {mechanism.name} governs the current, the points fall on straight "
+               "lines. Lines: robust (Huber) straight-line fits, one per "
+               + " / ".join(sorted({"temperature" if p.grouping == "per_temperature"
+                                    else "common bias" for p in mechanism.plots}))
+               + "; R² as computed in the linearisation result.")
+    return ReportFigure(f"{mechanism.id}_straightened", "Straightened plots", caption, fig,
+                        "mechanism", mechanism.id)
+
+
+# --------------------------------------------------------------------------------------------
+# Joint fit
+# --------------------------------------------------------------------------------------------
+
+
+def _draw_subset(draws: FloatArray, n: int) -> FloatArray:
+    """An evenly spaced, deterministic subset of posterior draws."""
+    if len(draws) <= n:
+        return draws
+    return draws[np.linspace(0, len(draws) - 1, n).astype(int)]
+
+
+def _branch_grid(abs_v: FloatArray) -> FloatArray:
+    """Bias magnitudes spanning one measured branch (log-spaced when it spans a decade)."""
+    lo, hi = float(abs_v.min()), float(abs_v.max())
+    if hi <= lo:
+        return np.array([lo])
+    if hi / lo > 10:
+        return np.geomspace(lo, hi, CURVE_POINTS)
+    return np.linspace(lo, hi, CURVE_POINTS)
+
+
+def _model_grid(voltage_V: FloatArray, temperature_K: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """Dense (signed V, T) grid covering every measured branch of the fitted points."""
+    grid_v, grid_t = [], []
+    for t in np.unique(temperature_K):
+        for sign in (1.0, -1.0):
+            on = (temperature_K == t) & (np.sign(voltage_V) == sign)
+            if on.any():
+                v = sign * _branch_grid(np.abs(voltage_V[on]))
+                grid_v.append(v)
+                grid_t.append(np.full(v.shape, t))
+    return np.concatenate(grid_v), np.concatenate(grid_t)
+
+
+def _nan_quantiles(values: FloatArray, q: Sequence[float]) -> FloatArray:
+    """Quantiles along axis 0 ignoring NaN; NaN for all-NaN columns (no warning)."""
+    finite = np.isfinite(values)
+    if finite.all():
+        return np.quantile(values, q, axis=0)
+    out = np.full((len(q), values.shape[1]), np.nan)
+    good = finite.any(axis=0)
+    if good.any():
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore", RuntimeWarning)
+            out[:, good] = np.nanquantile(np.where(finite, values, np.nan)[:, good], q, axis=0)
+    return out
+
+
+def predictive_band(fit: Any, voltage_V: FloatArray, temperature_K: FloatArray,
+                    seed: int = 0) -> dict[str, FloatArray]:
+    """Posterior median model and 95 % posterior predictive band on a (V, T) grid.
+
+    The predictive draw adds the fitted noise model (relative term and floor, see
+    :mod:`mechid.inference.likelihood`) to the model current of each posterior draw.
+
+    Parameters
+    ----------
+    fit : MechanismFit
+        Needs ``.target`` (a :class:`~mechid.inference.likelihood.MechanismTarget`) and
+        ``.draws_internal``.
+    voltage_V, temperature_K : ndarray
+        Grid points (signed bias).
+    seed : int
+        Seed of the noise draws (fixed: the same run gives the same report).
+
+    Returns
+    -------
+    dict
+        ``"median"``, ``"lower"``, ``"upper"`` of the folded current sign(V) * I, in A.
+    """
+    target = fit.target
+    draws = _draw_subset(np.asarray(fit.draws_internal, dtype=float), PREDICTIVE_DRAWS)
+    values = target.physical_values(draws)
+    physical = {name: values[name] for name in target.mechanism.parameter_names}
+    with np.errstate(all="ignore"):
+        model = target.mechanism.current(voltage_V, temperature_K, physical, target.device)
+        sd = np.sqrt((values[NOISE_RELATIVE] * model) ** 2 + values[NOISE_FLOOR] ** 2)
+        noisy = model + sd * np.random.default_rng(seed).standard_normal(model.shape)
+    sign = np.sign(voltage_V)
+    median = _nan_quantiles(model * sign, [0.5])[0]
+    lower, upper = _nan_quantiles(noisy * sign, [0.025, 0.975])
+    return {"median": median, "lower": lower, "upper": upper}
+
+
+def _reference_point(fit: Any) -> FloatArray:
+    """Posterior median of every sampled coordinate (where the residuals are evaluated)."""
+    return np.median(np.asarray(fit.draws_internal, dtype=float), axis=0)
+
+
+def joint_fit_figure(mechanism_result: Mapping[str, Any], fit: Any) -> ReportFigure:
+    """Data with the joint fit and its predictive band, and standardised residuals.
+
+    Parameters
+    ----------
+    mechanism_result : mapping
+        The mechanism's JSON entry (name, adequacy numbers for the caption).
+    fit : MechanismFit
+        The in-memory fit (target with the fitted points, posterior draws).
+    """
+    target = fit.target
+    v, t, i = target.voltage_V, target.temperature_K, target.current_A
+    grid_v, grid_t = _model_grid(v, t)
+    band = predictive_band(fit, grid_v, grid_t)
+    residuals = target.standardised_residuals(_reference_point(fit)[None, :])
+    colours = temperature_colours(np.unique(t))
+    floor = _positive_floor(np.abs(i))
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN, 4.4))
+        _margins(fig, 0.7, 0.12, 0.45, 0.28, hspace=0.08)
+        ax, ax_res = fig.subplots(2, 1, sharex=True, height_ratios=(2.6, 1.0))
+        for temp, colour in colours.items():
+            at_t = t == temp
+            ax.plot(v[at_t], np.abs(i[at_t]), "o", color=colour, ms=2.6,
+                    label=_temperature_label(temp))
+            ax_res.plot(v[at_t], residuals[at_t], "o", color=colour, ms=2.4)
+            for sign in (1.0, -1.0):
+                on = (grid_t == temp) & (np.sign(grid_v) == sign)
+                if not on.any():
+                    continue
+                lower = np.clip(band["lower"][on], floor, None)
+                upper = np.clip(band["upper"][on], floor, None)
+                ax.fill_between(grid_v[on], lower, upper, color=colour, alpha=0.16, lw=0)
+                ax.plot(grid_v[on], np.abs(band["median"][on]), "-", color=colour, lw=0.9)
+        ax.set_yscale("log")
+        _log_axis(ax.yaxis)
+        ax.set_ylim(bottom=floor)
+        ax.set_ylabel("|I| [A]")
+        ax.set_title(f"Joint fit of {mechanism_result.get('name', target.mechanism.name)} "
+                     "to all temperatures", loc="left")
+        _legend(ax, len(colours), title="temperature", loc="best")
+        ax_res.axhline(0.0, color=INK, lw=0.6)
+        for level in (-2.0, 2.0):
+            ax_res.axhline(level, color=MUTED, lw=0.6, ls="--")
+        finite = residuals[np.isfinite(residuals)]
+        limit = max(3.5, float(np.max(np.abs(finite))) * 1.1) if finite.size else 3.5
+        ax_res.set_ylim(-limit, limit)
+        ax_res.set_xlabel("bias V [V]")
+        ax_res.set_ylabel("residual [σ]")
+    adequacy = mechanism_result.get("adequacy") or {}
+    chi2 = adequacy.get("reduced_chi_square")
+    caption = ("Points: measured |I| that entered the fit. Lines: posterior median model; "
+               f"shaded: 95 % posterior predictive band (model plus fitted noise, "
+               f"{PREDICTIVE_DRAWS} posterior draws). Lower panel: standardised residuals "
+               "(I_obs - I_model)/σ at the posterior median, dashed at ±2σ"
+               + (f"; reduced χ² = {chi2:.3g}" if isinstance(chi2, int | float) else "") + ".")
+    return ReportFigure(f"{target.mechanism.id}_joint_fit", "Joint fit and residuals", caption,
+                        fig, "mechanism", target.mechanism.id)
+
+
+# --------------------------------------------------------------------------------------------
+# Posterior (corner plot)
+# --------------------------------------------------------------------------------------------
+
+
+def corner_labels(fit: Any) -> tuple[list[int], list[str], list[str]]:
+    """Columns, axis labels with units and short titles of the physical sampled parameters.
+
+    Noise parameters are left out (nuisance; their summaries are in the tables). A parameter
+    sampled in log10 is labelled ``log10(symbol / unit)`` (``log10(symbol)`` when
+    dimensionless); others ``symbol [unit]``, the catalogue's :attr:`Parameter.label`.
+    """
+    mechanism: Mechanism = fit.target.mechanism
+    columns, labels, titles = [], [], []
+    for column, prior in enumerate(fit.target.free):
+        if prior.name not in mechanism.parameter_names:
+            continue
+        parameter = mechanism.parameter(prior.name)
+        dimensionless = parameter.unit in ("", "1")
+        if prior.log_scale:
+            label = (f"log10({parameter.symbol})" if dimensionless
+                     else f"log10({parameter.symbol} / {parameter.unit})")
+            title = f"log10 {parameter.symbol}"
+        else:
+            label, title = parameter.label, parameter.symbol
+        columns.append(column)
+        labels.append(label)
+        titles.append(title)
+    return columns, labels, titles
+
+
+def _quantile_title(symbol: str, values: FloatArray) -> str:
+    """``symbol = median +upper/−lower`` from the 16th, 50th and 84th percentiles (plain text)."""
+    lo, mid, hi = np.quantile(values, [0.16, 0.5, 0.84])
+    return f"{symbol} = {mid:.3g}  +{hi - mid:.2g} / −{mid - lo:.2g}"
+
+
+def corner_figure(fit: Any) -> ReportFigure | None:
+    """Corner plot of the physical parameters' posterior (68 % and 95 % contours).
+
+    Returns None when no physical parameter was sampled or none has any spread.
+    """
+    import corner  # imported here: corner imports matplotlib.pyplot only for its own figures
+
+    columns, labels, titles = corner_labels(fit)
+    draws = np.asarray(fit.draws_internal, dtype=float)
+    keep = [k for k, c in enumerate(columns) if np.ptp(draws[:, c]) > 0]
+    if not keep:
+        return None
+    data = _draw_subset(draws, CORNER_DRAWS)[:, [columns[k] for k in keep]]
+    labels = [labels[k] for k in keep]
+    titles = [titles[k] for k in keep]
+    size = min(DOUBLE_COLUMN_IN, 1.75 * len(keep) + 0.9)
+    with _style(), warnings.catch_warnings():
+        warnings.simplefilter("ignore", RuntimeWarning)  # contour levels of thin posteriors
+        fig = Figure(figsize=(size, size))
+        corner.corner(
+            data, fig=fig, labels=labels, show_titles=False,
+            levels=(0.68, 0.95), quantiles=[0.16, 0.5, 0.84], bins=25, smooth=1.0,
+            color=LEADER_COLOUR, plot_datapoints=False, fill_contours=True,
+            label_kwargs={"fontsize": 7.5}, max_n_ticks=4, labelpad=0.12,
+        )
+        for ax in fig.axes:
+            ax.grid(False)
+            ax.tick_params(labelsize=6)
+        diagonal = np.array(fig.axes).reshape(len(keep), len(keep)).diagonal()
+        for ax, title, column in zip(diagonal, titles, data.T, strict=True):
+            ax.set_title(_quantile_title(title, column), fontsize=7)
+    mechanism = fit.target.mechanism
+    caption = (f"Posterior of the {mechanism.name} parameters ({len(data)} draws of the "
+               "β = 1 chain), drawn with corner.py (Foreman-Mackey 2016). Two-dimensional "
+               "panels: contours enclosing 68 % and 95 % of the posterior mass. Diagonal: "
+               "marginal histograms with the median and the 16th/84th percentiles (dashed), "
+               "quoted above each column as median +(84th − median) / −(median − 16th). "
+               "Parameters with log-uniform priors are shown as "
+               "log10(value / unit); the noise parameters are omitted (see the table).")
+    return ReportFigure(f"{mechanism.id}_posterior", "Posterior", caption, fig, "mechanism",
+                        mechanism.id, tight=True)
+
+
+# --------------------------------------------------------------------------------------------
+# Comparison
+# --------------------------------------------------------------------------------------------
+
+#: |ln B| up to which the comparison axis is linear (symlog beyond).
+SYMLOG_LINEAR = 6.0
+
+#: Kass & Raftery (1995) thresholds on ln B (their 2 ln B = 2, 6, 10), and their words.
+KASS_RAFTERY_BANDS: tuple[tuple[float, float, str], ...] = (
+    (0.0, 1.0, "bare mention"),
+    (1.0, 3.0, "positive"),
+    (3.0, 5.0, "strong"),
+    (5.0, math.inf, "very strong"),
+)
+
+
+def ranking_figure(mechanisms: Sequence[Mapping[str, Any]]) -> ReportFigure | None:
+    """ln B of every fitted mechanism against the leader, with its Monte Carlo error.
+
+    The axis is linear down to ln B = -SYMLOG_LINEAR and logarithmic beyond (symlog), so the
+    Kass & Raftery (1995) bands (bare mention, positive, strong, very strong; shaded) stay
+    readable next to mechanisms that lose by hundreds of nats. Bars of mechanisms whose fit
+    fails the adequacy checks are hatched. Returns None when fewer than two were fitted.
+    """
+    if len(mechanisms) < 2:
+        return None
+    ids = [m["id"] for m in mechanisms]
+    ln_b = np.array([_finite_or(m.get("ln_bayes_factor_vs_best"), -np.inf) for m in mechanisms])
+    err = np.array([_finite_or(m.get("ln_bayes_factor_vs_best_err"), 0.0) for m in mechanisms])
+    finite = np.isfinite(ln_b)
+    depth = float(max(10.0, -ln_b[finite].min() * 1.5)) if finite.any() else 10.0
+    shown = np.where(finite, ln_b, -depth)
+    y = np.arange(len(ids))[::-1]
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN, 0.36 * len(ids) + 1.1))
+        _margins(fig, 0.12 + 0.058 * max(len(i) for i in ids), 0.12, 0.45, 0.08)
+        ax = fig.subplots()
+        ax.set_xscale("symlog", linthresh=SYMLOG_LINEAR, linscale=2.0)
+        shades = ("#f6f7f9", "#ebeff5", "#dfe6ef", "#d3dcea")
+        for band, ((lo, hi, words), shade) in enumerate(zip(KASS_RAFTERY_BANDS, shades,
+                                                             strict=True)):
+            right, left = -lo, -min(hi, depth)
+            ax.axvspan(left, right, color=shade, lw=0, zorder=0)
+            centre = -(lo + min(hi, SYMLOG_LINEAR * 3)) / 2 if hi == math.inf else (left + right) / 2
+            ax.text(centre, len(ids) - 0.5 + 0.28 * (band % 2), words, ha="center", va="bottom",
+                    fontsize=6, color=MUTED)
+        for k, m in enumerate(mechanisms):
+            adequate = bool(m.get("fit_adequate"))
+            colour = LEADER_COLOUR if k == 0 else "#7b879a"
+            ax.barh(y[k], shown[k], xerr=err[k] if (finite[k] and k > 0) else None, height=0.55,
+                    color=colour if adequate else "white", edgecolor=colour,
+                    hatch=None if adequate else "////", lw=0.8, zorder=2,
+                    error_kw={"elinewidth": 0.8, "capsize": 2, "ecolor": INK})
+            probability = m.get("probability")
+            label = "leader, " if k == 0 else ""
+            if probability is not None:
+                label += "P " + _format_probability(probability, prefix="= ")
+            ax.text(0.3, y[k], label, va="center", ha="left", fontsize=6.5)
+        ax.set_yticks(y, ids)
+        ax.set_xlim(-depth, SYMLOG_LINEAR * 1.6)
+        ax.set_ylim(-0.6, len(ids) + 0.3)
+        ax.axvline(0, color=INK, lw=0.7)
+        ax.xaxis.set_major_formatter(ticker.FuncFormatter(lambda value, _pos: f"{value:g}"))
+        ax.set_xlabel("ln B against the leading mechanism  (ln Z − ln Z_best;  linear to "
+                      f"−{SYMLOG_LINEAR:g}, logarithmic beyond)")
+        ax.grid(axis="y", visible=False)
+    caption = ("Natural-log Bayes factor of each fitted mechanism against the leader "
+               "(error bars: Monte Carlo error of the evidence difference). Shaded bands: "
+               "Kass & Raftery (1995) scale, ln B thresholds 1, 3 and 5. Hatched bars: the "
+               "fit fails the posterior predictive adequacy checks. P: posterior probability "
+               "with equal prior odds.")
+    return ReportFigure("comparison_bayes_factors", "Evidence against the leader", caption,
+                        fig, "comparison")
+
+
+def _finite_or(value: Any, default: float) -> float:
+    return float(value) if isinstance(value, int | float) and math.isfinite(value) else default
+
+
+def _format_probability(p: float, prefix: str = "") -> str:
+    """Probabilities near 0 or 1 in a readable form (``< 1e-6``, ``> 0.999999``)."""
+    if p < 1e-6:
+        return "< 1e-6"
+    if p > 1 - 1e-6:
+        return "> 0.999999"
+    return f"{prefix}{p:.3g}"
+
+
+# --------------------------------------------------------------------------------------------
+# All figures of a run
+# --------------------------------------------------------------------------------------------
+
+
+def build_figures(run: Any, result_dict: Mapping[str, Any] | None = None) -> list[ReportFigure]:
+    """Every figure of the report of one analysis run, in report order.
+
+    Parameters
+    ----------
+    run : AnalysisRun
+        ``.result``, ``.series``, ``.device`` and ``.fits`` are used.
+    result_dict : mapping, optional
+        ``to_plain_json(run.result.to_dict())`` when already computed (the figures read the
+        same numbers as the JSON).
+    """
+    from mechid.results import to_plain_json
+
+    data = result_dict if result_dict is not None else to_plain_json(run.result.to_dict())
+    figures = [iv_curves_figure(run.series)]
+    zabrodskii = zabrodskii_figure(data.get("linearisation") or {})
+    if zabrodskii is not None:
+        figures.append(zabrodskii)
+    ranking = ranking_figure(data.get("mechanisms") or [])
+    if ranking is not None:
+        figures.append(ranking)
+    for mechanism_id in mechanism_order(data):
+        figures.extend(mechanism_figures(run, data, mechanism_id))
+    return figures
+
+
+def mechanism_order(data: Mapping[str, Any]) -> list[str]:
+    """Fitted mechanisms by probability, then the screened-only ones by screening rank."""
+    fitted = [m["id"] for m in data.get("mechanisms") or []]
+    screened = list((data.get("linearisation") or {}).get("ranking") or [])
+    return fitted + [m for m in screened if m not in fitted]
+
+
+def mechanism_figures(run: Any, data: Mapping[str, Any], mechanism_id: str) -> list[ReportFigure]:
+    """Straightened plots, joint fit and posterior of one mechanism (those that apply)."""
+    figures: list[ReportFigure] = []
+    entry = linearisation_entry(data, mechanism_id)
+    mechanism = get_mechanism(mechanism_id)
+    if entry is not None:
+        straight = straightened_figure(mechanism, entry, run.series, run.device)
+        if straight is not None:
+            figures.append(straight)
+    fit = (run.fits or {}).get(mechanism_id)
+    mechanism_json = next((m for m in data.get("mechanisms") or [] if m["id"] == mechanism_id),
+                          None)
+    if fit is not None and mechanism_json is not None:
+        figures.append(joint_fit_figure(mechanism_json, fit))
+        posterior = corner_figure(fit)
+        if posterior is not None:
+            figures.append(posterior)
+    return figures
+
+
+def linearisation_entry(data: Mapping[str, Any], mechanism_id: str) -> Mapping[str, Any] | None:
+    """The mechanism's entry of the linearisation result (plain JSON), or None."""
+    for entry in (data.get("linearisation") or {}).get("mechanisms") or []:
+        if entry.get("mechanism_id") == mechanism_id:
+            return entry
+    return None

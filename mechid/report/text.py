@@ -1,0 +1,433 @@
+"""The report's words: headline numbers, methods and results paragraphs, references.
+
+Everything here reads the plain-JSON form of the result (``to_plain_json(result.to_dict())``),
+so every number a reader sees is formatted from the same value that is in the JSON file.
+The paragraphs are written from the run's own numbers and cite the published methods, so
+they can be pasted into a manuscript or a referee response and edited.
+
+Citations of the conduction mechanisms are read from each mechanism's ``source`` declaration
+in :mod:`mechid.catalogue`; the method references below are those of the statistical
+machinery (bibliographic details from memory, checked against the sources named in the
+module docstrings of :mod:`mechid.inference`).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping, Sequence
+from typing import Any
+
+from mechid.catalogue import get_mechanism
+from mechid.errors import UnknownMechanismError
+from mechid.formatting import format_estimate, format_number, last_digit_for
+from mechid.inference.adequacy import MAX_NOISE_RATIO, MIN_PREDICTIVE_P
+
+Json = Mapping[str, Any]
+
+#: References of the methods, keyed by the short form used in the text.
+METHOD_REFERENCES: dict[str, str] = {
+    "Huber 1964": "P. J. Huber, Robust estimation of a location parameter, Ann. Math. Statist. "
+                  "35, 73-101 (1964).",
+    "Zabrodskii & Zinov'eva 1984": "A. G. Zabrodskii and K. N. Zinov'eva, Low-temperature "
+                                   "conductivity and metal-insulator transition in compensated "
+                                   "n-Ge, Sov. Phys. JETP 59, 425 (1984).",
+    "Goodman & Weare 2010": "J. Goodman and J. Weare, Ensemble samplers with affine invariance, "
+                            "Commun. Appl. Math. Comput. Sci. 5, 65-80 (2010).",
+    "Foreman-Mackey et al. 2013": "D. Foreman-Mackey, D. W. Hogg, D. Lang and J. Goodman, "
+                                  "emcee: The MCMC Hammer, Publ. Astron. Soc. Pac. 125, "
+                                  "306-312 (2013).",
+    "Geyer 1991": "C. J. Geyer, Markov chain Monte Carlo maximum likelihood, in Computing "
+                  "Science and Statistics: Proc. 23rd Symposium on the Interface, 156-163 (1991).",
+    "Xie et al. 2011": "W. Xie, P. O. Lewis, Y. Fan, L. Kuo and M.-H. Chen, Improving marginal "
+                       "likelihood estimation for Bayesian phylogenetic model selection, Syst. "
+                       "Biol. 60, 150-160 (2011).",
+    "Friel, Hurn & Wyse 2014": "N. Friel, M. Hurn and J. Wyse, Improving power posterior "
+                               "estimation of statistical evidence, Stat. Comput. 24, 709-723 "
+                               "(2014).",
+    "Meng & Wong 1996": "X.-L. Meng and W. H. Wong, Simulating ratios of normalizing constants "
+                        "via a simple identity: a theoretical exploration, Statistica Sinica 6, "
+                        "831-860 (1996).",
+    "Kass & Raftery 1995": "R. E. Kass and A. E. Raftery, Bayes factors, J. Am. Stat. Assoc. "
+                           "90, 773-795 (1995).",
+    "Gelman, Meng & Stern 1996": "A. Gelman, X.-L. Meng and H. Stern, Posterior predictive "
+                                 "assessment of model fitness via realized discrepancies, "
+                                 "Statistica Sinica 6, 733-807 (1996).",
+    "Wald & Wolfowitz 1940": "A. Wald and J. Wolfowitz, On a test whether two samples are from "
+                             "the same population, Ann. Math. Statist. 11, 147-162 (1940).",
+    "Rice 1984": "J. Rice, Bandwidth choice for nonparametric regression, Ann. Statist. 12, "
+                 "1215-1230 (1984).",
+    "Foreman-Mackey 2016": "D. Foreman-Mackey, corner.py: Scatterplot matrices in Python, "
+                           "J. Open Source Softw. 1(2), 24 (2016).",
+}
+
+
+# --------------------------------------------------------------------------------------------
+# Number formatting (one place, so the HTML, the console and the tests agree)
+# --------------------------------------------------------------------------------------------
+
+
+def is_number(value: Any) -> bool:
+    """True for a finite int or float (JSON null and NaN are not numbers here)."""
+    return isinstance(value, int | float) and not isinstance(value, bool) and math.isfinite(value)
+
+
+def fmt(value: Any, spec: str = ".4g", missing: str = "n/a") -> str:
+    """Format a JSON number with a format spec, or ``"last:N"`` (print down to the digit
+    10**N, :func:`mechid.formatting.format_number`); ``missing`` for null/NaN."""
+    if not is_number(value):
+        return missing
+    if spec.startswith("last:"):
+        return format_number(float(value), int(spec[5:]))
+    return format(value, spec)
+
+
+def estimate_spec(summary: Json) -> str:
+    """The format of a parameter's median and intervals, as in the verdict sentence.
+
+    Same rule as :func:`mechid.formatting.format_estimate`: two significant digits when the
+    68 % interval spans more than a factor 3, otherwise down to the digit set by the width of
+    the 68 % interval.
+    """
+    lo, hi = summary.get("ci68") or (None, None)
+    if not (is_number(lo) and is_number(hi)):
+        return ".4g"
+    if lo > 0 and hi / lo > 3:
+        return ".2g"
+    last = last_digit_for(hi - lo)
+    return ".4g" if last is None else f"last:{max(last, -30)}"
+
+
+def fmt_probability(value: Any) -> str:
+    """Posterior probability as in the verdict sentence (3 significant digits)."""
+    return fmt(value, ".3g")
+
+
+def fmt_ln(value: Any) -> str:
+    """ln Z, ln B and their errors (2 decimals, as in the verdict sentence; 4 significant
+    digits beyond 1e7, where a failed estimator would otherwise print dozens of digits)."""
+    return fmt(value, ".2f" if not is_number(value) or abs(value) < 1e7 else ".4g")
+
+
+def unit_suffix(unit: str | None) -> str:
+    """`` eV`` for a unit, empty for dimensionless."""
+    return "" if unit in (None, "", "1") else f" {unit}"
+
+
+def parameter_text(name: str, summary: Json) -> str:
+    """``name = median unit (68 %: lo to hi; 95 %: lo to hi)`` with the sentence's precision."""
+    unit = unit_suffix(summary.get("unit"))
+    lo68, hi68 = summary.get("ci68") or (None, None)
+    lo95, hi95 = summary.get("ci95") or (None, None)
+    values = (summary.get("median"), lo68, hi68, lo95, hi95)
+    if summary.get("fixed") or not all(is_number(v) for v in values):
+        return f"{name} = {fmt(summary.get('median'))}{unit}" + (
+            " (held fixed)" if summary.get("fixed") else "")
+    return f"{name} = " + format_estimate(float(values[0]), (float(lo68), float(hi68)),
+                                         (float(lo95), float(hi95)), summary.get("unit") or "")
+
+
+def key_parameters(mechanism: Json) -> list[tuple[str, Json]]:
+    """Physical (non-noise), free parameters of a mechanism entry, in declaration order."""
+    return [(name, s) for name, s in (mechanism.get("parameters") or {}).items()
+            if not name.startswith("noise_") and not s.get("fixed")]
+
+
+def parameter_symbol(mechanism_id: str, name: str) -> str:
+    """The catalogue symbol of a parameter (the name itself for noise parameters)."""
+    try:
+        return get_mechanism(mechanism_id).parameter(name).symbol
+    except UnknownMechanismError:
+        return name
+
+
+def mechanism_name(mechanism_id: str, data: Json | None = None) -> str:
+    """Human name of a mechanism: from the result when fitted, else from the catalogue."""
+    for m in (data or {}).get("mechanisms") or []:
+        if m.get("id") == mechanism_id:
+            return str(m.get("name"))
+    return get_mechanism(mechanism_id).name
+
+
+def _join(items: Sequence[str], last: str = "and") -> str:
+    items = [i for i in items if i]
+    if len(items) <= 1:
+        return "".join(items)
+    return ", ".join(items[:-1]) + f" {last} " + items[-1]
+
+
+# --------------------------------------------------------------------------------------------
+# The case against each mechanism
+# --------------------------------------------------------------------------------------------
+
+
+def screening_entry(data: Json, mechanism_id: str) -> Json | None:
+    """The linearisation entry of one mechanism (plain JSON), or None."""
+    for entry in (data.get("linearisation") or {}).get("mechanisms") or []:
+        if entry.get("mechanism_id") == mechanism_id:
+            return entry
+    return None
+
+
+def failed_checks(data: Json, mechanism_id: str) -> list[Json]:
+    """The consistency checks of the mechanism's straightened plots that failed."""
+    entry = screening_entry(data, mechanism_id) or {}
+    return [c for c in entry.get("checks") or [] if c.get("passed") is False]
+
+
+def case_against(data: Json, mechanism: Json) -> list[str]:
+    """Plain reasons why a fitted mechanism is not the answer (empty for a sound leader).
+
+    Uses the evidence against the leader (Kass & Raftery wording), the adequacy checks and
+    the failed consistency checks of its straightened plots.
+    """
+    from mechid.inference.compare import kass_raftery_wording
+
+    reasons = []
+    ln_b = mechanism.get("ln_bayes_factor_vs_best")
+    if is_number(ln_b) and ln_b < 0:
+        err = mechanism.get("ln_bayes_factor_vs_best_err")
+        reasons.append(f"evidence against it: ln B = {fmt_ln(ln_b)} ± {fmt_ln(err)} relative to "
+                       f"the leader ({kass_raftery_wording(-ln_b)})")
+    elif ln_b is None and mechanism.get("log_evidence") is None:
+        reasons.append("its evidence could not be estimated")
+    if not mechanism.get("fit_adequate"):
+        adequacy_reasons = (mechanism.get("adequacy") or {}).get("reasons") or []
+        reasons.append("fit not adequate"
+                       + (": " + "; ".join(adequacy_reasons) if adequacy_reasons else ""))
+    failed = failed_checks(data, str(mechanism.get("id")))
+    if failed:
+        reasons.append("failed straightened-plot checks: "
+                       + "; ".join(str(c.get("name")).replace("_", " ") for c in failed))
+    return reasons
+
+
+def case_against_short(data: Json, mechanism: Json) -> str:
+    """One-line summary of :func:`case_against` for the ranking table."""
+    from mechid.inference.compare import kass_raftery_wording
+
+    parts = []
+    ln_b = mechanism.get("ln_bayes_factor_vs_best")
+    if is_number(ln_b) and ln_b < 0:
+        parts.append(f"ln B = {fmt_ln(ln_b)} ({kass_raftery_wording(-ln_b)})")
+    if not mechanism.get("fit_adequate"):
+        parts.append("inadequate fit")
+    n_failed = len(failed_checks(data, str(mechanism.get("id"))))
+    if n_failed:
+        parts.append(f"{n_failed} failed check{'s' if n_failed > 1 else ''}")
+    return "; ".join(parts)
+
+
+# --------------------------------------------------------------------------------------------
+# Methods
+# --------------------------------------------------------------------------------------------
+
+
+def _data_sentence(data: Json) -> str:
+    inp = data.get("input") or {}
+    t_range = inp.get("temperature_range_K") or [None, None]
+    v_range = inp.get("voltage_range_V") or [None, None]
+    excluded = inp.get("n_excluded") or 0
+    reasons = inp.get("n_excluded_by_reason") or {}
+    excluded_text = ""
+    if excluded:
+        excluded_text = (f"; {excluded} point(s) were excluded before the analysis ("
+                         + "; ".join(f"{n}: {r}" for r, n in reasons.items()) + ")")
+    polarity = inp.get("polarity", "both")
+    polarity_text = {"both": "both bias polarities fitted jointly",
+                     "positive": "positive bias only", "negative": "negative bias only"}.get(
+                         polarity, str(polarity))
+    return (f"The series holds {inp.get('n_points')} points at {inp.get('n_temperatures')} "
+            f"temperature(s) from {fmt(t_range[0], 'g')} to {fmt(t_range[1], 'g')} K and biases "
+            f"from {fmt(v_range[0], 'g')} to {fmt(v_range[1], 'g')} V, spanning "
+            f"{fmt(inp.get('current_decades'), '.1f')} decades of current{excluded_text}; "
+            f"{inp.get('n_points_fitted', inp.get('n_points'))} points entered the joint fit "
+            f"({polarity_text}).")
+
+
+def _ladder_sentence(settings: Json) -> str:
+    ladder = settings.get("ladder") or {}
+    k = ladder.get("n_temperatures")
+    power = ladder.get("beta_power")
+    walkers = ladder.get("n_walkers")
+    walkers_text = (f"{walkers} walkers per rung" if is_number(walkers)
+                    else "max(32, 4 x number of sampled parameters) walkers per rung")
+    text = (f"Each mechanism was fitted jointly to all temperatures with shared physical "
+            f"parameters. The posterior was sampled with affine-invariant ensemble moves "
+            f"(Goodman & Weare 2010) in the red-blue form of emcee (Foreman-Mackey et al. "
+            f"2013) on a parallel-tempered ladder (Geyer 1991) of {k} power posteriors "
+            f"L^β π with β_k = (k/(K−1))^{fmt(power, 'g')}, {walkers_text}, "
+            f"{ladder.get('n_burn')} burn-in steps and at least {ladder.get('n_production')} "
+            f"recorded steps per rung")
+    sigma = ladder.get("target_sigma")
+    if is_number(sigma):
+        text += (f", extended (up to {ladder.get('max_production')} steps) until the "
+                 f"log-evidence error was at most {fmt(sigma, 'g')}")
+    if settings.get("quick"):
+        text += " (quick setting: a shorter ladder, for a first look)"
+    return text + "."
+
+
+def methods_paragraph(data: Json) -> str:
+    """The methods paragraph, from the run's settings (plain text with author-year citations)."""
+    mechanisms = data.get("mechanisms") or []
+    screened = [e.get("mechanism_id") for e in (data.get("linearisation") or {}).get(
+        "mechanisms") or []]
+    parts = [
+        f"Conduction mechanisms were identified with mechid {data.get('mechid_version')} "
+        f"(random seed {data.get('seed')}). " + _data_sentence(data),
+        f"Screening: for each of the {len(screened)} candidate mechanisms the data were "
+        "transformed to its straightened plot(s), a robust straight line (Huber 1964 loss) was "
+        "fitted per temperature or per common bias, and the quantities implied by slope and "
+        "intercept were compared with physical ranges and with the device description. The "
+        "hopping exponent was estimated from the reduced activation energy w = d ln G / d ln T "
+        "(Zabrodskii & Zinov'eva 1984).",
+    ]
+    if mechanisms:
+        prior_odds = (data.get("settings") or {}).get("prior_odds")
+        parts += [
+            f"Bayesian comparison of {len(mechanisms)} mechanism(s): "
+            + _join([f"{m.get('name')} ({m.get('source')})" for m in mechanisms]) + ". "
+            "The likelihood is Gaussian in current with standard deviation "
+            "sqrt((s_rel I)^2 + σ_floor^2), a relative term and a current floor that are "
+            "nuisance parameters with log-uniform priors set from the data and are "
+            "marginalised. " + _ladder_sentence(data.get("settings") or {}),
+            "The log-evidence ln Z was estimated by stepping-stone sampling (Xie et al. 2011), "
+            "with its Monte Carlo error from batch means over the whole ladder; corrected-"
+            "trapezoid thermodynamic integration (Friel, Hurn & Wyse 2014) and bridge sampling "
+            "(Meng & Wong 1996) from the same run served as cross-checks. Posterior "
+            "probabilities assume " + ("equal prior odds" if not prior_odds else
+                                       "the prior odds " + ", ".join(
+                                           f"{k}: {fmt(v, 'g')}" for k, v in prior_odds.items()))
+            + ", and Bayes factors are worded on the Kass & Raftery (1995) scale.",
+            "Fit adequacy was judged by posterior predictive p-values (Gelman, Meng & Stern "
+            "1996) of the χ² discrepancy and of the number of runs of same-sign residuals "
+            f"(Wald & Wolfowitz 1940), both required to be at least {MIN_PREDICTIVE_P:g}, and "
+            "by the ratio of the fitted relative noise to a model-free estimate from second "
+            f"differences of ln|I| (Rice 1984), required to be at most {MAX_NOISE_RATIO:g}. "
+            "Posterior corner plots were drawn with corner.py (Foreman-Mackey 2016).",
+        ]
+    else:
+        parts.append("No Bayesian fit was made in this run (screening only).")
+    return " ".join(parts)
+
+
+def priors_paragraph(data: Json) -> str:
+    """The priors of every fitted mechanism, in words (from the JSON ``priors`` lists)."""
+    sentences = []
+    for m in data.get("mechanisms") or []:
+        described = []
+        for prior in m.get("priors") or []:
+            symbol = parameter_symbol(str(m.get("id")), str(prior.get("name")))
+            described.append(f"{symbol}: {prior.get('description')}")
+        sentences.append(f"{m.get('name')} — " + "; ".join(described) + ".")
+    if not sentences:
+        return ""
+    return "Priors (physical units). " + " ".join(sentences)
+
+
+# --------------------------------------------------------------------------------------------
+# Results
+# --------------------------------------------------------------------------------------------
+
+
+def results_paragraph(data: Json) -> str:
+    """The results paragraph, written from the run's numbers."""
+    mechanisms = data.get("mechanisms") or []
+    verdict = data.get("verdict")
+    if not mechanisms or verdict is None:
+        return screening_results(data)
+    best = mechanisms[0]
+    parts = [
+        f"Of the {len(mechanisms)} mechanisms fitted, {best.get('name')} has the highest "
+        f"evidence, ln Z = {fmt_ln(best.get('log_evidence'))} ± "
+        f"{fmt_ln(best.get('log_evidence_err'))}, and a posterior probability of "
+        f"{fmt_probability(best.get('probability'))}."
+    ]
+    if verdict.get("runner_up"):
+        runner = next((m for m in mechanisms if m.get("id") == verdict["runner_up"]), {})
+        parts.append(
+            f"The runner-up, {runner.get('name', verdict['runner_up'])}, trails by ln B = "
+            f"{fmt_ln(verdict.get('ln_bayes_factor_vs_runner_up'))} ± "
+            f"{fmt_ln(verdict.get('ln_bayes_factor_vs_runner_up_err'))} "
+            f"({verdict.get('strength')} evidence on the Kass & Raftery scale"
+            + ("" if verdict.get("resolved") else
+               "; not resolved within twice the Monte Carlo error") + ").")
+    params = key_parameters(best)
+    if params:
+        parts.append("Its parameters (posterior median with 68 % and 95 % credible intervals): "
+                     + "; ".join(parameter_text(parameter_symbol(best["id"], n), s)
+                                 for n, s in params) + ".")
+    adequacy = best.get("adequacy") or {}
+    parts.append(
+        ("The fit is adequate" if best.get("fit_adequate") else "The fit is not adequate")
+        + f" (reduced χ² = {fmt(adequacy.get('reduced_chi_square'), '.3g')}, predictive "
+        f"p = {fmt(adequacy.get('predictive_p_chi_square'), '.3g')} for χ² and "
+        f"{fmt(adequacy.get('predictive_p_runs'), '.3g')} for residual runs"
+        + (f"; fitted relative noise {fmt(adequacy.get('fitted_relative_noise'), '.3g')} "
+           f"against {fmt(adequacy.get('model_free_relative_noise'), '.3g')} estimated "
+           "without a model" if is_number(adequacy.get("model_free_relative_noise")) else "")
+        + ")."
+    )
+    others = []
+    for m in mechanisms[1:]:
+        adequate = "adequate fit" if m.get("fit_adequate") else "inadequate fit"
+        others.append(f"{m.get('name')} ln B = {fmt_ln(m.get('ln_bayes_factor_vs_best'))} "
+                      f"({adequate})")
+    if others:
+        parts.append("Relative to the leader: " + "; ".join(others) + ".")
+    lin = data.get("linearisation") or {}
+    best_screen = lin.get("best")
+    if best_screen:
+        agree = "agrees" if best_screen == best.get("id") else "does not agree"
+        parts.append(f"The straightened-plot screening ranks {mechanism_name(best_screen, data)} "
+                     f"first, which {agree} with the Bayesian ranking.")
+    return " ".join(parts)
+
+
+def screening_results(data: Json) -> str:
+    """Results paragraph of a screening-only run (no evidence)."""
+    lin = data.get("linearisation") or {}
+    ranking = lin.get("ranking") or []
+    if not ranking:
+        return "No mechanism could be assessed by the straightened plots."
+    best = lin.get("best")
+    text = ("Only the straightened-plot screening was run, so no posterior probabilities or "
+            "Bayes factors are available. ")
+    if best:
+        entry = screening_entry(data, best) or {}
+        checks = entry.get("checks") or []
+        passed = sum(c.get("passed") is True for c in checks)
+        text += (f"The screening ranks {mechanism_name(best, data)} first (score "
+                 f"{fmt(entry.get('score'), '.3g')}, {passed} of {len(checks)} consistency "
+                 "checks passed). ")
+    text += ("Screening ranks: " + ", ".join(f"{i + 1}. {mid}" for i, mid in enumerate(ranking))
+             + ".")
+    return text
+
+
+# --------------------------------------------------------------------------------------------
+# References
+# --------------------------------------------------------------------------------------------
+
+
+def references(data: Json) -> tuple[list[str], list[tuple[str, str]]]:
+    """Method references used in the text, and (mechanism name, source) for each mechanism.
+
+    The mechanism sources come from the catalogue's ``Mechanism.source`` declarations of every
+    mechanism that appears in the result (fitted or screened).
+    """
+    used = ["Huber 1964", "Zabrodskii & Zinov'eva 1984"]
+    if data.get("mechanisms"):
+        used += ["Goodman & Weare 2010", "Foreman-Mackey et al. 2013", "Geyer 1991",
+                 "Xie et al. 2011", "Friel, Hurn & Wyse 2014", "Meng & Wong 1996",
+                 "Kass & Raftery 1995", "Gelman, Meng & Stern 1996", "Wald & Wolfowitz 1940",
+                 "Rice 1984", "Foreman-Mackey 2016"]
+    methods = [f"{key}: {METHOD_REFERENCES[key]}" for key in used]
+    ids = [m.get("id") for m in data.get("mechanisms") or []]
+    ids += [e.get("mechanism_id") for e in (data.get("linearisation") or {}).get("mechanisms")
+            or [] if e.get("mechanism_id") not in ids]
+    sources = []
+    for mechanism_id in ids:
+        mechanism = get_mechanism(str(mechanism_id))
+        sources.append((mechanism.name, mechanism.source))
+    return methods, sources
