@@ -180,6 +180,7 @@ def pilot_reference(
     rng: np.random.Generator,
     n_walkers: int | None = None,
     n_steps: int = 400,
+    max_steps: int = 2000,
 ) -> PilotRun:
     """Run emcee at beta = 1 from ``start`` and fit the Student-t reference to its draws.
 
@@ -196,7 +197,9 @@ def pilot_reference(
     n_walkers : int, optional
         Ensemble size, default ``max(32, 4 d)`` rounded to even.
     n_steps : int
-        Steps; the second half is used.
+        Steps of the first block; the last ``n_steps // 2`` steps are used.
+    max_steps : int
+        Cap on the pilot length while the log posterior is still rising.
     """
     d = target.ndim
     walkers = n_walkers or max(32, 4 * d)
@@ -220,10 +223,19 @@ def pilot_reference(
         moves=[(emcee.moves.DEMove(), 0.8), (emcee.moves.StretchMove(), 0.2)],
     )
     sampler.random_state = np.random.RandomState(int(rng.integers(2**32 - 1))).get_state()
-    sampler.run_mcmc(p0, n_steps, progress=False)
-    chain = sampler.get_chain(discard=n_steps // 2, flat=True)
+    # Run in blocks until the ensemble's median log posterior stops rising (the walkers have
+    # reached the typical set), then keep the last ``n_steps // 2`` steps.
+    state = sampler.run_mcmc(p0, n_steps // 2, progress=False)
+    steps = n_steps // 2
+    while steps < max_steps:
+        previous = np.median(sampler.get_log_prob()[-n_steps // 4:])
+        state = sampler.run_mcmc(state, n_steps // 2, progress=False)
+        steps += n_steps // 2
+        if np.median(sampler.get_log_prob()[-n_steps // 4:]) - previous < 1.0:
+            break
+    chain = sampler.get_chain(discard=steps - n_steps // 2, flat=True)
     cov = np.atleast_2d(np.cov(chain, rowvar=False))
     cov = cov + np.diag(np.maximum(1e-12 * (upper - lower) ** 2, 1e-300))
     shape = cov * REFERENCE_WIDENING**2 * (REFERENCE_DOF - 2) / REFERENCE_DOF
     reference = StudentReference(np.mean(chain, axis=0), shape, lower, upper, REFERENCE_DOF, rng)
-    return PilotRun(chain, reference, walkers * n_steps)
+    return PilotRun(chain, reference, walkers * steps)

@@ -33,7 +33,7 @@ def find_map(
     rng: np.random.Generator,
     hints: Mapping[str, float] | None = None,
     n_screen: int = 2000,
-    n_polish: int = 1,
+    n_polish: int = 2,
 ) -> NDArray:
     """Approximate MAP point of ``target`` in internal coordinates, shape ``(ndim,)``.
 
@@ -59,14 +59,23 @@ def find_map(
         return points[0]
     best = points[np.argsort(-scores)[:n_polish]]
 
-    def negative(x: NDArray) -> float:
-        value = target.log_posterior(x[None, :])[0]
+    lower = np.array([p.internal_bounds()[0] for p in target.free])
+    upper = np.array([p.internal_bounds()[1] for p in target.free])
+    span = upper - lower
+
+    def negative(z: NDArray) -> float:
+        value = target.log_posterior((lower + z * span)[None, :])[0]
         return -value if np.isfinite(value) else 1e300
 
-    polished = [
-        optimize.minimize(negative, x0, method="Nelder-Mead",
-                          options={"maxiter": 100 * target.ndim, "xatol": 1e-6, "fatol": 1e-3})
-        for x0 in best
-    ]
+    polished = []
+    for x0 in best:
+        # Quasi-Newton on the unit box first (fast along the long, correlated ridges these
+        # models have), then a Nelder-Mead pass that does not trust the numerical gradient.
+        z0 = np.clip((x0 - lower) / span, 0.0, 1.0)
+        first = optimize.minimize(negative, z0, method="L-BFGS-B", bounds=[(0.0, 1.0)] * len(z0),
+                                  options={"maxiter": 300})
+        second = optimize.minimize(negative, first.x, method="Nelder-Mead",
+                                   options={"maxiter": 100 * target.ndim, "xatol": 1e-9, "fatol": 1e-4})
+        polished.append(min((first, second), key=lambda r: r.fun))
     winner = min(polished, key=lambda r: r.fun)
-    return np.asarray(winner.x, dtype=float)
+    return lower + np.clip(np.asarray(winner.x, dtype=float), 0.0, 1.0) * span

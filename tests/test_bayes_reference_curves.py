@@ -1,0 +1,42 @@
+"""The Bayesian comparison on every reference series: the true mechanism wins, the truth is covered.
+
+Each series is fitted with its true mechanism and with the strongest competitor from the
+straightened-plot screening (the whole catalogue is run in ``benchmarks/bench_analysis.py``).
+"""
+
+from __future__ import annotations
+
+import json
+import warnings
+from pathlib import Path
+
+import pytest
+
+from mechid.analysis import AnalysisSettings, run_analysis_full
+from mechid.data import read_series
+from mechid.device import read_device_toml
+from mechid.errors import MechidWarning
+from mechid.linearise import linearise
+
+ROOT = Path(__file__).resolve().parents[1] / "reference_curves"
+FOLDERS = sorted(p for p in ROOT.iterdir() if (p / "truth.json").is_file())
+
+
+@pytest.mark.parametrize("folder", FOLDERS, ids=lambda p: p.name)
+def test_true_mechanism_ranks_first_and_its_parameters_are_covered(folder):
+    truth = json.loads((folder / "truth.json").read_text())
+    series = read_series(folder / "data.csv")
+    device = read_device_toml(folder / "device.toml")
+    competitor = next(m for m in linearise(series, device).ranking if m != truth["mechanism"])
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", MechidWarning)  # short-chain notes are reported in the JSON
+        run = run_analysis_full(series, device,
+                                AnalysisSettings(mechanisms=(truth["mechanism"], competitor)), seed=3)
+    result = run.result
+    assert result.verdict.id == truth["mechanism"], [(m.id, m.log_evidence) for m in result.mechanisms]
+    assert result.verdict.ln_bayes_factor_vs_runner_up > 5  # "very strong" on these clean-ish data
+    best = result.mechanism(truth["mechanism"])
+    assert best.fit_adequate, best.adequacy["reasons"]
+    for name, value in truth["params"].items():
+        summary = best.parameters[name]
+        assert summary.ci95[0] <= value <= summary.ci95[1], (name, value, summary)
