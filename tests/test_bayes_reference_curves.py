@@ -1,4 +1,4 @@
-"""The Bayesian comparison on every reference series: the true mechanism wins, the truth is covered.
+"""The Bayesian comparison on every reference series: the true mechanism wins, the truth is inside.
 
 Each series is fitted with its true mechanism and with the strongest competitor from the
 straightened-plot screening (the whole catalogue is run in ``benchmarks/bench_analysis.py``).
@@ -10,6 +10,7 @@ import json
 import warnings
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 from mechid.analysis import AnalysisSettings, run_analysis_full
@@ -20,9 +21,12 @@ from mechid.linearise import linearise
 
 ROOT = Path(__file__).resolve().parents[1] / "reference_curves"
 FOLDERS = sorted(p for p in ROOT.iterdir() if (p / "truth.json").is_file())
+#: Series checked in the fast suite; the rest run with ``-m slow`` (about 4 minutes).
+FAST = {"larkfield_sinx_poole_frenkel", "larkfield_sio2_fowler_nordheim", "larkfield_polymer_nn_hopping"}
+CASES = [pytest.param(f, id=f.name, marks=() if f.name in FAST else pytest.mark.slow) for f in FOLDERS]
 
 
-@pytest.mark.parametrize("folder", FOLDERS, ids=lambda p: p.name)
+@pytest.mark.parametrize("folder", CASES)
 def test_true_mechanism_ranks_first_and_its_parameters_are_covered(folder):
     truth = json.loads((folder / "truth.json").read_text())
     series = read_series(folder / "data.csv")
@@ -37,6 +41,12 @@ def test_true_mechanism_ranks_first_and_its_parameters_are_covered(folder):
     assert result.verdict.ln_bayes_factor_vs_runner_up > 5  # "very strong" on these clean-ish data
     best = result.mechanism(truth["mechanism"])
     assert best.fit_adequate, best.adequacy["reasons"]
+    # Each 95 % interval misses its truth one time in twenty by construction, so with about
+    # 25 parameters over the series a strict 95 % check would fail by chance; the check here
+    # is the central 99.7 % interval from the posterior draws (coverage is measured properly
+    # in benchmarks/calibration.py and tests/test_calibration.py).
     for name, value in truth["params"].items():
-        summary = best.parameters[name]
-        assert summary.ci95[0] <= value <= summary.ci95[1], (name, value, summary)
+        if best.parameters[name].fixed:
+            continue
+        lo, hi = np.quantile(best.draws[name], [0.0015, 0.9985])
+        assert lo <= value <= hi, (name, value, best.parameters[name])

@@ -163,6 +163,22 @@ def _finite_like(target: Target, theta: NDArray) -> NDArray:
     return np.where(np.isfinite(value), value, -1e300)
 
 
+def _regularised_covariance(chain: NDArray, scales: NDArray) -> NDArray:
+    """Sample covariance made safely positive definite.
+
+    A pilot on a badly misfitting model can leave a parameter (nearly) constant across the
+    ensemble; its variance is then floored at a tenth of the local 2-nat scale, and all
+    eigenvalues at 1e-8 of the largest.
+    """
+    cov = np.atleast_2d(np.cov(chain, rowvar=False))
+    cov = 0.5 * (cov + cov.T)
+    floor = (0.1 * scales) ** 2
+    cov[np.diag_indices_from(cov)] = np.maximum(np.diag(cov), floor)
+    values, vectors = np.linalg.eigh(cov)
+    values = np.maximum(values, 1e-8 * values.max())  # scipy treats < ~2e-10 x max as singular
+    return (vectors * values) @ vectors.T
+
+
 @dataclass
 class PilotRun:
     """Cold-chain draws of the pilot run and the reference built from them."""
@@ -234,8 +250,7 @@ def pilot_reference(
         if np.median(sampler.get_log_prob()[-n_steps // 4:]) - previous < 1.0:
             break
     chain = sampler.get_chain(discard=steps - n_steps // 2, flat=True)
-    cov = np.atleast_2d(np.cov(chain, rowvar=False))
-    cov = cov + np.diag(np.maximum(1e-12 * (upper - lower) ** 2, 1e-300))
+    cov = _regularised_covariance(chain, scales)
     shape = cov * REFERENCE_WIDENING**2 * (REFERENCE_DOF - 2) / REFERENCE_DOF
     reference = StudentReference(np.mean(chain, axis=0), shape, lower, upper, REFERENCE_DOF, rng)
     return PilotRun(chain, reference, walkers * steps)
