@@ -27,6 +27,16 @@ from mechid.linearise import LinearisationResult, linearise
 from mechid.results import AnalysisResult, MechanismResult, Verdict
 
 ProgressHook = Callable[[str, int, int], None]
+
+#: Sampler flags worth a caution for the leader and the runner-up, in plain words.
+FLAG_MEANINGS = {
+    "not_converged": "the evidence did not reach its precision target within the step cap "
+                     "(its quoted error is still honest; run longer for a tighter value)",
+    "autocorr_short": "the chain is shorter than 50 autocorrelation times",
+    "low_swap_rate": "few swaps between ladder rungs: the evidence error may be understated",
+    "evidence_methods_disagree": "stepping-stone and bridge sampling disagree beyond their errors",
+    "multimodal_suspected": "separate posterior modes were found; the reference may miss one",
+}
 Polarity = Literal["both", "positive", "negative"]
 
 #: Ladder settings of a full and of a quick run (see benchmarks/ for the evidence errors).
@@ -125,7 +135,7 @@ def run_analysis_full(
     mechanisms = _selected_mechanisms(settings)
     fits: dict[str, MechanismFit] = {}
     if not settings.screen_only:
-        device.require_area()
+        _check_area(device, mechanisms)
         master = np.random.default_rng(seed)
         children = master.spawn(len(mechanisms))
         hints = _linearisation_hints(lin)
@@ -157,6 +167,17 @@ def run_analysis_full(
         seed=seed,
     )
     return AnalysisRun(result, lin, fits, series, device)
+
+
+def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:
+    """Raise a clear error when a density-type mechanism is to be fitted without an area."""
+    needing = [m.id for m in mechanisms if m.needs_area]
+    if needing and device.area_cm2 is None:
+        raise MechidError(
+            "the electrode area is needed to turn current density into current for "
+            f"{', '.join(needing)}; give it with --area-cm2 or as area_cm2 in the device TOML "
+            "file (or fit only mechanisms written as a current, e.g. --mechanism mott_vrh)"
+        )
 
 
 def _selected_mechanisms(settings: AnalysisSettings) -> list[Mechanism]:
@@ -254,7 +275,8 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
     if not (np.any(series.voltage_V > 0) and np.any(series.voltage_V < 0)):
         notes.append("only one bias polarity was measured: bulk-limited (symmetric) and "
                      "electrode-limited (asymmetric) conduction cannot be told apart")
-    if device.optical_dielectric_constant is None:
+    emission_fitted = any(r.family == "emission" for r in results) or not results
+    if device.optical_dielectric_constant is None and emission_fitted:
         notes.append("no optical dielectric constant was given: the dielectric constants read from "
                      "Schottky and Poole-Frenkel slopes cannot be checked against n^2")
     if device.thickness_nm is None:
@@ -267,7 +289,7 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
         notes.append("the leading mechanism fails its posterior predictive checks: report it as the "
                      "best of the candidates, not as the mechanism")
     for r in results:
-        flags = r.sampling.get("flags", [])
-        if flags:
-            notes.append(f"{r.id}: sampler flags {', '.join(flags)}")
+        flags = [f for f in r.sampling.get("flags", []) if f in FLAG_MEANINGS]
+        if flags and (verdict is None or r.id in (verdict.id, verdict.runner_up)):
+            notes.append(f"{r.id}: " + "; ".join(FLAG_MEANINGS[f] for f in flags))
     return notes

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import logging
+import re
 import sys
 import warnings
 from collections.abc import Iterator
@@ -19,7 +20,7 @@ from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, T
 from mechid import __version__
 from mechid.catalogue import MECHANISMS, get_mechanism, mechanism_ids
 from mechid.device import Device, device_from_values, find_device_toml, read_device_toml
-from mechid.errors import MechidError, MechidWarning
+from mechid.errors import DeviceError, MechidError, MechidWarning
 
 app = typer.Typer(
     add_completion=False,
@@ -27,8 +28,9 @@ app = typer.Typer(
     pretty_exceptions_enable=False,
     help="Identify the conduction mechanism of thin films and junctions from I-V-T data.",
 )
-out = Console()
-err = Console(stderr=True)
+# Outside a terminal (pipes, files, tests) rich would assume 80 columns and cut table cells.
+out = Console(width=None if sys.stdout.isatty() else 140)
+err = Console(stderr=True, width=None if sys.stderr.isatty() else 140)
 
 USER_ERROR_EXIT = 2
 
@@ -119,7 +121,27 @@ def _device(
     used = device_file or (find_device_toml(data) if data is not None else None)
     if used is not None:
         base = read_device_toml(used)
-    return base.merged_with(device_from_values(**values)), used
+    try:
+        overrides = device_from_values(**values)
+    except DeviceError as exc:
+        raise DeviceError(f"command-line device options: {_option_spelling(str(exc))}") from None
+    return base.merged_with(overrides), used
+
+
+#: Device keys as they are spelled on the command line (for error messages).
+DEVICE_OPTIONS = {
+    "thickness_nm": "--thickness-nm", "thickness_sd_nm": "--thickness-sd-nm",
+    "area_cm2": "--area-cm2", "effective_mass_ratio": "--effective-mass",
+    "effective_mass_sd": "--effective-mass-sd",
+    "optical_dielectric_constant": "--optical-dielectric-constant",
+    "optical_dielectric_constant_sd": "--optical-dielectric-constant-sd",
+}
+_DEVICE_KEY_PATTERN = re.compile(r"\b(" + "|".join(sorted(DEVICE_OPTIONS, key=len, reverse=True)) + r")\b")
+
+
+def _option_spelling(message: str) -> str:
+    """Replace device keys (``thickness_sd_nm``) in a message by their options (``--thickness-sd-nm``)."""
+    return _DEVICE_KEY_PATTERN.sub(lambda match: DEVICE_OPTIONS[match[0]], message)
 
 
 ThicknessOpt = Annotated[float | None, typer.Option("--thickness-nm", help="Film thickness in nm.")]

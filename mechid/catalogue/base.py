@@ -142,7 +142,8 @@ class Mechanism:
     """A conduction mechanism: formula, parameters, straightened plots and source.
 
     The current is odd in voltage: ``I(V) = sign(V) * magnitude(|V|)``, so both bias
-    polarities are described by one set of parameters (symmetric device).
+    polarities are described by one set of parameters (symmetric device). ``needs_area`` is
+    False for mechanisms written directly as a current (no electrode area involved).
     """
 
     id: str
@@ -155,6 +156,7 @@ class Mechanism:
     plots: tuple[StraightenedPlot, ...] = ()
     temperature_dependence: str = ""
     options: Mapping[str, Any] = field(default_factory=dict)
+    needs_area: bool = True
 
     @property
     def parameter_names(self) -> tuple[str, ...]:

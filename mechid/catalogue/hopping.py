@@ -549,6 +549,7 @@ def mott_vrh_variant(dimension: int) -> Mechanism:
         ),
         temperature_dependence=f"stretched exponential: ln(I/V) linear in T^(-{text})",
         options={"dimension": dimension},
+        needs_area=False,
     )
 
 
@@ -571,4 +572,5 @@ ES_VRH = Mechanism(
     magnitude=_vrh_magnitude(0.5),
     plots=(_vrh_plot("es_vrh_plot", "Efros-Shklovskii plot (ln(I/V) against T^-1/2)", 0.5, "1/2"),),
     temperature_dependence="stretched exponential: ln(I/V) linear in T^(-1/2)",
+    needs_area=False,
 )

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import warnings
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 
@@ -10,6 +11,7 @@ from numpy.typing import NDArray
 
 from mechid.catalogue.base import Mechanism
 from mechid.device import Device
+from mechid.errors import ConvergenceWarning
 from mechid.inference.adequacy import AdequacyCheck, check_adequacy
 from mechid.inference.evidence import EvidenceResult, estimate_evidence
 from mechid.inference.likelihood import MechanismTarget
@@ -85,8 +87,14 @@ def fit_mechanism(
     start = find_map(target, rng, hints)
     pilot = pilot_reference(target, start, target._prior_lo, target._prior_hi, rng)
     path = ReferencePathTarget(target, pilot.reference)
-    run, evidence = estimate_evidence(path, settings, rng, start=pilot.draws[-2 * settings.walkers_for(
-        target.ndim):], progress=progress)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ConvergenceWarning)
+        run, evidence = estimate_evidence(
+            path, settings, rng, start=pilot.draws[-2 * settings.walkers_for(target.ndim):],
+            progress=progress,
+        )
+    for warning in caught:  # say which mechanism a sampler warning is about
+        warnings.warn(f"{mechanism.id}: {warning.message}", warning.category, stacklevel=2)
     evidence.n_likelihood_calls += pilot.n_likelihood_calls
     draws = posterior_draws(run)
     adequacy = check_adequacy(target, draws, rng)

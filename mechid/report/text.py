@@ -38,6 +38,14 @@ METHOD_REFERENCES: dict[str, str] = {
                                   "306-312 (2013).",
     "Geyer 1991": "C. J. Geyer, Markov chain Monte Carlo maximum likelihood, in Computing "
                   "Science and Statistics: Proc. 23rd Symposium on the Interface, 156-163 (1991).",
+    "Fan et al. 2011": "Y. Fan, R. Wu, M.-H. Chen, L. Kuo and P. O. Lewis, Choosing among "
+                       "partition models in Bayesian phylogenetics, Mol. Biol. Evol. 28, 523-532 "
+                       "(2011).",
+    "ter Braak 2006": "C. J. F. ter Braak, A Markov chain Monte Carlo version of the genetic "
+                      "algorithm Differential Evolution, Stat. Comput. 16, 239-249 (2006).",
+    "ter Braak & Vrugt 2008": "C. J. F. ter Braak and J. A. Vrugt, Differential Evolution Markov "
+                              "chain with snooker updater and fewer chains, Stat. Comput. 18, "
+                              "435-446 (2008).",
     "Xie et al. 2011": "W. Xie, P. O. Lewis, Y. Fan, L. Kuo and M.-H. Chen, Improving marginal "
                        "likelihood estimation for Bayesian phylogenetic model selection, Syst. "
                        "Biol. 60, 150-160 (2011).",
@@ -252,12 +260,14 @@ def _ladder_sentence(settings: Json) -> str:
     walkers_text = (f"{walkers} walkers per rung" if is_number(walkers)
                     else "max(32, 4 x number of sampled parameters) walkers per rung")
     text = (f"Each mechanism was fitted jointly to all temperatures with shared physical "
-            f"parameters. The posterior was sampled with affine-invariant ensemble moves "
-            f"(Goodman & Weare 2010) in the red-blue form of emcee (Foreman-Mackey et al. "
-            f"2013) on a parallel-tempered ladder (Geyer 1991) of {k} power posteriors "
-            f"L^β π with β_k = (k/(K−1))^{fmt(power, 'g')}, {walkers_text}, "
-            f"{ladder.get('n_burn')} burn-in steps and at least {ladder.get('n_production')} "
-            f"recorded steps per rung")
+            f"parameters. A maximum a posteriori search and a short emcee run at the posterior "
+            f"(Foreman-Mackey et al. 2013) fixed a multivariate Student-t reference distribution; "
+            f"the posterior was then sampled on a parallel-tempered ladder (Geyer 1991) of {k} "
+            f"distributions r^(1−β) (L π)^β from that reference to the posterior, with "
+            f"β_k = (k/(K−1))^{fmt(power, 'g')} (generalised stepping-stone, Fan et al. 2011), "
+            f"using differential-evolution and snooker ensemble moves (ter Braak 2006; ter Braak "
+            f"& Vrugt 2008), {walkers_text}, {ladder.get('n_burn')} burn-in steps and at least "
+            f"{ladder.get('n_production')} recorded steps per rung")
     sigma = ladder.get("target_sigma")
     if is_number(sigma):
         text += (f", extended (up to {ladder.get('max_production')} steps) until the "
@@ -418,8 +428,8 @@ def references(data: Json) -> tuple[list[str], list[tuple[str, str]]]:
     """
     used = ["Huber 1964", "Zabrodskii & Zinov'eva 1984"]
     if data.get("mechanisms"):
-        used += ["Goodman & Weare 2010", "Foreman-Mackey et al. 2013", "Geyer 1991",
-                 "Xie et al. 2011", "Friel, Hurn & Wyse 2014", "Meng & Wong 1996",
+        used += ["Foreman-Mackey et al. 2013", "Geyer 1991", "Fan et al. 2011", "ter Braak 2006",
+                 "ter Braak & Vrugt 2008", "Xie et al. 2011", "Friel, Hurn & Wyse 2014", "Meng & Wong 1996",
                  "Kass & Raftery 1995", "Gelman, Meng & Stern 1996", "Wald & Wolfowitz 1940",
                  "Rice 1984", "Foreman-Mackey 2016"]
     methods = [f"{key}: {METHOD_REFERENCES[key]}" for key in used]
