@@ -151,6 +151,7 @@ def run_analysis_full(
                 mechanism, series.voltage_V[mask], series.temperature_K[mask],
                 series.current_A[mask], device, settings.ladder(), child,
                 hints=hints.get(mechanism.id), progress=hook,
+                pilot_steps=200 if settings.quick else 400, n_polish=1 if settings.quick else 2,
             )
     results = _ranked_results(fits, settings)
     verdict = _verdict(results) if results else None

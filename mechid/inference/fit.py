@@ -57,6 +57,8 @@ def fit_mechanism(
     rng: np.random.Generator,
     hints: Mapping[str, float] | None = None,
     progress: Callable[[int, int], None] | None = None,
+    pilot_steps: int = 400,
+    n_polish: int = 2,
 ) -> MechanismFit:
     """Fit one mechanism jointly to all points and estimate its evidence.
 
@@ -81,11 +83,16 @@ def fit_mechanism(
         Starting values from the linearisation tests.
     progress : callable, optional
         ``progress(done, total)`` during sampling.
+    pilot_steps : int
+        First block of the emcee pilot run (it is extended while still climbing).
+    n_polish : int
+        Number of screened starting points polished by the MAP search.
     """
     priors = mechanism_priors(mechanism, device, current_A)
     target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
-    start = find_map(target, rng, hints)
-    pilot = pilot_reference(target, start, target._prior_lo, target._prior_hi, rng)
+    start = find_map(target, rng, hints, n_polish=n_polish)
+    pilot = pilot_reference(target, start, target._prior_lo, target._prior_hi, rng,
+                            n_steps=pilot_steps)
     path = ReferencePathTarget(target, pilot.reference)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ConvergenceWarning)
