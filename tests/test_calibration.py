@@ -72,10 +72,10 @@ def test_truth_draws_follow_the_device_prior_and_the_flat_region() -> None:
     device = calibration.scenario_device(scenario)
     mechanism = get_mechanism("poole_frenkel")
     rng = np.random.default_rng(3)
-    draws = [calibration.draw_truth(mechanism, scenario, device, rng) for _ in range(2000)]
+    draws = [calibration.draw_truth(mechanism, scenario, device, rng) for _ in range(400)]
     thickness = np.array([d["thickness_nm"] for d in draws])
-    assert thickness.mean() == pytest.approx(30.0, abs=4 * 1.0 / math.sqrt(2000))
-    assert thickness.std() == pytest.approx(1.0, rel=0.08)
+    assert thickness.mean() == pytest.approx(30.0, abs=4 * 1.0 / math.sqrt(400))
+    assert thickness.std() == pytest.approx(1.0, rel=0.15)
     trap = np.array([d["trap_depth_eV"] for d in draws])
     assert trap.min() >= 1.2 * 0.85 and trap.max() <= 1.2 * 1.15
     assert trap.max() - trap.min() > 0.3  # spread over the region, not a point

@@ -12,6 +12,9 @@ a truncated normal uses the inverse CDF (scipy.stats.truncnorm.ppf).
 Model: Mott variable-range hopping (Mott 1969, Phil. Mag. 19:835), two physical parameters
 plus the two noise parameters, d = 4; no device-described parameter enters, so nothing is
 held fixed or Gaussian here (the truncated-normal branch of the transform is tested apart).
+
+The comparison is marked slow: dynesty's per-call overhead makes even a 24-point, 150-live-point
+run take 30-50 s on two shared cores (measured), past the budget of the default suite.
 """
 
 from __future__ import annotations
@@ -119,16 +122,6 @@ def test_prior_transform_maps_quantiles_onto_each_prior() -> None:
     assert transform(np.array([0.25, 0.5, 0.5])) == pytest.approx([1.0, -1.0, 30.0])
     assert transform(np.array([1.0, 0.0, stats.norm.cdf(1.0)])) == pytest.approx(
         [2.5, -4.0, 31.0], abs=1e-6)
-
-
-def test_pipeline_evidence_matches_nested_sampling_small_data() -> None:
-    # 3 temperatures x 4 biases of each polarity = 24 points; d = 4.
-    target = mott_target([30.0, 70.0, 220.0], [0.01, 0.03, 0.08, 0.2], seed=5)
-    assert target.ndim == 4 and target.n_points == 24
-    quick = LadderSettings(n_temperatures=8, beta_power=2.0, n_burn=100, n_production=300,
-                           max_production=900, target_sigma=0.05)
-    assert_agree(pipeline_log_evidence(target, quick, seed=1),
-                 dynesty_log_evidence(target, n_live=150, seed=2), limit=0.5)
 
 
 @pytest.mark.slow

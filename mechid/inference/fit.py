@@ -96,10 +96,9 @@ def fit_mechanism(
     path = ReferencePathTarget(target, pilot.reference)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ConvergenceWarning)
-        run, evidence = estimate_evidence(
-            path, settings, rng, start=pilot.draws[-2 * settings.walkers_for(target.ndim):],
-            progress=progress,
-        )
+        # Every rung starts from exact reference draws: they already spread along the
+        # posterior's ridges, which a ball around the pilot's last positions does not.
+        run, evidence = estimate_evidence(path, settings, rng, start=None, progress=progress)
     for warning in caught:  # say which mechanism a sampler warning is about
         warnings.warn(f"{mechanism.id}: {warning.message}", warning.category, stacklevel=2)
     evidence.n_likelihood_calls += pilot.n_likelihood_calls
