@@ -36,7 +36,8 @@ FLAG_MEANINGS = {
                       "may be too narrow (direct-tunnelling intervals measured 20-40 % too narrow)",
     "low_swap_rate": "few swaps between ladder rungs: the evidence error may be understated",
     "evidence_methods_disagree": "stepping-stone and bridge sampling disagree beyond their errors",
-    "multimodal_suspected": "separate posterior modes were found; the reference may miss one",
+    "multimodal_suspected": "the posterior has separated modes (each found mode has its own "
+                            "reference component; intervals span them)",
 }
 Polarity = Literal["both", "positive", "negative"]
 
@@ -152,7 +153,7 @@ def run_analysis_full(
                 mechanism, series.voltage_V[mask], series.temperature_K[mask],
                 series.current_A[mask], device, settings.ladder(), child,
                 hints=hints.get(mechanism.id), progress=hook,
-                pilot_steps=200 if settings.quick else 400, n_polish=1 if settings.quick else 2,
+                pilot_steps=200 if settings.quick else 400, n_polish=2 if settings.quick else 4,
             )
     results = _ranked_results(fits, settings)
     verdict = _verdict(results) if results else None

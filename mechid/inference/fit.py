@@ -17,7 +17,7 @@ from mechid.inference.evidence import EvidenceResult, estimate_evidence
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.priors import mechanism_priors
 from mechid.inference.reference import ReferencePathTarget, pilot_reference
-from mechid.inference.start import find_map
+from mechid.inference.start import find_modes
 from mechid.inference.tempering import LadderRun, LadderSettings
 from mechid.results import MechanismResult, ParameterSummary, summarise_draws
 
@@ -86,13 +86,15 @@ def fit_mechanism(
     pilot_steps : int
         First block of the emcee pilot run (it is extended while still climbing).
     n_polish : int
-        Number of screened starting points polished by the MAP search.
+        Number of diverse screened candidates polished by the mode search; every distinct
+        mode found gets its own component in the reference distribution.
     """
     priors = mechanism_priors(mechanism, device, current_A)
     target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
-    start = find_map(target, rng, hints, n_polish=n_polish)
-    pilot = pilot_reference(target, start, target._prior_lo, target._prior_hi, rng,
-                            n_steps=pilot_steps)
+    modes = find_modes(target, rng, hints, n_polish=n_polish)
+    start = modes[0].point
+    pilot = pilot_reference(target, [m.point for m in modes], target._prior_lo, target._prior_hi,
+                            rng, n_steps=pilot_steps, log_posteriors=[m.log_posterior for m in modes])
     path = ReferencePathTarget(target, pilot.reference)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ConvergenceWarning)
@@ -101,6 +103,8 @@ def fit_mechanism(
         run, evidence = estimate_evidence(path, settings, rng, start=None, progress=progress)
     for warning in caught:  # say which mechanism a sampler warning is about
         warnings.warn(f"{mechanism.id}: {warning.message}", warning.category, stacklevel=2)
+    if len(modes) > 1:
+        evidence.flags.append("multimodal_suspected")
     evidence.n_likelihood_calls += pilot.n_likelihood_calls
     draws = posterior_draws(run)
     adequacy = check_adequacy(target, draws, rng)

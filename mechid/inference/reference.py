@@ -28,12 +28,14 @@ from many cheap draws and enters log r.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 import emcee
 import numpy as np
 from numpy.typing import NDArray
 from scipy import stats
+from scipy.special import logsumexp
 
 from mechid.inference.target import Target
 
@@ -47,14 +49,18 @@ MASS_DRAWS = 200_000
 
 @dataclass
 class StudentReference:
-    """A multivariate Student-t truncated to a box, with its normalisation.
+    """A mixture of multivariate Student-t components truncated to a box, normalised.
+
+    One component per posterior mode found (usually one).
 
     Parameters
     ----------
-    mean : ndarray, shape (d,)
-        Location.
-    scale : ndarray, shape (d, d)
-        Scale matrix (covariance times (dof - 2)/dof).
+    means : ndarray, shape (k, d)
+        Component locations.
+    scales : ndarray, shape (k, d, d)
+        Component scale matrices (covariance times (dof - 2)/dof).
+    weights : ndarray, shape (k,)
+        Mixture weights (normalised here).
     lower, upper : ndarray, shape (d,)
         Box (the prior support in sampling coordinates).
     dof : float
@@ -63,8 +69,9 @@ class StudentReference:
         Used once to estimate the mass inside the box.
     """
 
-    mean: NDArray
-    scale: NDArray
+    means: NDArray
+    scales: NDArray
+    weights: NDArray
     lower: NDArray
     upper: NDArray
     dof: float
@@ -73,10 +80,13 @@ class StudentReference:
     mass_err: float = field(init=False)
 
     def __post_init__(self) -> None:
-        self._dist = stats.multivariate_t(loc=self.mean, shape=self.scale, df=self.dof,
-                                          allow_singular=False)
-        draws = self._dist.rvs(size=MASS_DRAWS, random_state=self.rng)
-        inside = self._inside(np.atleast_2d(draws)).mean()
+        self.weights = np.asarray(self.weights, dtype=float) / np.sum(self.weights)
+        self._components = [
+            stats.multivariate_t(loc=m, shape=c, df=self.dof, allow_singular=False)
+            for m, c in zip(self.means, self.scales, strict=True)
+        ]
+        draws = self._untruncated(self.rng, MASS_DRAWS)
+        inside = self._inside(draws).mean()
         if inside <= 0:
             raise ValueError("reference distribution has no mass inside the prior support")
         self.log_mass = float(np.log(inside))
@@ -85,18 +95,27 @@ class StudentReference:
     def _inside(self, theta: NDArray) -> NDArray:
         return np.all((theta >= self.lower) & (theta <= self.upper), axis=1)
 
+    def _untruncated(self, rng: np.random.Generator, n: int) -> NDArray:
+        counts = rng.multinomial(n, self.weights)
+        parts = [np.atleast_2d(c.rvs(size=k, random_state=rng)).reshape(k, -1)
+                 for c, k in zip(self._components, counts, strict=True) if k > 0]
+        draws = np.vstack(parts)
+        return draws[rng.permutation(len(draws))]
+
     def log_density(self, theta: NDArray) -> NDArray:
         """Normalised log density ``(m, d) -> (m,)``; -inf outside the box."""
         theta = np.atleast_2d(theta)
-        values = np.atleast_1d(self._dist.logpdf(theta)) - self.log_mass
+        terms = np.stack([np.log(w) + np.atleast_1d(c.logpdf(theta))
+                          for w, c in zip(self.weights, self._components, strict=True)])
+        values = logsumexp(terms, axis=0) - self.log_mass
         return np.where(self._inside(theta), values, -np.inf)
 
     def sample(self, rng: np.random.Generator, n: int) -> NDArray:
-        """``n`` exact draws (rejection from the untruncated distribution)."""
+        """``n`` exact draws (rejection from the untruncated mixture)."""
         kept: list[NDArray] = []
         count = 0
         while count < n:
-            batch = np.atleast_2d(self._dist.rvs(size=max(2 * (n - count), 16), random_state=rng))
+            batch = self._untruncated(rng, max(2 * (n - count), 16))
             batch = batch[self._inside(batch)]
             kept.append(batch)
             count += len(batch)
@@ -232,33 +251,60 @@ class PilotRun:
 
 def pilot_reference(
     target: Target,
-    start: NDArray,
+    start: NDArray | Sequence[NDArray],
     lower: NDArray,
     upper: NDArray,
     rng: np.random.Generator,
     n_walkers: int | None = None,
     n_steps: int = 400,
     max_steps: int = 2000,
+    log_posteriors: Sequence[float] | None = None,
 ) -> PilotRun:
-    """Run emcee at beta = 1 from ``start`` and fit the Student-t reference to its draws.
+    """Run emcee at beta = 1 at each mode and fit the Student-t mixture reference.
 
     Parameters
     ----------
     target : Target
         The model (normalised prior, vectorised likelihood).
-    start : ndarray, shape (d,)
-        A point near the posterior mode (e.g. the MAP).
+    start : ndarray, shape (d,), or sequence of them
+        Point(s) near the posterior mode(s), e.g. from :func:`mechid.inference.start.find_modes`.
     lower, upper : ndarray, shape (d,)
         Prior support in sampling coordinates.
     rng : numpy.random.Generator
-        The random source (emcee receives a state drawn from it).
+        The random source (emcee receives states drawn from it).
     n_walkers : int, optional
         Ensemble size, default ``max(32, 4 d)`` rounded to even.
     n_steps : int
         Steps of the first block; the last ``n_steps // 2`` steps are used.
     max_steps : int
         Cap on the pilot length while the log posterior is still rising.
+    log_posteriors : sequence of float, optional
+        Log posterior at each start; with several modes the mixture weights are their
+        Laplace masses, each floored at 10 % so that every mode keeps reference draws.
     """
+    starts = [np.asarray(start, float)] if np.ndim(start) == 1 else [np.asarray(x, float) for x in start]
+    parts = [_pilot_component(target, x, lower, upper, rng, n_walkers, n_steps, max_steps)
+             for x in starts]
+    means = np.array([part[1] for part in parts])
+    covs = np.array([part[2] for part in parts])
+    if len(parts) == 1 or log_posteriors is None:
+        weights = np.full(len(parts), 1.0 / len(parts))
+    else:
+        log_mass = np.array([lp + 0.5 * np.linalg.slogdet(c)[1]
+                             for lp, c in zip(log_posteriors, covs, strict=True)])
+        weights = np.exp(log_mass - log_mass.max())
+        weights = np.maximum(weights / weights.sum(), 0.1)
+    shapes = covs * REFERENCE_WIDENING**2 * (REFERENCE_DOF - 2) / REFERENCE_DOF
+    reference = StudentReference(means, shapes, weights, lower, upper, REFERENCE_DOF, rng)
+    return PilotRun(np.vstack([part[0] for part in parts]), reference,
+                    int(sum(part[3] for part in parts)))
+
+
+def _pilot_component(
+    target: Target, start: NDArray, lower: NDArray, upper: NDArray, rng: np.random.Generator,
+    n_walkers: int | None, n_steps: int, max_steps: int,
+) -> tuple[NDArray, NDArray, NDArray, int]:
+    """emcee run at one mode: (draws, mean, covariance for the reference, likelihood calls)."""
     d = target.ndim
     walkers = n_walkers or max(32, 4 * d)
     walkers += walkers % 2
@@ -297,6 +343,4 @@ def pilot_reference(
     # along near-degenerate ridges (measured: 40-50 % too narrow after 400 steps on the
     # thickness/dielectric-constant ridge of Poole-Frenkel), the Laplace covariance does not.
     cov = 0.5 * (_regularised_covariance(chain, scales) + cov0)
-    shape = cov * REFERENCE_WIDENING**2 * (REFERENCE_DOF - 2) / REFERENCE_DOF
-    reference = StudentReference(np.mean(chain, axis=0), shape, lower, upper, REFERENCE_DOF, rng)
-    return PilotRun(chain, reference, walkers * steps)
+    return chain, np.mean(chain, axis=0), cov, walkers * steps

@@ -1,19 +1,37 @@
-"""Starting points for the samplers: a maximum a posteriori (MAP) search.
+"""Starting points for the samplers: a search for the posterior's modes.
 
 Walkers that start far from the posterior mode waste the burn-in or get stuck on islands
 (emcee FAQ, "initialisation"). The search is: a vectorised screen of many prior draws plus
-the hints from the linearisation tests, then a Nelder-Mead polish of the best few.
+the hints from the linearisation tests; a quasi-Newton (L-BFGS-B) then Nelder-Mead polish of
+several *diverse* good candidates; and a merge of polished points that lie in the same basin
+(no dip of more than 2 nats on the straight line between them). Several modes do occur: the
+Simmons tunnelling formula, for instance, often admits two (barrier, thickness, mass)
+solutions of similar posterior height.
 """
 
 from __future__ import annotations
 
 from collections.abc import Mapping
+from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
 from scipy import optimize
 
 from mechid.inference.likelihood import MechanismTarget
+
+#: Modes further than this below the best (nats) carry negligible mass and are dropped.
+MODE_WINDOW = 25.0
+#: A dip deeper than this (nats) on the line between two optima separates two modes.
+BASIN_DIP = 2.0
+
+
+@dataclass(frozen=True)
+class Mode:
+    """A polished local maximum of the log posterior (internal coordinates)."""
+
+    point: NDArray
+    log_posterior: float
 
 
 def hint_vectors(target: MechanismTarget, hints: Mapping[str, float], rng: np.random.Generator,
@@ -28,14 +46,28 @@ def hint_vectors(target: MechanismTarget, hints: Mapping[str, float], rng: np.ra
     return draws
 
 
-def find_map(
+def _diverse(points: NDArray, scores: NDArray, span: NDArray, count: int) -> NDArray:
+    """Greedy max-min selection of ``count`` points among the best-scored 5 %."""
+    order = np.argsort(-scores)
+    pool = points[order[: max(count, len(points) // 20)]]
+    unit = pool / span
+    chosen = [0]
+    distance = np.linalg.norm(unit - unit[0], axis=1)
+    while len(chosen) < min(count, len(pool)):
+        nxt = int(np.argmax(distance))
+        chosen.append(nxt)
+        distance = np.minimum(distance, np.linalg.norm(unit - unit[nxt], axis=1))
+    return pool[chosen]
+
+
+def find_modes(
     target: MechanismTarget,
     rng: np.random.Generator,
     hints: Mapping[str, float] | None = None,
     n_screen: int = 2000,
-    n_polish: int = 2,
-) -> NDArray:
-    """Approximate MAP point of ``target`` in internal coordinates, shape ``(ndim,)``.
+    n_polish: int = 4,
+) -> list[Mode]:
+    """Distinct posterior modes, best first (internal coordinates).
 
     Parameters
     ----------
@@ -48,27 +80,26 @@ def find_map(
     n_screen : int
         Number of prior draws screened in vectorised batches.
     n_polish : int
-        Number of best screened points polished with Nelder-Mead.
+        Number of diverse good candidates polished (the best screened point is always one).
     """
     candidates = [target.sample_prior(rng, n_screen)]
     if hints:
         candidates.append(hint_vectors(target, hints, rng))
     points = np.vstack(candidates)
     scores = np.concatenate([target.log_posterior(chunk) for chunk in np.array_split(points, 8)])
-    if not np.any(np.isfinite(scores)):
-        return points[0]
-    best = points[np.argsort(-scores)[:n_polish]]
-
     lower = np.array([p.internal_bounds()[0] for p in target.free])
     upper = np.array([p.internal_bounds()[1] for p in target.free])
     span = upper - lower
+    if not np.any(np.isfinite(scores)):
+        return [Mode(points[0], -np.inf)]
+    starts = _diverse(points, np.where(np.isfinite(scores), scores, -np.inf), span, n_polish)
 
     def negative(z: NDArray) -> float:
         value = target.log_posterior((lower + z * span)[None, :])[0]
         return -value if np.isfinite(value) else 1e300
 
     polished = []
-    for x0 in best:
+    for x0 in starts:
         # Quasi-Newton on the unit box first (fast along the long, correlated ridges these
         # models have), then a Nelder-Mead pass that does not trust the numerical gradient.
         z0 = np.clip((x0 - lower) / span, 0.0, 1.0)
@@ -76,6 +107,36 @@ def find_map(
                                   options={"maxiter": 300})
         second = optimize.minimize(negative, first.x, method="Nelder-Mead",
                                    options={"maxiter": 100 * target.ndim, "xatol": 1e-9, "fatol": 1e-4})
-        polished.append(min((first, second), key=lambda r: r.fun))
-    winner = min(polished, key=lambda r: r.fun)
-    return lower + np.clip(np.asarray(winner.x, dtype=float), 0.0, 1.0) * span
+        best = min((first, second), key=lambda r: r.fun)
+        polished.append(Mode(lower + np.clip(np.asarray(best.x, float), 0.0, 1.0) * span, -best.fun))
+    return _merge_basins(target, polished)
+
+
+def _merge_basins(target: MechanismTarget, modes: list[Mode]) -> list[Mode]:
+    """Keep the best optimum of each basin, within :data:`MODE_WINDOW` of the overall best."""
+    modes = sorted(modes, key=lambda m: -m.log_posterior)
+    kept: list[Mode] = []
+    for mode in modes:
+        if mode.log_posterior < modes[0].log_posterior - MODE_WINDOW:
+            continue
+        same = False
+        for other in kept:
+            line = other.point + np.linspace(0, 1, 13)[:, None] * (mode.point - other.point)
+            values = target.log_posterior(line)
+            if np.min(values) >= min(mode.log_posterior, other.log_posterior) - BASIN_DIP:
+                same = True
+                break
+        if not same:
+            kept.append(mode)
+    return kept
+
+
+def find_map(
+    target: MechanismTarget,
+    rng: np.random.Generator,
+    hints: Mapping[str, float] | None = None,
+    n_screen: int = 2000,
+    n_polish: int = 2,
+) -> NDArray:
+    """Approximate MAP point (the best of :func:`find_modes`), shape ``(ndim,)``."""
+    return find_modes(target, rng, hints, n_screen, n_polish)[0].point
