@@ -10,8 +10,8 @@ from mechid.catalogue.base import Mechanism, Parameter
 from mechid.device import Device
 from mechid.errors import MechidWarning
 from mechid.inference.fit import fit_mechanism
-from mechid.inference.priors import mechanism_priors
 from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.priors import mechanism_priors
 from mechid.inference.start import find_modes
 from mechid.inference.tempering import LadderSettings
 
