@@ -97,6 +97,22 @@ def _parse_number_list(text: str, option: str) -> list[float]:
         ) from None
 
 
+def parse_prior_odds(items: list[str]) -> dict[str, float]:
+    """Parse ``["mott_vrh=2", ...]`` into relative prior weights (positive numbers)."""
+    odds: dict[str, float] = {}
+    for item in items:
+        name, sep, value = item.partition("=")
+        get_mechanism(name.strip())
+        try:
+            weight = float(value) if sep else float("nan")
+        except ValueError:
+            weight = float("nan")
+        if not (weight > 0 and np.isfinite(weight)):
+            raise _fail(f"--prior-odds expects ID=WEIGHT with a positive weight, got {item!r}")
+        odds[name.strip()] = weight
+    return odds
+
+
 def _parse_params(items: list[str], mechanism_id: str) -> dict[str, float]:
     mechanism = get_mechanism(mechanism_id)
     params: dict[str, float] = {}
@@ -260,6 +276,9 @@ def analyze_command(
         "--quick", help="Shorter chains and fewer temperatures on the ladder (rougher evidences).")] = False,
     polarity: Annotated[str, typer.Option(
         "--polarity", help="both (joint fit), positive or negative: which bias points to fit.")] = "both",
+    prior_odds: Annotated[list[str], typer.Option(
+        "--prior-odds", help="ID=WEIGHT relative prior weight of a mechanism (repeatable; "
+                             "default: equal odds).")] = [],  # noqa: B006
     seed: SeedOpt = 0,
 ) -> None:
     """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""
@@ -284,7 +303,7 @@ def analyze_command(
             get_mechanism(mechanism_id)
         settings = AnalysisSettings(
             mechanisms=tuple(only) or None, quick=quick, screen_only=screen_only,
-            polarity=polarity,
+            polarity=polarity, prior_odds=parse_prior_odds(prior_odds) or None,
         )
         with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
                       TimeElapsedColumn(), console=err, transient=False,

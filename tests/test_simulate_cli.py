@@ -113,3 +113,17 @@ def test_voltage_range_syntax(tmp_path):
     series = read_series(out)
     assert series.n_points == 60
     np.testing.assert_allclose(series.temperatures, np.linspace(50, 300, 6))
+
+
+def test_prior_odds_option_parsing():
+    import typer
+
+    from mechid.cli import parse_prior_odds
+    from mechid.errors import UnknownMechanismError
+
+    assert parse_prior_odds(["mott_vrh=2", "es_vrh=0.5"]) == {"mott_vrh": 2.0, "es_vrh": 0.5}
+    for bad in (["mott_vrh=0"], ["mott_vrh=-1"], ["mott_vrh"], ["mott_vrh=x"]):
+        with pytest.raises(typer.Exit):
+            parse_prior_odds(bad)
+    with pytest.raises(UnknownMechanismError):
+        parse_prior_odds(["warp_drive=1"])
