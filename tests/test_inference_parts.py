@@ -40,6 +40,8 @@ def _toy(formula=_ohmic, name="toy"):
         Prior("a", "eV", "uniform", 0.1, 5.0),
         Prior("b", "S", "log_uniform", 1e-9, 1e-3),
         Prior("c", "nm", "truncated_normal", 4.0, 8.0, mean=5.0, sd=1.0),
+        Prior("d", "nm", "truncated_normal", 4.0, 8.0, mean=5.0, sd=1.0, log_coordinate=True),
+        Prior("e", "eV", "uniform", 0.1, 5.0, log_coordinate=True),
     ],
 )
 def test_prior_density_is_normalised(prior):
@@ -49,6 +51,14 @@ def test_prior_density_is_normalised(prior):
     assert total == pytest.approx(1.0, rel=1e-8)
     draws = prior.sample(np.random.default_rng(1), 20000)
     assert np.all((draws >= lo) & (draws <= hi))
+
+
+def test_log_coordinate_keeps_the_prior_distribution():
+    # Same prior, sampled in log10: the draws' physical distribution must be the truncated normal.
+    prior = Prior("d", "nm", "truncated_normal", 4.0, 8.0, mean=5.0, sd=1.0, log_coordinate=True)
+    physical = prior.to_physical(prior.sample(np.random.default_rng(3), 20000))
+    reference = stats.truncnorm(-1.0, 3.0, loc=5.0, scale=1.0)
+    assert stats.kstest(physical, reference.cdf).pvalue > 0.01
 
 
 def test_truncated_normal_prior_matches_scipy():

@@ -80,6 +80,9 @@ class Parameter:
     device_prior : str or None
         Name of the :class:`~mechid.device.Device` attribute that, when given, replaces the
         default prior by a Gaussian with the user's value and uncertainty.
+    sample_in_log : bool
+        Sample this parameter in log10 (the prior is unchanged; its density carries the
+        Jacobian). Straightens power-law degeneracies such as thickness x sqrt(mass).
     """
 
     name: str
@@ -91,11 +94,12 @@ class Parameter:
     typical: float
     log_scale: bool = False
     device_prior: str | None = None
+    sample_in_log: bool = False
 
     def __post_init__(self) -> None:
         if not (self.lower < self.typical < self.upper):
             raise ValueError(f"{self.name}: typical value must lie inside ({self.lower}, {self.upper})")
-        if self.log_scale and self.lower <= 0:
+        if (self.log_scale or self.sample_in_log) and self.lower <= 0:
             raise ValueError(f"{self.name}: a log-scale parameter needs a positive lower bound")
 
     @property

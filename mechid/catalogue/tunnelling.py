@@ -614,7 +614,7 @@ def _barrier(lower: float, typical: float) -> Parameter:
     return Parameter(
         name="barrier_height_eV", unit="eV", symbol="phi_B",
         description="tunnel barrier height (electrode Fermi level to insulator band edge)",
-        lower=lower, upper=5.0, typical=typical,
+        lower=lower, upper=5.0, typical=typical, sample_in_log=True,
     )
 
 
@@ -622,6 +622,7 @@ def _thickness(lower: float, upper: float, typical: float) -> Parameter:
     return Parameter(
         name="thickness_nm", unit="nm", symbol="d", description="barrier (film) thickness",
         lower=lower, upper=upper, typical=typical, device_prior="thickness_nm",
+        sample_in_log=True,
     )
 
 
@@ -629,6 +630,8 @@ _MASS = Parameter(
     name="effective_mass_ratio", unit="1", symbol="m*/m0",
     description="tunnelling effective mass in units of the free-electron mass",
     lower=0.05, upper=1.0, typical=0.5, device_prior="effective_mass_ratio",
+    # Tunnelling depends on d * sqrt(m* phi) (WKB exponent): in logs the ridge is straight.
+    sample_in_log=True,
 )
 
 DIRECT_TUNNELLING = Mechanism(

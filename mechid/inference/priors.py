@@ -62,6 +62,7 @@ class Prior:
     sd: float | None = None
     value: float | None = None
     origin: str = ""
+    log_coordinate: bool = False
 
     @property
     def is_fixed(self) -> bool:
@@ -70,8 +71,13 @@ class Prior:
 
     @property
     def log_scale(self) -> bool:
-        """True when the internal coordinate is log10 of the value."""
-        return self.kind == "log_uniform"
+        """True when the internal coordinate is log10 of the value.
+
+        Always for ``log_uniform``; also for other kinds when ``log_coordinate`` is set (a
+        sampling choice that straightens ridges such as thickness x sqrt(mass) = const; the
+        density then carries the Jacobian ``x ln 10``, so the prior itself is unchanged).
+        """
+        return self.kind == "log_uniform" or self.log_coordinate
 
     def to_internal(self, value: NDArray | float) -> NDArray:
         """Physical value -> internal coordinate."""
@@ -93,31 +99,40 @@ class Prior:
         x = np.asarray(internal, dtype=float)
         lo, hi = self.internal_bounds()
         inside = (x >= lo) & (x <= hi)
-        if self.kind in ("uniform", "log_uniform"):
+        value = self.to_physical(x)
+        if self.kind == "log_uniform":
             dens = np.full_like(x, -np.log(hi - lo))
+        elif self.kind == "uniform":
+            dens = np.full_like(x, -np.log(self.upper - self.lower))
         elif self.kind == "truncated_normal":
             assert self.mean is not None and self.sd is not None
-            z = (x - self.mean) / self.sd
+            z = (value - self.mean) / self.sd
             dens = -0.5 * z**2 - np.log(self.sd * np.sqrt(2 * np.pi)) - self._log_normal_mass
         else:
             raise ValueError("a fixed parameter has no density")
+        if self.log_coordinate and self.kind != "log_uniform":
+            with np.errstate(divide="ignore", invalid="ignore"):
+                dens = dens + np.log(value * np.log(10.0))  # Jacobian dx/du of x = 10**u
         return np.where(inside, dens, -np.inf)
 
     @functools.cached_property
     def _log_normal_mass(self) -> float:
         """log of the Gaussian mass inside the support (truncated_normal only)."""
-        lo, hi = self.internal_bounds()
-        return _log_normal_mass((lo - self.mean) / self.sd, (hi - self.mean) / self.sd)
+        return _log_normal_mass((self.lower - self.mean) / self.sd,
+                                (self.upper - self.mean) / self.sd)
 
     def sample(self, rng: np.random.Generator, n: int) -> NDArray:
         """``n`` exact draws in the internal coordinate."""
-        lo, hi = self.internal_bounds()
-        if self.kind in ("uniform", "log_uniform"):
+        if self.kind == "log_uniform":
+            lo, hi = self.internal_bounds()
             return rng.uniform(lo, hi, size=n)
+        if self.kind == "uniform":
+            return self.to_internal(rng.uniform(self.lower, self.upper, size=n))
         if self.kind == "truncated_normal":
             assert self.mean is not None and self.sd is not None
-            a, b = (lo - self.mean) / self.sd, (hi - self.mean) / self.sd
-            return stats.truncnorm.rvs(a, b, loc=self.mean, scale=self.sd, size=n, random_state=rng)
+            a, b = (self.lower - self.mean) / self.sd, (self.upper - self.mean) / self.sd
+            draws = stats.truncnorm.rvs(a, b, loc=self.mean, scale=self.sd, size=n, random_state=rng)
+            return self.to_internal(draws)
         raise ValueError("a fixed parameter is not sampled")
 
     def describe(self) -> str:
@@ -156,17 +171,20 @@ def parameter_prior(parameter: Parameter, device: Device) -> Prior:
     if measured is None:
         kind: PriorKind = "log_uniform" if parameter.log_scale else "uniform"
         return Prior(parameter.name, parameter.unit, kind, parameter.lower, parameter.upper,
-                     origin="catalogue range")
+                     origin="catalogue range", log_coordinate=parameter.sample_in_log)
     if measured.is_exact:
         return Prior(parameter.name, parameter.unit, "fixed", parameter.lower, parameter.upper,
                      value=measured.value, origin="device description, held fixed")
     lower = max(parameter.lower, measured.value - 6 * measured.sd)
+    if parameter.sample_in_log:
+        lower = max(lower, parameter.lower, 1e-12)
     upper = min(parameter.upper, measured.value + 6 * measured.sd)
     if not lower < upper:
         lower, upper = parameter.lower, parameter.upper
     return Prior(parameter.name, parameter.unit, "truncated_normal", lower, upper,
                  mean=measured.value, sd=measured.sd,
-                 origin="device description with its standard uncertainty")
+                 origin="device description with its standard uncertainty",
+                 log_coordinate=parameter.sample_in_log)
 
 
 #: Names of the two noise nuisance parameters (shared by every mechanism).
