@@ -33,7 +33,7 @@ FLAG_MEANINGS = {
     "not_converged": "the evidence did not reach its precision target within the step cap "
                      "(its quoted error is still honest; run longer for a tighter value)",
     "autocorr_short": "the chain is shorter than 50 autocorrelation times: its credible intervals "
-                      "may be too narrow (direct-tunnelling intervals measured 20-40 % too narrow)",
+                      "may be too narrow",
     "low_swap_rate": "few swaps between ladder rungs: the evidence error may be understated",
     "evidence_methods_disagree": "stepping-stone and bridge sampling disagree beyond their errors",
     "multimodal_suspected": "the posterior has separated modes (each found mode has its own "
