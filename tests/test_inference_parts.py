@@ -175,3 +175,21 @@ def test_ranking_orders_by_evidence_even_when_probabilities_underflow():
                               {k: 0.05 for k in "abcd"})
     assert ranking.ids == ("a", "c", "d", "b")
     assert ranking.ln_bayes_factor_best_vs_runner_up == pytest.approx(900.0)
+
+
+def test_reference_mixture_density_matches_scipy_and_is_normalised():
+    from mechid.inference.reference import StudentReference
+
+    rng = np.random.default_rng(0)
+    a = rng.standard_normal((2, 2))
+    cov = a @ a.T + np.eye(2)
+    means = np.array([[0.0, 1.0], [2.0, -1.0]])
+    ref = StudentReference(means, np.array([cov, 0.5 * cov]), np.array([0.3, 0.7]),
+                           -np.full(2, 4.0), np.full(2, 4.0), 10.0, rng)
+    x = rng.uniform(-4, 4, (6, 2))
+    expected = np.log(0.3 * stats.multivariate_t(means[0], cov, df=10).pdf(x)
+                      + 0.7 * stats.multivariate_t(means[1], 0.5 * cov, df=10).pdf(x)) - ref.log_mass
+    np.testing.assert_allclose(ref.log_density(x), expected, rtol=1e-10)
+    total, _ = integrate.dblquad(lambda y, x_: np.exp(ref.log_density(np.array([[x_, y]]))[0]),
+                                 -4, 4, -4, 4, epsabs=1e-6)
+    assert total == pytest.approx(1.0, abs=3 * ref.mass_err + 1e-4)

@@ -100,14 +100,17 @@ def find_modes(
 
     polished = []
     for x0 in starts:
-        # Quasi-Newton on the unit box first (fast along the long, correlated ridges these
-        # models have), then a Nelder-Mead pass that does not trust the numerical gradient.
+        # Quasi-Newton on the unit box (fast along the long, correlated ridges these models
+        # have); if it stops without converging, a Nelder-Mead pass that needs no gradient.
         z0 = np.clip((x0 - lower) / span, 0.0, 1.0)
         first = optimize.minimize(negative, z0, method="L-BFGS-B", bounds=[(0.0, 1.0)] * len(z0),
                                   options={"maxiter": 300})
-        second = optimize.minimize(negative, first.x, method="Nelder-Mead",
-                                   options={"maxiter": 100 * target.ndim, "xatol": 1e-9, "fatol": 1e-4})
-        best = min((first, second), key=lambda r: r.fun)
+        best = first
+        if not first.success:
+            second = optimize.minimize(negative, first.x, method="Nelder-Mead",
+                                       options={"maxiter": 100 * target.ndim, "xatol": 1e-9,
+                                                "fatol": 1e-4})
+            best = min((first, second), key=lambda r: r.fun)
         polished.append(Mode(lower + np.clip(np.asarray(best.x, float), 0.0, 1.0) * span, -best.fun))
     return _merge_basins(target, polished)
 
