@@ -22,13 +22,13 @@ import pytest
 from scipy import integrate, stats
 
 from mechid.errors import ConvergenceWarning
+from mechid.inference.compare import kass_raftery_wording
 from mechid.inference.evidence import (
     EvidenceResult,
     batch_means_error,
     bridge_sampling,
     corrected_trapezoid,
     estimate_evidence,
-    kass_raftery_strength,
     stepping_stone,
 )
 from mechid.inference.target import FunctionTarget
@@ -225,11 +225,11 @@ def test_bridge_sampling_on_exact_posterior_draws(model):
 
 def test_kass_raftery_grades_in_nats():
     # Kass & Raftery (1995), sect. 3.2: 2 ln B thresholds 2, 6, 10 -> ln B 1, 3, 5
-    assert kass_raftery_strength(0.5) == "not worth more than a bare mention"
-    assert kass_raftery_strength(1.0) == "positive"
-    assert kass_raftery_strength(-2.9) == "positive"
-    assert kass_raftery_strength(3.0) == "strong"
-    assert kass_raftery_strength(5.0) == "very strong"
+    assert kass_raftery_wording(0.5) == "not worth more than a bare mention"
+    assert kass_raftery_wording(1.0) == "positive"
+    assert kass_raftery_wording(-2.9) == "positive"
+    assert kass_raftery_wording(3.0) == "strong"
+    assert kass_raftery_wording(5.0) == "very strong"
 
 
 # --------------------------------------------------------------------------------------

@@ -28,8 +28,13 @@ KASS_RAFTERY_SCALE: tuple[tuple[float, str], ...] = (
 
 
 def kass_raftery_wording(ln_bayes_factor: float) -> str:
-    """Verbal strength of evidence for ln B >= 0 on the Kass & Raftery (1995) scale."""
+    """Verbal strength of ln B on the Kass & Raftery (1995) scale (the sign says which model).
+
+    Returns ``"undefined"`` for NaN; an infinite ln B is ``"very strong"``.
+    """
     value = abs(float(ln_bayes_factor))
+    if np.isnan(value):
+        return "undefined"
     return next(words for bound, words in KASS_RAFTERY_SCALE if value < bound)
 
 

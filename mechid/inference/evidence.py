@@ -511,36 +511,6 @@ class _PriorOnly:
         return self.inner.sample_prior(rng, n)
 
 
-def kass_raftery_strength(ln_b: float) -> str:
-    """Verbal strength of a Bayes factor on the Kass & Raftery (1995) scale, in nats.
-
-    Kass & Raftery (1995, JASA 90:773, sect. 3.2) grade :math:`2\\ln B` at 2, 6 and 10, i.e.
-    :math:`\\ln B` at 1, 3 and 5. The sign only says which model is favoured, so the
-    grade uses :math:`|\\ln B|`.
-
-    Parameters
-    ----------
-    ln_b : float
-        Natural-log Bayes factor.
-
-    Returns
-    -------
-    str
-        ``"not worth more than a bare mention"``, ``"positive"``, ``"strong"`` or
-        ``"very strong"``.
-    """
-    size = abs(float(ln_b))
-    if not np.isfinite(size):
-        return "very strong" if np.isinf(size) else "undefined"
-    if size < 1.0:
-        return "not worth more than a bare mention"
-    if size < 3.0:
-        return "positive"
-    if size < 5.0:
-        return "strong"
-    return "very strong"
-
-
 # --------------------------------------------------------------------------------------
 # The adaptive evidence run
 # --------------------------------------------------------------------------------------

@@ -93,7 +93,7 @@ def fit_mechanism(
     target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
     modes = find_modes(target, rng, hints, n_polish=n_polish)
     start = modes[0].point
-    pilot = pilot_reference(target, [m.point for m in modes], target._prior_lo, target._prior_hi,
+    pilot = pilot_reference(target, [m.point for m in modes], *target.bounds,
                             rng, n_steps=pilot_steps, log_posteriors=[m.log_posterior for m in modes])
     path = ReferencePathTarget(target, pilot.reference)
     with warnings.catch_warnings(record=True) as caught:

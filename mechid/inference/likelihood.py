@@ -90,6 +90,11 @@ class MechanismTarget:
         return tuple(p.name for p in self.free)
 
     @property
+    def bounds(self) -> tuple[NDArray, NDArray]:
+        """Support of the free parameters in the internal coordinates (lower, upper)."""
+        return self._prior_lo, self._prior_hi
+
+    @property
     def n_points(self) -> int:
         """Number of data points in the likelihood."""
         return int(self.current_A.size)
