@@ -34,8 +34,7 @@ from dataclasses import dataclass, field
 import emcee
 import numpy as np
 from numpy.typing import NDArray
-from scipy import stats
-from scipy.special import gammaln, logsumexp
+from scipy.special import gammaln
 
 from mechid.inference.target import Target
 
@@ -81,18 +80,17 @@ class StudentReference:
 
     def __post_init__(self) -> None:
         self.weights = np.asarray(self.weights, dtype=float) / np.sum(self.weights)
-        self._components = [
-            stats.multivariate_t(loc=m, shape=c, df=self.dof, allow_singular=False)
-            for m, c in zip(self.means, self.scales, strict=True)
-        ]
-        # Cholesky factors for a fast vectorised log density (scipy's per-call overhead
-        # dominated the ladder's hot loop).
+        self._log_weights = np.log(self.weights)
+        # Cholesky factors and their inverses: the density and the draws are plain matrix
+        # products (scipy's per-call overhead dominated the ladder's hot loop).
         d = self.means.shape[1]
-        self._cholesky = [np.linalg.cholesky(c) for c in self.scales]
+        self._cholesky = np.array([np.linalg.cholesky(c) for c in self.scales])
+        self._inverse_cholesky = np.array([np.linalg.inv(chol) for chol in self._cholesky])
         self._log_norm = np.array([
             gammaln((self.dof + d) / 2) - gammaln(self.dof / 2) - 0.5 * d * np.log(self.dof * np.pi)
             - np.sum(np.log(np.diag(chol))) for chol in self._cholesky
         ])
+        self.log_mass = 0.0
         draws = self._untruncated(self.rng, MASS_DRAWS)
         inside = self._inside(draws).mean()
         if inside <= 0:
@@ -104,32 +102,39 @@ class StudentReference:
         return np.all((theta >= self.lower) & (theta <= self.upper), axis=1)
 
     def _untruncated(self, rng: np.random.Generator, n: int) -> NDArray:
-        counts = rng.multinomial(n, self.weights)
-        parts = [np.atleast_2d(c.rvs(size=k, random_state=rng)).reshape(k, -1)
-                 for c, k in zip(self._components, counts, strict=True) if k > 0]
-        draws = np.vstack(parts)
-        return draws[rng.permutation(len(draws))]
+        """Draws of the untruncated mixture: ``mean + L z / sqrt(u / dof)``, u ~ chi2(dof)."""
+        d = self.means.shape[1]
+        component = (rng.choice(len(self.weights), size=n, p=self.weights) if len(self.weights) > 1
+                     else np.zeros(n, dtype=int))
+        normal = rng.standard_normal((n, d))
+        stretch = np.sqrt(self.dof / rng.chisquare(self.dof, size=n))
+        correlated = np.einsum("nij,nj->ni", self._cholesky[component], normal)
+        return self.means[component] + correlated * stretch[:, None]
 
     def log_density(self, theta: NDArray) -> NDArray:
         """Normalised log density ``(m, d) -> (m,)``; -inf outside the box."""
         theta = np.atleast_2d(theta)
         d = theta.shape[1]
-        terms = []
-        for w, mean, chol, norm in zip(self.weights, self.means, self._cholesky, self._log_norm,
-                                       strict=True):
-            z = np.linalg.solve(chol, (theta - mean).T)  # (d, m)
-            maha = np.sum(z**2, axis=0)
-            terms.append(np.log(w) + norm - 0.5 * (self.dof + d) * np.log1p(maha / self.dof))
-        terms = np.stack(terms)
-        values = logsumexp(terms, axis=0) - self.log_mass
-        return np.where(self._inside(theta), values, -np.inf)
+        terms = np.empty((len(self.weights), theta.shape[0]))
+        for k in range(len(self.weights)):
+            z = (theta - self.means[k]) @ self._inverse_cholesky[k].T
+            maha = np.einsum("ij,ij->i", z, z)
+            terms[k] = (self._log_weights[k] + self._log_norm[k]
+                        - 0.5 * (self.dof + d) * np.log1p(maha / self.dof))
+        if len(terms) == 1:
+            values = terms[0]
+        else:
+            top = terms.max(axis=0)
+            values = top + np.log(np.sum(np.exp(terms - top), axis=0))
+        return np.where(self._inside(theta), values - self.log_mass, -np.inf)
 
     def sample(self, rng: np.random.Generator, n: int) -> NDArray:
         """``n`` exact draws (rejection from the untruncated mixture)."""
+        acceptance = float(np.exp(self.log_mass))
         kept: list[NDArray] = []
         count = 0
         while count < n:
-            batch = self._untruncated(rng, max(2 * (n - count), 16))
+            batch = self._untruncated(rng, max(int(1.2 * (n - count) / acceptance) + 8, 16))
             batch = batch[self._inside(batch)]
             kept.append(batch)
             count += len(batch)
@@ -168,6 +173,19 @@ class ReferencePathTarget:
             value = (self.model.log_likelihood(theta) + self.model.log_prior(theta)
                      - self.reference.log_density(theta))
         return np.where(np.isfinite(value), value, -np.inf)
+
+    def log_prior_and_likelihood(self, theta: NDArray) -> tuple[NDArray, NDArray]:
+        """Both at once, with log r computed once and L only where r > 0 and pi > 0."""
+        theta = np.atleast_2d(theta)
+        log_r = self.reference.log_density(theta)
+        log_pi = np.full(len(theta), -np.inf)
+        inside = np.isfinite(log_r)
+        log_pi[inside] = self.model.log_prior(theta[inside])
+        value = np.full(len(theta), -np.inf)
+        ok = inside & np.isfinite(log_pi)
+        if ok.any():
+            value[ok] = self.model.log_likelihood(theta[ok]) + log_pi[ok] - log_r[ok]
+        return log_r, np.where(np.isfinite(value), value, -np.inf)
 
     def sample_prior(self, rng: np.random.Generator, n: int) -> NDArray:
         """Exact draws from r."""

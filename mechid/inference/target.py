@@ -29,6 +29,11 @@ class Target(Protocol):
         Number of sampled parameters.
     names : tuple of str
         Parameter names, ``len(names) == ndim``.
+
+    Notes
+    -----
+    A target may also offer ``log_prior_and_likelihood(theta) -> (log_prior, log_like)``
+    when the two share work; :func:`evaluate_target` then makes that one call instead.
     """
 
     ndim: int
@@ -105,6 +110,15 @@ def evaluate_target(target: Target, theta: NDArray) -> tuple[FloatArray, FloatAr
         Number of points the likelihood was actually evaluated at.
     """
     theta = np.atleast_2d(np.asarray(theta, dtype=float))
+    combined = getattr(target, "log_prior_and_likelihood", None)
+    if combined is not None:  # a target that shares work between the two (one call)
+        with np.errstate(all="ignore"):
+            log_prior, log_likelihood = (np.asarray(v, dtype=float).reshape(len(theta))
+                                         for v in combined(theta))
+            log_prior = np.where(np.isfinite(log_prior), log_prior, -np.inf)
+            log_likelihood = np.where(np.isfinite(log_prior) & np.isfinite(log_likelihood),
+                                      log_likelihood, -np.inf)
+        return log_prior, log_likelihood, int(np.count_nonzero(np.isfinite(log_prior)))
     with np.errstate(all="ignore"):
         log_prior = np.asarray(target.log_prior(theta), dtype=float).reshape(len(theta))
         finite_point = np.all(np.isfinite(theta), axis=1)
