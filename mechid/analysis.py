@@ -21,6 +21,7 @@ from mechid.device import Device
 from mechid.errors import MechidError
 from mechid.formatting import format_estimate
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
+from mechid.inference.evidence import FAR_BELOW_MARGIN
 from mechid.inference.fit import MechanismFit, fit_mechanism
 from mechid.inference.tempering import LadderSettings
 from mechid.linearise import LinearisationResult, linearise
@@ -38,6 +39,8 @@ FLAG_MEANINGS = {
     "evidence_methods_disagree": "stepping-stone and bridge sampling disagree beyond their errors",
     "multimodal_suspected": "the posterior has separated modes (each found mode has its own "
                             "reference component; intervals span them)",
+    "far_below": f"its evidence was not refined because it lies over {FAR_BELOW_MARGIN:g} nats "
+                 "below a better mechanism: more precision cannot change the ranking",
 }
 Polarity = Literal["both", "positive", "negative"]
 
@@ -141,7 +144,13 @@ def run_analysis_full(
         master = np.random.default_rng(seed)
         children = master.spawn(len(mechanisms))
         hints = _linearisation_hints(lin)
-        for mechanism, child in zip(mechanisms, children, strict=True):
+        leader: float | None = None
+        # Most promising first (screening rank), so that mechanisms far below the leader are
+        # not refined; each keeps its own random stream whatever the order.
+        screening = {mid: rank for rank, mid in enumerate(lin.ranking)}
+        order = sorted(zip(mechanisms, children, strict=True),
+                       key=lambda pair: screening.get(pair[0].id, len(screening)))
+        for mechanism, child in order:
             hook = None
             if progress is not None:
                 label = f"fitting {mechanism.id}"
@@ -154,7 +163,10 @@ def run_analysis_full(
                 series.current_A[mask], device, settings.ladder(), child,
                 hints=hints.get(mechanism.id), progress=hook,
                 pilot_steps=200 if settings.quick else 400, n_polish=2 if settings.quick else 4,
+                leader_log_evidence=leader,
             )
+            found = fits[mechanism.id].evidence.log_evidence
+            leader = found if leader is None else max(leader, found)
     results = _ranked_results(fits, settings)
     verdict = _verdict(results) if results else None
     result = AnalysisResult(

@@ -17,6 +17,7 @@ from mechid.inference.tempering import (
     TemperedLadder,
     _pick_distinct,
     run_tempered_ladder,
+    start_pool_size,
     temperature_ladder,
 )
 
@@ -146,8 +147,9 @@ def test_run_shapes_counts_and_progress():
     np.testing.assert_array_equal(run.cold_log_likelihood, run.log_likelihood[-1])
     assert run.n_burn == 100 and run.n_steps == 300
     # 2 stacked calls per step; every rung's half-ensemble evaluated in each
+    # one call for the resampled start pool, then 2 stacked calls per step
     assert run.n_likelihood_batches == 1 + 2 * 400
-    assert run.n_likelihood_evaluations <= 6 * walkers * (1 + 400)
+    assert run.n_likelihood_evaluations <= start_pool_size(6, walkers) + 6 * walkers * 400
     assert [c[0] for c in calls] == list(range(1, 401)) and calls[-1] == (400, 400)
     assert np.all((run.swap_acceptance > 0) & (run.swap_acceptance <= 1))
     assert run.move_acceptance[0] == 1.0  # the prior rung takes fresh prior draws
@@ -194,3 +196,14 @@ def test_swaps_recover_the_weights_of_separated_modes():
     run = run_tempered_ladder(mixture_target(0.8), settings, np.random.default_rng(5))
     heavy = np.mean(run.cold_chain[..., 0] > 0)
     assert heavy == pytest.approx(0.8, abs=0.06)
+
+
+def test_rungs_start_from_prior_draws_resampled_towards_their_power_posterior():
+    # Uniform prior on [-20, 20], likelihood N(3, 0.5^2):
+    # the cold rung must start near the posterior, the prior rung spread like the prior.
+    target = gaussian_target(np.array([3.0]), np.array([[0.25]]))
+    ladder = TemperedLadder(target, FAST, np.random.default_rng(3))
+    cold, prior_rung = ladder.positions[-1, :, 0], ladder.positions[0, :, 0]
+    assert abs(np.mean(cold) - 3.0) < 0.5
+    assert np.std(prior_rung) > 5 * np.std(cold)
+    assert ladder.n_batches == 1  # the pool is the only evaluation

@@ -443,11 +443,12 @@ _DIELECTRIC = Parameter(
     name="dielectric_constant", unit="1", symbol="eps_r",
     description="optical (high-frequency) relative permittivity governing the barrier lowering",
     lower=1.0, upper=20.0, typical=4.0, device_prior="optical_dielectric_constant",
+    sample_in_log=True,  # straightens the eps_r x d ridge of sqrt(V/(d eps_r))
 )
 
 _THICKNESS = Parameter(
     name="thickness_nm", unit="nm", symbol="d", description="film thickness (E = V/d)",
-    lower=1.0, upper=1000.0, typical=20.0, device_prior="thickness_nm",
+    lower=1.0, upper=1000.0, typical=20.0, device_prior="thickness_nm", sample_in_log=True,
 )
 
 SCHOTTKY_EMISSION = Mechanism(

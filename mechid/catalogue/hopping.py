@@ -466,6 +466,7 @@ NEAREST_NEIGHBOUR_HOPPING = Mechanism(
             name="hopping_distance_nm", unit="nm", symbol="a",
             description="distance between hopping sites",
             lower=0.1, upper=20.0, typical=1.0,
+            sample_in_log=True,  # the field enters as a/d: a straight ridge in log coordinates
         ),
         Parameter(
             name="prefactor_A_per_cm2", unit="A/cm^2", symbol="J0",
@@ -475,6 +476,7 @@ NEAREST_NEIGHBOUR_HOPPING = Mechanism(
         Parameter(
             name="thickness_nm", unit="nm", symbol="d", description="film thickness (E = V/d)",
             lower=1.0, upper=1000.0, typical=50.0, device_prior="thickness_nm",
+            sample_in_log=True,
         ),
     ),
     magnitude=_nearest_neighbour_current,

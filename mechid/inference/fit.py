@@ -13,14 +13,16 @@ from mechid.catalogue.base import Mechanism
 from mechid.device import Device
 from mechid.errors import ConvergenceWarning
 from mechid.inference.adequacy import AdequacyCheck, check_adequacy
-from mechid.inference.evidence import EvidenceResult, estimate_evidence
+from mechid.inference.evidence import FAR_BELOW_MARGIN, EvidenceResult, estimate_evidence
 from mechid.inference.likelihood import MechanismTarget
-from mechid.inference.priors import mechanism_priors
+from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, mechanism_priors
 from mechid.inference.reference import ReferencePathTarget, pilot_reference
 from mechid.inference.start import find_modes
 from mechid.inference.tempering import LadderRun, LadderSettings
 from mechid.results import MechanismResult, ParameterSummary, summarise_draws
 
+#: The nuisance parameters of the noise model (not physics).
+NOISE_PARAMETERS = (NOISE_RELATIVE, NOISE_FLOOR)
 #: Correlations with |r| at least this large are listed in the results.
 NOTABLE_CORRELATION = 0.5
 
@@ -59,6 +61,7 @@ def fit_mechanism(
     progress: Callable[[int, int], None] | None = None,
     pilot_steps: int = 400,
     n_polish: int = 2,
+    leader_log_evidence: float | None = None,
 ) -> MechanismFit:
     """Fit one mechanism jointly to all points and estimate its evidence.
 
@@ -88,6 +91,9 @@ def fit_mechanism(
     n_polish : int
         Number of diverse screened candidates polished by the mode search; every distinct
         mode found gets its own component in the reference distribution.
+    leader_log_evidence : float, optional
+        Best log-evidence of the mechanisms fitted so far: a mechanism far below it is not
+        refined beyond the first production block (flag ``far_below``).
     """
     priors = mechanism_priors(mechanism, device, current_A)
     target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
@@ -100,9 +106,17 @@ def fit_mechanism(
         warnings.simplefilter("always", ConvergenceWarning)
         # Every rung starts from exact reference draws: they already spread along the
         # posterior's ridges, which a ball around the pilot's last positions does not.
-        run, evidence = estimate_evidence(path, settings, rng, start=None, progress=progress)
+        floor = None if leader_log_evidence is None else leader_log_evidence - FAR_BELOW_MARGIN
+        run, evidence = estimate_evidence(path, settings, rng, start=None, progress=progress,
+                                          not_worth_below=floor)
     for warning in caught:  # say which mechanism a sampler warning is about
         warnings.warn(f"{mechanism.id}: {warning.message}", warning.category, stacklevel=2)
+    # The reference's mass inside the prior box was itself estimated by Monte Carlo.
+    evidence.log_evidence_err = float(np.hypot(evidence.log_evidence_err, pilot.reference.mass_err))
+    physical_edge = [name for name in evidence.boundary_parameters if name not in NOISE_PARAMETERS]
+    if "map_on_boundary" in evidence.flags and not physical_edge:
+        # A noise floor pressed against its lower limit only says the data are clean.
+        evidence.flags.remove("map_on_boundary")
     if len(modes) > 1:
         evidence.flags.append("multimodal_suspected")
     evidence.n_likelihood_calls += pilot.n_likelihood_calls

@@ -42,10 +42,17 @@ ProgressCallback = Callable[[int, int], None]
 
 #: Attempts at redrawing a start position whose log-posterior is -inf before giving up.
 _MAX_START_REDRAWS = 50
+#: Smallest pool of prior draws resampled for the rung starts.
+_START_POOL = 1024
 #: Relative step sizes (in prior standard deviations) scanned for the start-ball widths.
 _SCAN_STEPS = np.logspace(-8.0, 0.0, 17)
 #: Drop of the log posterior (nats) taken as "one standard deviation away" in the scan.
 _SCAN_DROP = 2.0
+
+
+def start_pool_size(n_rungs: int, n_walkers: int) -> int:
+    """Prior draws resampled for the rung starts (see ``TemperedLadder._resampled_start``)."""
+    return max(_START_POOL, 4 * n_rungs * n_walkers)
 
 
 # --------------------------------------------------------------------------------------
@@ -422,17 +429,19 @@ class TemperedLadder:
 
     def _initialise(self, start: NDArray | None) -> None:
         n_rungs, n_walkers, ndim = len(self.betas), self.n_walkers, self.target.ndim
-        prior_draws = self.target.sample_prior(self.rng, n_rungs * n_walkers)
-        positions = prior_draws.reshape(n_rungs, n_walkers, ndim).copy()
-        prior_sd = np.std(prior_draws, axis=0)
-        prior_sd = np.where(prior_sd > 0, prior_sd, 1.0)
-        if start is not None:
+        if start is None:
+            positions, log_prior, log_like = self._resampled_start()
+        else:
+            prior_draws = self.target.sample_prior(self.rng, n_rungs * n_walkers)
+            positions = prior_draws.reshape(n_rungs, n_walkers, ndim).copy()
+            prior_sd = np.std(prior_draws, axis=0)
+            prior_sd = np.where(prior_sd > 0, prior_sd, 1.0)
             centres = np.atleast_2d(np.asarray(start, dtype=float))
             if centres.shape[1] != ndim:
                 raise ValueError(f"start must have {ndim} columns, got shape {centres.shape}")
             scales = self._start_scales(centres, prior_sd)
             positions[1:] = self._start_balls(centres, scales, prior_sd)
-        log_prior, log_like = self._evaluate(positions)
+            log_prior, log_like = self._evaluate(positions)
         for _ in range(_MAX_START_REDRAWS):
             bad = ~(np.isfinite(log_prior) & np.isfinite(log_like))
             bad[0] = ~np.isfinite(log_prior[0])  # the prior rung accepts log L = -inf
@@ -442,6 +451,32 @@ class TemperedLadder:
             positions[bad] = fresh
             log_prior[bad], log_like[bad] = self._evaluate(fresh)
         self.positions, self.log_prior, self.log_like = positions, log_prior, log_like
+
+    def _resampled_start(self) -> tuple[FloatArray, FloatArray, FloatArray]:
+        """Start every rung from prior draws resampled with weights ``L^beta``.
+
+        Sampling-importance-resampling (Rubin 1988, Bayesian Statistics 3:395): a pool of
+        prior draws, weighted by ``L^beta_k`` and resampled with replacement, is approximately
+        distributed as rung ``k`` (without replacement the picks crowd into the peak: measured
+        under-coverage after short burn-ins; repeated walkers separate within a few steps). When the prior is close to the posterior (the
+        reference path of :mod:`mechid.inference.reference`) the cold rungs then start near
+        equilibrium instead of contracting slowly from the wider prior during the production
+        (measured: a drift of 1-3 nats in mean log L over 600 steps at beta = 1).
+        """
+        n_rungs, n_walkers, ndim = len(self.betas), self.n_walkers, self.target.ndim
+        pool = self.target.sample_prior(self.rng, start_pool_size(n_rungs, n_walkers))
+        pool_prior, pool_like = self._evaluate(pool)
+        usable = np.nonzero(np.isfinite(pool_prior) & np.isfinite(pool_like))[0]
+        picks = np.empty((n_rungs, n_walkers), dtype=int)
+        picks[0] = np.arange(n_walkers)
+        for k in range(1, n_rungs):
+            if len(usable) < n_walkers:  # nothing to weigh: plain prior draws (redrawn later)
+                picks[k] = self.rng.choice(len(pool), size=n_walkers, replace=False)
+                continue
+            log_weight = self.betas[k] * pool_like[usable]
+            weight = np.exp(log_weight - log_weight.max()) + 1e-300
+            picks[k] = self.rng.choice(usable, size=n_walkers, replace=True, p=weight / weight.sum())
+        return pool[picks], pool_prior[picks], pool_like[picks]
 
     def _start_scales(self, centres: FloatArray, prior_sd: FloatArray) -> FloatArray:
         """Per-parameter width of the posterior near ``centres[0]`` from a one-call scan.
