@@ -783,8 +783,10 @@ def summarise_ladder(
     log_q = run.cold_log_prior + run.cold_log_likelihood
 
     bridge = _bridge_from_run(target, run, tau, log_q, rng)
+    # No Nelder-Mead polish: the value is for screening and the boundary flag only, and the
+    # best of thousands of posterior draws is within about a nat of the MAP.
     laplace = laplace_metropolis(target, run.cold_chain.reshape(-1, run.cold_chain.shape[2]),
-                                 log_q.reshape(-1))
+                                 log_q.reshape(-1), polish=False)
     calls = run.n_likelihood_evaluations + laplace.n_evaluations
     calls += bridge.n_evaluations if bridge is not None else 0
 

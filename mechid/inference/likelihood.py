@@ -78,6 +78,7 @@ class MechanismTarget:
         self._sign = np.sign(self.voltage_V)
         self._prior_lo = np.array([p.internal_bounds()[0] for p in self.free])
         self._prior_hi = np.array([p.internal_bounds()[1] for p in self.free])
+        self._vector_prior = _VectorPrior.from_priors(self.free)
 
     @property
     def ndim(self) -> int:
@@ -127,12 +128,12 @@ class MechanismTarget:
         return np.sqrt((values[NOISE_RELATIVE] * model) ** 2 + values[NOISE_FLOOR] ** 2)
 
     def log_prior(self, theta: NDArray) -> NDArray:
-        """Normalised log prior of internal vectors ``(m, ndim)`` -> ``(m,)``."""
-        theta = np.atleast_2d(theta)
-        total = np.zeros(theta.shape[0])
-        for column, prior in enumerate(self.free):
-            total = total + prior.log_density(theta[:, column])
-        return total
+        """Normalised log prior of internal vectors ``(m, ndim)`` -> ``(m,)``.
+
+        The sum of :meth:`mechid.inference.priors.Prior.log_density` over the free
+        parameters, evaluated for all of them at once (a test checks the two agree).
+        """
+        return self._vector_prior.log_density(np.atleast_2d(theta))
 
     def log_likelihood(self, theta: NDArray) -> NDArray:
         """Gaussian log likelihood of the series, ``(m, ndim)`` -> ``(m,)``; -inf where invalid.
@@ -182,3 +183,59 @@ class MechanismTarget:
         theta = np.atleast_2d(theta)[:1]
         model = self.model_current(theta)
         return ((self.current_A - model) / self.noise_sd(theta, model))[0]
+
+
+@dataclass(frozen=True)
+class _VectorPrior:
+    """The product of independent priors, as arrays (one column per free parameter).
+
+    Every kind's log density is ``constant + normal term + Jacobian term`` in the internal
+    coordinate; see :meth:`mechid.inference.priors.Prior.log_density` for each term.
+    """
+
+    lower: NDArray
+    upper: NDArray
+    constant: NDArray
+    in_log10: NDArray
+    normal: NDArray
+    mean: NDArray
+    sd: NDArray
+    jacobian: NDArray
+
+    @classmethod
+    def from_priors(cls, priors: tuple[Prior, ...]) -> _VectorPrior:
+        constant, normal, mean, sd = [], [], [], []
+        for prior in priors:
+            lo, hi = prior.internal_bounds()
+            if prior.kind == "log_uniform":
+                constant.append(-np.log(hi - lo))
+            elif prior.kind == "uniform":
+                constant.append(-np.log(prior.upper - prior.lower))
+            elif prior.kind == "truncated_normal":
+                constant.append(-np.log(prior.sd * np.sqrt(2 * np.pi)) - prior.log_normal_mass)
+            else:
+                raise ValueError(f"{prior.name}: a fixed parameter has no density")
+            normal.append(prior.kind == "truncated_normal")
+            mean.append(prior.mean if prior.kind == "truncated_normal" else 0.0)
+            sd.append(prior.sd if prior.kind == "truncated_normal" else 1.0)
+        return cls(
+            lower=np.array([p.internal_bounds()[0] for p in priors]),
+            upper=np.array([p.internal_bounds()[1] for p in priors]),
+            constant=np.array(constant),
+            in_log10=np.array([p.log_scale for p in priors]),
+            normal=np.array(normal),
+            mean=np.array(mean, dtype=float),
+            sd=np.array(sd, dtype=float),
+            jacobian=np.array([p.log_coordinate and p.kind != "log_uniform" for p in priors]),
+        )
+
+    def log_density(self, theta: NDArray) -> NDArray:
+        """``(m, d) -> (m,)``, -inf outside the support."""
+        inside = np.all((theta >= self.lower) & (theta <= self.upper), axis=1)
+        with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
+            value = np.where(self.in_log10, 10.0**theta, theta)
+            z = np.where(self.normal, (value - self.mean) / self.sd, 0.0)
+            terms = self.constant - 0.5 * z**2
+            terms = terms + np.where(self.jacobian, np.log(np.abs(value) * np.log(10.0)), 0.0)
+            total = np.sum(terms, axis=1)
+        return np.where(inside, total, -np.inf)

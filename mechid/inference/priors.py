@@ -107,7 +107,7 @@ class Prior:
         elif self.kind == "truncated_normal":
             assert self.mean is not None and self.sd is not None
             z = (value - self.mean) / self.sd
-            dens = -0.5 * z**2 - np.log(self.sd * np.sqrt(2 * np.pi)) - self._log_normal_mass
+            dens = -0.5 * z**2 - np.log(self.sd * np.sqrt(2 * np.pi)) - self.log_normal_mass
         else:
             raise ValueError("a fixed parameter has no density")
         if self.log_coordinate and self.kind != "log_uniform":
@@ -116,7 +116,7 @@ class Prior:
         return np.where(inside, dens, -np.inf)
 
     @functools.cached_property
-    def _log_normal_mass(self) -> float:
+    def log_normal_mass(self) -> float:
         """log of the Gaussian mass inside the support (truncated_normal only)."""
         return _log_normal_mass((self.lower - self.mean) / self.sd,
                                 (self.upper - self.mean) / self.sd)
