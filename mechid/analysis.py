@@ -49,6 +49,9 @@ FULL_LADDER = {"n_temperatures": 8, "beta_power": 2.0, "n_burn": 150, "n_product
                "max_production": 600}
 QUICK_LADDER = {"n_temperatures": 6, "beta_power": 2.0, "n_burn": 80, "n_production": 150,
                 "max_production": 150, "n_walkers": 24}
+#: Mode search and pilot run (see mechid.inference.fit.fit_mechanism) of a full and a quick run.
+FULL_SEARCH = {"pilot_steps": 400, "pilot_max_steps": 2000, "n_polish": 4}
+QUICK_SEARCH = {"pilot_steps": 200, "pilot_max_steps": 400, "n_polish": 2}
 
 
 @dataclass(frozen=True)
@@ -81,6 +84,10 @@ class AnalysisSettings:
         base = dict(QUICK_LADDER if self.quick else FULL_LADDER)
         base.update(self.ladder_overrides)
         return LadderSettings(**base)
+
+    def search(self) -> dict[str, int]:
+        """Keyword arguments of the mode search and pilot run these choices imply."""
+        return dict(QUICK_SEARCH if self.quick else FULL_SEARCH)
 
 
 @dataclass
@@ -162,8 +169,7 @@ def run_analysis_full(
                 mechanism, series.voltage_V[mask], series.temperature_K[mask],
                 series.current_A[mask], device, settings.ladder(), child,
                 hints=hints.get(mechanism.id), progress=hook,
-                pilot_steps=200 if settings.quick else 400, n_polish=2 if settings.quick else 4,
-                leader_log_evidence=leader,
+                leader_log_evidence=leader, **settings.search(),
             )
             found = fits[mechanism.id].evidence.log_evidence
             leader = found if leader is None else max(leader, found)

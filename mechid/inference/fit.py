@@ -60,6 +60,7 @@ def fit_mechanism(
     hints: Mapping[str, float] | None = None,
     progress: Callable[[int, int], None] | None = None,
     pilot_steps: int = 400,
+    pilot_max_steps: int = 2000,
     n_polish: int = 2,
     leader_log_evidence: float | None = None,
 ) -> MechanismFit:
@@ -88,6 +89,8 @@ def fit_mechanism(
         ``progress(done, total)`` during sampling.
     pilot_steps : int
         First block of the emcee pilot run (it is extended while still climbing).
+    pilot_max_steps : int
+        Cap on the pilot run's length.
     n_polish : int
         Number of diverse screened candidates polished by the mode search; every distinct
         mode found gets its own component in the reference distribution.
@@ -100,7 +103,8 @@ def fit_mechanism(
     modes = find_modes(target, rng, hints, n_polish=n_polish)
     start = modes[0].point
     pilot = pilot_reference(target, [m.point for m in modes], *target.bounds,
-                            rng, n_steps=pilot_steps, log_posteriors=[m.log_posterior for m in modes])
+                            rng, n_steps=pilot_steps, max_steps=pilot_max_steps,
+                            log_posteriors=[m.log_posterior for m in modes])
     path = ReferencePathTarget(target, pilot.reference)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ConvergenceWarning)
