@@ -22,7 +22,8 @@ from mechid.errors import MechidError
 from mechid.formatting import format_estimate
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.evidence import FAR_BELOW_MARGIN
-from mechid.inference.fit import MechanismFit, fit_mechanism
+from mechid.inference.fit import MechanismFit
+from mechid.inference.rounds import FitJob, default_workers, fit_in_rounds
 from mechid.inference.tempering import LadderSettings
 from mechid.linearise import LinearisationResult, linearise
 from mechid.results import AnalysisResult, MechanismResult, Verdict
@@ -70,6 +71,9 @@ class AnalysisSettings:
         Which bias points enter the fit (both: joint fit of a symmetric device).
     prior_odds : dict, optional
         Relative prior weight per mechanism id (equal when omitted).
+    workers : int
+        Worker processes fitting mechanisms side by side (0: one per core, at most two).
+        The numbers do not depend on it.
     """
 
     mechanisms: tuple[str, ...] | None = None
@@ -77,6 +81,7 @@ class AnalysisSettings:
     screen_only: bool = False
     polarity: Polarity = "both"
     prior_odds: dict[str, float] | None = None
+    workers: int = 0
     ladder_overrides: dict[str, Any] = field(default_factory=dict)
 
     def ladder(self) -> LadderSettings:
@@ -151,28 +156,18 @@ def run_analysis_full(
         master = np.random.default_rng(seed)
         children = master.spawn(len(mechanisms))
         hints = _linearisation_hints(lin)
-        leader: float | None = None
         # Most promising first (screening rank), so that mechanisms far below the leader are
         # not refined; each keeps its own random stream whatever the order.
         screening = {mid: rank for rank, mid in enumerate(lin.ranking)}
-        order = sorted(zip(mechanisms, children, strict=True),
-                       key=lambda pair: screening.get(pair[0].id, len(screening)))
-        for mechanism, child in order:
-            hook = None
-            if progress is not None:
-                label = f"fitting {mechanism.id}"
-
-                def hook(done: int, total: int, _label: str = label) -> None:
-                    progress(_label, done, total)
-
-            fits[mechanism.id] = fit_mechanism(
-                mechanism, series.voltage_V[mask], series.temperature_K[mask],
-                series.current_A[mask], device, settings.ladder(), child,
-                hints=hints.get(mechanism.id), progress=hook,
-                leader_log_evidence=leader, **settings.search(),
-            )
-            found = fits[mechanism.id].evidence.log_evidence
-            leader = found if leader is None else max(leader, found)
+        jobs = sorted((FitJob(m.id, child, hints.get(m.id))
+                       for m, child in zip(mechanisms, children, strict=True)),
+                      key=lambda job: screening.get(job.mechanism_id, len(screening)))
+        fitted = fit_in_rounds(
+            jobs, series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
+            device, settings.ladder(), settings.search(),
+            workers=settings.workers or default_workers(), progress=progress,
+        )
+        fits = {m.id: fitted[m.id] for m in mechanisms}
     results = _ranked_results(fits, settings)
     verdict = _verdict(results) if results else None
     result = AnalysisResult(

@@ -279,6 +279,9 @@ def analyze_command(
     prior_odds: Annotated[list[str], typer.Option(
         "--prior-odds", help="ID=WEIGHT relative prior weight of a mechanism (repeatable; "
                              "default: equal odds).")] = [],  # noqa: B006
+    workers: Annotated[int, typer.Option(
+        "--workers", min=0, help="Processes fitting mechanisms side by side (0: one per core, at "
+                                 "most 2). Results do not depend on it.")] = 0,
     seed: SeedOpt = 0,
 ) -> None:
     """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""
@@ -303,7 +306,7 @@ def analyze_command(
             get_mechanism(mechanism_id)
         settings = AnalysisSettings(
             mechanisms=tuple(only) or None, quick=quick, screen_only=screen_only,
-            polarity=polarity, prior_odds=parse_prior_odds(prior_odds) or None,
+            polarity=polarity, prior_odds=parse_prior_odds(prior_odds) or None, workers=workers,
         )
         with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
                       TimeElapsedColumn(), console=err, transient=False,

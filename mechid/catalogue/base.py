@@ -167,6 +167,14 @@ class Mechanism:
         """Parameter names in declaration order (the order of sampled vectors)."""
         return tuple(p.name for p in self.parameters)
 
+    def __reduce_ex__(self, protocol: Any) -> Any:
+        """Pickle a catalogued mechanism as its id (its formula may be a closure)."""
+        from mechid.catalogue import MECHANISMS  # the registry imports this module
+
+        if any(m is self for m in MECHANISMS):
+            return (_catalogued_mechanism, (self.id,))
+        return super().__reduce_ex__(protocol)
+
     def parameter(self, name: str) -> Parameter:
         """Return the declared :class:`Parameter` called ``name``."""
         for p in self.parameters:
@@ -218,3 +226,10 @@ class Mechanism:
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             mag = self.magnitude(np.where(v_abs > 0, v_abs, np.nan), t, device, **values)
         return np.where(v_abs > 0, np.sign(v) * mag, 0.0)
+
+
+def _catalogued_mechanism(mechanism_id: str) -> Mechanism:
+    """The registered mechanism of that id (unpickling helper)."""
+    from mechid.catalogue import get_mechanism
+
+    return get_mechanism(mechanism_id)

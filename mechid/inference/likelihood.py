@@ -30,14 +30,20 @@ from mechid.device import Device
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, Prior
 
 _LOG_2PI = float(np.log(2 * np.pi))
-_WORKERS = max(1, min(4, os.cpu_count() or 1))
+_MAX_THREADS = max(1, min(4, os.cpu_count() or 1))
+_THREADS = {"count": _MAX_THREADS}
 #: Below about this many walker-points per chunk, thread overhead outweighs the gain.
 _POINTS_PER_CHUNK = 20_000
 
 
+def set_likelihood_threads(count: int) -> None:
+    """Threads used to evaluate large likelihood batches (1 in worker processes)."""
+    _THREADS["count"] = max(1, min(_MAX_THREADS, int(count)))
+
+
 @functools.cache
 def _pool() -> ThreadPoolExecutor:
-    return ThreadPoolExecutor(max_workers=_WORKERS, thread_name_prefix="mechid-likelihood")
+    return ThreadPoolExecutor(max_workers=_MAX_THREADS, thread_name_prefix="mechid-likelihood")
 
 
 @dataclass
@@ -147,7 +153,7 @@ class MechanismTarget:
         if not inside.any():
             return result
         ok = theta[inside]
-        n_chunks = min(_WORKERS, max(1, ok.shape[0] * self.n_points // _POINTS_PER_CHUNK))
+        n_chunks = min(_THREADS["count"], max(1, ok.shape[0] * self.n_points // _POINTS_PER_CHUNK))
         if n_chunks > 1:
             parts = list(_pool().map(self._log_likelihood_block, np.array_split(ok, n_chunks)))
             loglike = np.concatenate(parts)

@@ -1,0 +1,224 @@
+"""Fit several mechanisms in rounds, on worker processes when there are cores to spare.
+
+Each mechanism's fit is independent (its own random stream, its own data copy), so two fits
+can run at once on a two-core laptop: the samplers' Python-level work (mode search, emcee
+pilot, ladder bookkeeping) runs on one core per fit instead of one core for all.
+
+Determinism does not depend on the number of workers or on scheduling: mechanisms are taken
+in the given order in rounds of :data:`ROUND_SIZE`, and the "far below the leader" threshold
+of a round (see :func:`mechid.inference.fit.fit_mechanism`) uses only the evidences of earlier
+rounds. One worker runs the same rounds in this process.
+
+Workers are forked where the platform allows it (spawned elsewhere) and use one likelihood
+thread each. Progress reports travel back through a queue; warnings raised in a worker are
+re-issued here. A ladder without extensions (``max_production == n_production``, e.g. the
+quick settings) makes no far-below decisions, so all its fits form one round.
+"""
+
+from __future__ import annotations
+
+import multiprocessing
+import os
+import queue as queue_module
+import warnings
+from collections.abc import Callable, Mapping, Sequence
+from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+from numpy.typing import NDArray
+
+from mechid.catalogue import get_mechanism
+from mechid.device import Device
+from mechid.inference.fit import MechanismFit, fit_mechanism
+from mechid.inference.likelihood import set_likelihood_threads
+from mechid.inference.tempering import LadderSettings
+
+#: Mechanisms fitted per round (the far-below threshold is updated between rounds).
+ROUND_SIZE = 2
+
+ProgressHook = Callable[[str, int, int], None]
+
+
+@dataclass(frozen=True)
+class FitJob:
+    """One mechanism to fit: its id, its own random stream and its linearisation hints."""
+
+    mechanism_id: str
+    rng: np.random.Generator
+    hints: Mapping[str, float] | None = None
+
+
+@dataclass(frozen=True)
+class _SharedInputs:
+    """What every fit of one analysis shares (sent once to each worker)."""
+
+    voltage_V: NDArray
+    temperature_K: NDArray
+    current_A: NDArray
+    device: Device
+    ladder: LadderSettings
+    search: dict[str, int]
+
+
+def default_workers() -> int:
+    """Worker processes used by default: one per core, at most :data:`ROUND_SIZE`."""
+    return max(1, min(ROUND_SIZE, os.cpu_count() or 1))
+
+
+def fit_in_rounds(
+    jobs: Sequence[FitJob],
+    voltage_V: NDArray,
+    temperature_K: NDArray,
+    current_A: NDArray,
+    device: Device,
+    ladder: LadderSettings,
+    search: Mapping[str, int],
+    workers: int = 1,
+    progress: ProgressHook | None = None,
+) -> dict[str, MechanismFit]:
+    """Fit every job, ``ROUND_SIZE`` at a time, and return the fits keyed by mechanism id.
+
+    Parameters
+    ----------
+    jobs : sequence of FitJob
+        In the order to fit them (most promising first saves time).
+    voltage_V, temperature_K, current_A : ndarray
+        The points entering the fit.
+    device : Device
+        Device description.
+    ladder : LadderSettings
+        Tempered-ladder settings.
+    search : mapping
+        Mode-search and pilot keyword arguments of :func:`fit_mechanism`.
+    workers : int
+        Worker processes; 1 fits in this process. The numbers do not depend on it.
+    progress : callable, optional
+        ``progress(label, done, total)`` while sampling.
+    """
+    shared = _SharedInputs(np.asarray(voltage_V, float), np.asarray(temperature_K, float),
+                           np.asarray(current_A, float), device, ladder, dict(search))
+    if ladder.max_production > ladder.n_production:
+        rounds = [list(jobs[i: i + ROUND_SIZE]) for i in range(0, len(jobs), ROUND_SIZE)]
+    else:  # no extensions, so no far-below decisions: one round, no waiting between fits
+        rounds = [list(jobs)]
+    if workers <= 1 or len(jobs) <= 1:
+        return _fit_here(rounds, shared, progress)
+    return _fit_on_workers(rounds, shared, min(workers, ROUND_SIZE), progress)
+
+
+def _fit_here(rounds: list[list[FitJob]], shared: _SharedInputs,
+              progress: ProgressHook | None) -> dict[str, MechanismFit]:
+    fits: dict[str, MechanismFit] = {}
+    leader: float | None = None
+    for batch in rounds:
+        for job in batch:
+            hook = None if progress is None else _labelled(progress, job.mechanism_id)
+            fits[job.mechanism_id] = _fit(job, shared, leader, hook)
+        leader = _best(leader, (fits[job.mechanism_id] for job in batch))
+    return fits
+
+
+def _fit_on_workers(rounds: list[list[FitJob]], shared: _SharedInputs, workers: int,
+                    progress: ProgressHook | None) -> dict[str, MechanismFit]:
+    context = multiprocessing.get_context(_start_method())
+    messages = context.Queue()
+    fits: dict[str, MechanismFit] = {}
+    leader: float | None = None
+    with ProcessPoolExecutor(max_workers=workers, mp_context=context,
+                             initializer=_start_worker, initargs=(shared, messages)) as pool:
+        for batch in rounds:
+            futures: dict[Future, FitJob] = {
+                pool.submit(_fit_in_worker, job, leader): job for job in batch
+            }
+            pending = set(futures)
+            while pending:
+                _, pending = wait(pending, timeout=0.1, return_when=FIRST_COMPLETED)
+                _relay(messages, progress)
+            _relay(messages, progress)
+            for future, job in futures.items():
+                fit, caught = future.result()
+                for message, category in caught:
+                    warnings.warn(message, category, stacklevel=3)
+                fits[job.mechanism_id] = fit
+            leader = _best(leader, (fits[job.mechanism_id] for job in batch))
+    return fits
+
+
+def _start_method() -> str:
+    """``fork`` where the platform offers it (no re-import: ~3 s saved per run), else ``spawn``.
+
+    A forked worker inherits the parent's likelihood thread pool without its threads; the
+    worker never uses it (one likelihood thread, see :func:`_start_worker`).
+    """
+    return "fork" if "fork" in multiprocessing.get_all_start_methods() and os.name == "posix" \
+        and not _is_macos() else "spawn"
+
+
+def _is_macos() -> bool:
+    return os.uname().sysname == "Darwin"
+
+
+def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
+         hook: Callable[[int, int], None] | None) -> MechanismFit:
+    return fit_mechanism(
+        get_mechanism(job.mechanism_id), shared.voltage_V, shared.temperature_K, shared.current_A,
+        shared.device, shared.ladder, job.rng, hints=job.hints, progress=hook,
+        leader_log_evidence=leader, **shared.search,
+    )
+
+
+def _best(leader: float | None, fits: Any) -> float | None:
+    values = [fit.evidence.log_evidence for fit in fits]
+    values = [v for v in values if np.isfinite(v)]
+    if leader is not None:
+        values.append(leader)
+    return max(values) if values else None
+
+
+def _labelled(progress: ProgressHook, mechanism_id: str) -> Callable[[int, int], None]:
+    label = f"fitting {mechanism_id}"
+
+    def hook(done: int, total: int) -> None:
+        progress(label, done, total)
+
+    return hook
+
+
+def _relay(messages: Any, progress: ProgressHook | None) -> None:
+    """Pass the workers' progress reports on (the latest per label is enough)."""
+    latest: dict[str, tuple[int, int]] = {}
+    while True:
+        try:
+            label, done, total = messages.get_nowait()
+        except queue_module.Empty:
+            break
+        latest[label] = (done, total)
+    if progress is not None:
+        for label, (done, total) in latest.items():
+            progress(label, done, total)
+
+
+# -- inside a worker process -----------------------------------------------------------
+
+_WORKER: dict[str, Any] = {}
+
+
+def _start_worker(shared: _SharedInputs, messages: Any) -> None:
+    set_likelihood_threads(1)
+    _WORKER["shared"] = shared
+    _WORKER["messages"] = messages
+
+
+def _fit_in_worker(job: FitJob, leader: float | None) -> tuple[MechanismFit, list[tuple[str, type]]]:
+    messages = _WORKER["messages"]
+    label = f"fitting {job.mechanism_id}"
+
+    def hook(done: int, total: int) -> None:
+        messages.put((label, done, total))
+
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        fit = _fit(job, _WORKER["shared"], leader, hook)
+    return fit, [(str(w.message), w.category) for w in caught]

@@ -1,0 +1,68 @@
+"""Fitting mechanisms in rounds, in this process or on worker processes, gives the same numbers."""
+
+import pickle
+import warnings
+
+import numpy as np
+import pytest
+
+from mechid.catalogue import MECHANISMS, get_mechanism
+from mechid.catalogue.base import Mechanism
+from mechid.device import device_from_values
+from mechid.inference.rounds import FitJob, fit_in_rounds
+from mechid.inference.tempering import LadderSettings
+from mechid.simulate import simulate_series
+
+TINY_LADDER = LadderSettings(n_temperatures=4, beta_power=2.0, n_walkers=16, n_burn=20,
+                             n_production=40, max_production=40)
+TINY_SEARCH = {"pilot_steps": 40, "pilot_max_steps": 40, "n_polish": 1}
+
+
+def test_catalogued_mechanisms_pickle_as_their_registry_entry():
+    for mechanism in MECHANISMS:
+        assert pickle.loads(pickle.dumps(mechanism)) is mechanism
+
+
+def test_an_uncatalogued_mechanism_still_pickles_by_value():
+    base = get_mechanism("mott_vrh")
+    custom = Mechanism(id="custom", family=base.family, name="custom", formula="", source="",
+                       parameters=base.parameters, magnitude=np.multiply, needs_area=False)
+    assert pickle.loads(pickle.dumps(custom)) == custom
+
+
+@pytest.fixture(scope="module")
+def small_series():
+    device = device_from_values(thickness_nm=30.0, thickness_sd_nm=1.0, area_cm2=1e-4,
+                                optical_dielectric_constant=4.0, optical_dielectric_constant_sd=0.4)
+    sim = simulate_series(get_mechanism("poole_frenkel"),
+                          {"trap_depth_eV": 1.2, "dielectric_constant": 4.2,
+                           "prefactor_S_per_cm": 1.0, "thickness_nm": 30.0},
+                          [300.0, 375.0, 450.0], np.geomspace(3.0, 12.0, 12), device,
+                          noise_relative=0.02, noise_floor_A=1e-14, rng=np.random.default_rng(1))
+    return sim, device
+
+
+def _jobs(seed: int) -> list[FitJob]:
+    ids = ["poole_frenkel", "schottky_emission", "mott_vrh"]
+    return [FitJob(i, rng) for i, rng in zip(ids, np.random.default_rng(seed).spawn(3), strict=True)]
+
+
+def test_worker_processes_give_the_numbers_of_the_in_process_rounds(small_series):
+    sim, device = small_series
+    results = {}
+    labels: dict[int, set[str]] = {}
+    for workers in (1, 2):
+        seen: set[str] = set()
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")  # short chains: convergence warnings expected
+            fits = fit_in_rounds(_jobs(7), sim.voltage_V, sim.temperature_K, sim.current_A, device,
+                                 TINY_LADDER, TINY_SEARCH, workers=workers,
+                                 progress=lambda label, done, total, seen=seen: seen.add(label))
+        results[workers] = {k: (f.evidence.log_evidence, f.evidence.log_evidence_err,
+                                f.draws_internal.sum()) for k, f in fits.items()}
+        labels[workers] = seen
+    assert results[1] == results[2]
+    assert set(results[1]) == {"poole_frenkel", "schottky_emission", "mott_vrh"}
+    expected = {f"fitting {i}" for i in results[1]}
+    assert labels[1] == expected and labels[2] == expected
+
