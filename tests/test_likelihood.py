@@ -24,3 +24,33 @@ def test_vectorised_log_prior_equals_the_sum_of_the_per_parameter_densities():
         theta[:5] += 100.0  # outside
         expected = sum(p.log_density(theta[:, j]) for j, p in enumerate(target.free))
         np.testing.assert_allclose(target.log_prior(theta), expected, rtol=1e-12, atol=1e-12)
+
+
+def test_pair_statistics_likelihood_equals_the_point_by_point_gaussian_sum():
+    # Both polarities, repeated points, a zero-bias point and a temperature with one polarity:
+    # the sufficient-statistics form must equal sum_i log N(I_i | model_i, sigma_i^2).
+    device = device_from_values(thickness_nm=30.0, thickness_sd_nm=1.0, area_cm2=1e-4,
+                                optical_dielectric_constant=4.0, optical_dielectric_constant_sd=0.4)
+    rng = np.random.default_rng(2)
+    mags = np.geomspace(2.0, 10.0, 15)
+    voltage = np.r_[-mags, mags, mags[:5], 0.0, mags]
+    temperature = np.r_[np.full(30, 350.0), np.full(5, 350.0), 350.0, np.full(15, 400.0)]
+    for mechanism in MECHANISMS:
+        priors = mechanism_priors(mechanism, device, np.geomspace(1e-12, 1e-6, voltage.size))
+        truth = mechanism.typical_parameters()
+        current = mechanism.current(np.abs(voltage), temperature,
+                                    {k: np.array([[v]]) for k, v in truth.items()}, device)[0]
+        current = np.sign(voltage) * current * (1 + 0.05 * rng.standard_normal(voltage.size))
+        current = current + 1e-13 * rng.standard_normal(voltage.size)
+        target = MechanismTarget(mechanism, voltage, temperature, current, device, priors)
+        theta = target.sample_prior(rng, 20)
+        model = target.model_current(theta)
+        sd = target.noise_sd(theta, model)
+        with np.errstate(all="ignore"):
+            direct = np.sum(-0.5 * ((current - model) / sd) ** 2 - np.log(sd)
+                            - 0.5 * np.log(2 * np.pi), axis=1)
+        direct = np.where(np.isfinite(direct), direct, -np.inf)
+        fast = target.log_likelihood(theta)
+        finite = np.isfinite(direct)
+        np.testing.assert_array_equal(np.isfinite(fast), finite)
+        np.testing.assert_allclose(fast[finite], direct[finite], rtol=1e-9, atol=1e-6)
