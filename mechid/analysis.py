@@ -48,8 +48,8 @@ Polarity = Literal["both", "positive", "negative"]
 #: Ladder settings of a full and of a quick run (see benchmarks/ for the evidence errors).
 FULL_LADDER = {"n_temperatures": 8, "beta_power": 2.0, "n_burn": 150, "n_production": 300,
                "max_production": 600}
-QUICK_LADDER = {"n_temperatures": 6, "beta_power": 2.0, "n_burn": 80, "n_production": 150,
-                "max_production": 150, "n_walkers": 24}
+QUICK_LADDER = {"n_temperatures": 5, "beta_power": 2.0, "n_burn": 60, "n_production": 120,
+                "max_production": 120, "n_walkers": 20}
 #: Mode search and pilot run (see mechid.inference.fit.fit_mechanism) of a full and a quick run.
 FULL_SEARCH = {"pilot_steps": 400, "pilot_max_steps": 2000, "n_polish": 4}
 QUICK_SEARCH = {"pilot_steps": 200, "pilot_max_steps": 400, "n_polish": 2}
