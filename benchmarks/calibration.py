@@ -288,8 +288,13 @@ def run_once(
     ladder: LadderSettings,
     rng: np.random.Generator,
     region: TruthRegion = TruthRegion(),
+    search: Mapping[str, int] | None = None,
 ) -> tuple[RunRecord, MechanismFit | None]:
-    """Draw a truth, simulate, fit and score one run; failures are recorded, not raised."""
+    """Draw a truth, simulate, fit and score one run; failures are recorded, not raised.
+
+    ``search`` holds the mode-search and pilot settings (``AnalysisSettings.search()``; the
+    defaults of :func:`fit_mechanism` when omitted).
+    """
     device = scenario_device(scenario)
     truth_rng, noise_rng, fit_rng = rng.spawn(3)
     truth = draw_truth(mechanism, scenario, device, truth_rng, region)
@@ -299,7 +304,8 @@ def run_once(
         voltage, temperature, current = simulate_run(mechanism, truth, scenario, device, noise_rng)
         with warnings.catch_warnings(record=True) as caught:
             warnings.simplefilter("always", ConvergenceWarning)
-            fit = fit_mechanism(mechanism, voltage, temperature, current, device, ladder, fit_rng)
+            fit = fit_mechanism(mechanism, voltage, temperature, current, device, ladder, fit_rng,
+                                **(search or {}))
     except Exception as exc:  # noqa: BLE001 (a failed fit is an outcome of the study)
         record.wall_time = time.perf_counter() - started
         record.error = f"{type(exc).__name__}: {exc}"
@@ -405,6 +411,7 @@ def run_study(
     region: TruthRegion = TruthRegion(),
     budget_s: float | None = None,
     verbose: bool = True,
+    search: Mapping[str, int] | None = None,
 ) -> list[RunRecord]:
     """Run the study, interleaving mechanisms so a time budget leaves them balanced.
 
@@ -424,6 +431,8 @@ def run_study(
         Start no new round of runs after this many seconds.
     verbose : bool
         Print one progress line per run.
+    search : mapping, optional
+        Mode-search and pilot settings of every fit.
     """
     scenarios = load_scenarios()
     missing = [m for m in mechanism_ids if m not in scenarios]
@@ -441,7 +450,7 @@ def run_study(
         for mechanism_id in mechanism_ids:
             rng = streams[mechanism_id].spawn(1)[0]
             record, _ = run_once(get_mechanism(mechanism_id), scenarios[mechanism_id], ladder, rng,
-                                 region)
+                                 region, search)
             records.append(record)
             if verbose:
                 print(_progress_line(index, runs, record), flush=True)
@@ -478,11 +487,12 @@ def main(argv: Sequence[str]) -> int:
     """Run the study and print the coverage table."""
     args = parse_arguments(argv)
     mechanism_ids = args.mechanisms or list(load_scenarios())
-    ladder = AnalysisSettings(quick=args.quick).ladder()
+    settings = AnalysisSettings(quick=args.quick)
+    ladder = settings.ladder()
     budget = None if args.budget_minutes is None else 60.0 * args.budget_minutes
     began = time.perf_counter()
     records = run_study(mechanism_ids, args.runs, ladder, args.seed,
-                        TruthRegion(args.spread, args.decades), budget)
+                        TruthRegion(args.spread, args.decades), budget, search=settings.search())
     print()
     print(f"coverage of central credible intervals ({'quick' if args.quick else 'full'} ladder, "
           f"seed {args.seed}, truths: device priors + flat region +-{args.spread:.0%} / "

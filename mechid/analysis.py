@@ -52,7 +52,7 @@ QUICK_LADDER = {"n_temperatures": 5, "beta_power": 2.0, "n_burn": 60, "n_product
                 "max_production": 120, "n_walkers": 20}
 #: Mode search and pilot run (see mechid.inference.fit.fit_mechanism) of a full and a quick run.
 FULL_SEARCH = {"pilot_steps": 400, "pilot_max_steps": 2000, "n_polish": 4}
-QUICK_SEARCH = {"pilot_steps": 200, "pilot_max_steps": 400, "n_polish": 2}
+QUICK_SEARCH = {"pilot_steps": 150, "pilot_max_steps": 300, "n_polish": 2}
 
 
 @dataclass(frozen=True)
