@@ -95,8 +95,9 @@ def fit_mechanism(
         Number of diverse screened candidates polished by the mode search; every distinct
         mode found gets its own component in the reference distribution.
     leader_log_evidence : float, optional
-        Best log-evidence of the mechanisms fitted so far: a mechanism far below it is not
-        refined beyond the first production block (flag ``far_below``).
+        Best log-evidence of the mechanisms already fitted (earlier rounds, see
+        :mod:`mechid.inference.rounds`): a mechanism far below it is not refined beyond the
+        first production block (flag ``far_below``).
     """
     priors = mechanism_priors(mechanism, device, current_A)
     target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
@@ -108,8 +109,8 @@ def fit_mechanism(
     path = ReferencePathTarget(target, pilot.reference)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ConvergenceWarning)
-        # Every rung starts from exact reference draws: they already spread along the
-        # posterior's ridges, which a ball around the pilot's last positions does not.
+        # Every rung starts from reference draws resampled by L^beta: they already spread
+        # along the posterior's ridges, which a ball around the pilot's last positions does not.
         floor = None if leader_log_evidence is None else leader_log_evidence - FAR_BELOW_MARGIN
         run, evidence = estimate_evidence(path, settings, rng, start=None, progress=progress,
                                           not_worth_below=floor)

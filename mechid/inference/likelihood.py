@@ -126,13 +126,16 @@ class MechanismTarget:
                 column += 1
         return values
 
-    def model_current(self, theta: NDArray) -> NDArray:
-        """Model current in A, shape ``(m, n)``, for internal vectors ``(m, ndim)``."""
-        values = self.physical_values(theta)
+    def _pair_magnitude(self, values: dict[str, NDArray]) -> NDArray:
+        """|I| at each distinct (|V|, T) pair, shape ``(m, pairs)``, from physical values."""
         physical = {name: values[name] for name in self.mechanism.parameter_names}
-        magnitude = self.mechanism.current(
+        return self.mechanism.current(
             self._unique_abs_voltage, self._unique_temperature, physical, self.device
         )
+
+    def model_current(self, theta: NDArray) -> NDArray:
+        """Model current in A, shape ``(m, n)``, for internal vectors ``(m, ndim)``."""
+        magnitude = self._pair_magnitude(self.physical_values(theta))
         return magnitude[:, self._inverse] * self._sign
 
     def noise_sd(self, theta: NDArray, model: NDArray) -> NDArray:
@@ -173,10 +176,7 @@ class MechanismTarget:
         """Per pair u with n_u points: sum_i (I_i - s_i m_u)^2 = S2_u - 2 m_u S1_u + n_u m_u^2."""
         with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
             values = self.physical_values(theta)
-            physical = {name: values[name] for name in self.mechanism.parameter_names}
-            magnitude = self.mechanism.current(
-                self._unique_abs_voltage, self._unique_temperature, physical, self.device
-            ) * self._pair_nonzero  # the model is 0 at V = 0 (sign 0)
+            magnitude = self._pair_magnitude(values) * self._pair_nonzero  # model 0 at V = 0
             variance = (values[NOISE_RELATIVE] * magnitude) ** 2 + values[NOISE_FLOOR] ** 2
             squares = (self._pair_square_sum - 2.0 * magnitude * self._pair_signed_sum
                        + self._pair_count * magnitude**2)

@@ -21,7 +21,7 @@ import multiprocessing
 import os
 import queue as queue_module
 import warnings
-from collections.abc import Callable, Mapping, Sequence
+from collections.abc import Callable, Iterable, Mapping, Sequence
 from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
 from dataclasses import dataclass
 from typing import Any
@@ -169,7 +169,7 @@ def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
     )
 
 
-def _best(leader: float | None, fits: Any) -> float | None:
+def _best(leader: float | None, fits: Iterable[MechanismFit]) -> float | None:
     values = [fit.evidence.log_evidence for fit in fits]
     values = [v for v in values if np.isfinite(v)]
     if leader is not None:
