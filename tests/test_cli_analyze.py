@@ -144,6 +144,7 @@ def test_same_seed_same_numbers_other_seed_other_numbers(pf_run, tmp_path):
     with np.load(first["samples"]) as da, np.load(second["samples"]) as db:
         assert sorted(da.files) == sorted(db.files)
         for key in da.files:
+            # bit-exact on purpose: same machine, same seed -> same numbers (mechid's determinism promise)
             np.testing.assert_array_equal(da[key], db[key])
 
     other, third = _fit_pf(tmp_path / "other", seed=1)

@@ -56,6 +56,7 @@ def test_simulate_noise_is_reproducible_and_has_the_asked_level():
     grid = dict(temperatures_K=[100.0], voltages_V=np.linspace(0.01, 1, 2000), device=Device())
     a = simulate_series(mech, params, **grid, noise_relative=0.05, rng=np.random.default_rng(4))
     b = simulate_series(mech, params, **grid, noise_relative=0.05, rng=np.random.default_rng(4))
+    # bit-exact on purpose: same machine, same seed -> same numbers (mechid's determinism promise)
     np.testing.assert_array_equal(a.current_A, b.current_A)
     rel = a.current_A / a.noiseless_current_A - 1
     assert np.std(rel) == pytest.approx(0.05, rel=0.1)

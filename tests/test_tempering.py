@@ -74,7 +74,8 @@ def test_power_ladder_ends_exactly_at_prior_and_posterior():
     betas = temperature_ladder(12, 4.0)
     assert betas[0] == 0.0 and betas[-1] == 1.0
     assert np.all(np.diff(betas) > 0)
-    assert betas[6] == pytest.approx((6 / 11) ** 4, rel=1e-14)
+    # np.power (SIMD on some processors) vs Python's libm pow: a few ulp
+    assert betas[6] == pytest.approx((6 / 11) ** 4, rel=1e-13)
 
 
 @pytest.mark.parametrize(
@@ -144,6 +145,7 @@ def test_run_shapes_counts_and_progress():
     assert run.log_likelihood.shape == (6, 300, walkers)
     assert run.cold_chain.shape == (300, walkers, 2)
     assert run.cold_log_prior.shape == run.cold_log_likelihood.shape == (300, walkers)
+    # bit-exact on purpose: the cold chain's values are the last rung's row, not a recomputation
     np.testing.assert_array_equal(run.cold_log_likelihood, run.log_likelihood[-1])
     assert run.n_burn == 100 and run.n_steps == 300
     # 2 stacked calls per step; every rung's half-ensemble evaluated in each
@@ -170,6 +172,7 @@ def test_same_seed_same_chains_and_other_seed_differs():
     first = run_tempered_ladder(target, FAST, np.random.default_rng(42))
     again = run_tempered_ladder(target, FAST, np.random.default_rng(42))
     other = run_tempered_ladder(target, FAST, np.random.default_rng(43))
+    # bit-exact on purpose: same machine, same seed -> same numbers (mechid's determinism promise)
     np.testing.assert_array_equal(first.log_likelihood, again.log_likelihood)
     np.testing.assert_array_equal(first.cold_chain, again.cold_chain)
     assert not np.array_equal(first.cold_chain, other.cold_chain)
