@@ -172,7 +172,8 @@ EpsOpt = Annotated[float | None, typer.Option(
     "--optical-dielectric-constant", help="High-frequency relative permittivity (about n^2).")]
 EpsSdOpt = Annotated[float | None, typer.Option(
     "--optical-dielectric-constant-sd", help="Standard uncertainty of the optical dielectric constant.")]
-SeedOpt = Annotated[int, typer.Option("--seed", help="Random seed; the same seed gives the same numbers.")]
+SeedOpt = Annotated[int, typer.Option(
+    "--seed", min=0, help="Random seed (>= 0); the same seed gives the same numbers.")]
 
 
 @app.command("mechanisms")
@@ -183,7 +184,8 @@ def list_mechanisms() -> None:
         out.print(f"  I = {m.formula}", highlight=False, markup=False)
         out.print(f"  source: {m.source}", highlight=False, markup=False)
         if m.temperature_dependence:
-            out.print(f"  temperature dependence: {m.temperature_dependence}", highlight=False)
+            out.print(f"  temperature dependence: {m.temperature_dependence}", highlight=False,
+                      markup=False)
         out.print("  parameters:", highlight=False)
         for p in m.parameters:
             prior = "log-uniform" if p.log_scale else "uniform"
@@ -232,7 +234,7 @@ def simulate_command(
             rng=np.random.default_rng(seed),
         )
         write_series_csv(result, out_path)
-    err.print(f"wrote {result.current_A.size} points to {out_path}")
+    err.print(f"wrote {result.current_A.size} points to {out_path}", highlight=False, markup=False)
 
 
 def _progress_hook(progress: Progress):  # noqa: ANN202
@@ -287,11 +289,9 @@ def analyze_command(
     """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""
     from mechid.analysis import AnalysisSettings, run_analysis_full
     from mechid.data import read_series
+    from mechid.outputs import check_output_paths, input_files
 
     with _user_errors():
-        for path in (json_path, samples_path, report_path, summary_path):
-            if path is not None and path.resolve() == data.resolve():
-                raise MechidError(f"refusing to overwrite the input {data}")
         series = read_series(data)
         device, used = _device(
             data, device_file, thickness_nm=thickness_nm, thickness_sd_nm=thickness_sd_nm,
@@ -300,8 +300,13 @@ def analyze_command(
             optical_dielectric_constant=optical_dielectric_constant,
             optical_dielectric_constant_sd=optical_dielectric_constant_sd,
         )
+        check_output_paths(
+            {"--json": json_path, "--samples": samples_path, "--report": report_path,
+             "--summary": summary_path},
+            {"--figures": figures_dir}, input_files(data, series.sources, used),
+        )
         if used is not None:
-            err.print(f"device description from {used}", highlight=False)
+            err.print(f"device description from {used}", highlight=False, markup=False)
         for mechanism_id in only:
             get_mechanism(mechanism_id)
         settings = AnalysisSettings(
@@ -323,16 +328,16 @@ def _write_outputs(run, json_path, samples_path, report_path, figures_dir, summa
     result = run.result
     if json_path is not None:
         write_json(result, json_path)
-        err.print(f"result JSON written to {json_path}")
+        err.print(f"result JSON written to {json_path}", highlight=False, markup=False)
     if samples_path is not None:
         write_samples(result, samples_path)
-        err.print(f"posterior draws written to {samples_path}")
+        err.print(f"posterior draws written to {samples_path}", highlight=False, markup=False)
     if report_path is not None or figures_dir is not None or summary_path is not None:
         from mechid.report import write_outputs
 
         for written in write_outputs(run, report=report_path, figures_dir=figures_dir,
                                      summary=summary_path):
-            err.print(f"written {written}")
+            err.print(f"written {written}", highlight=False, markup=False)
 
 
 def _print_result(result) -> None:  # noqa: ANN001
@@ -360,9 +365,14 @@ def demo_command(
         device_path = find_device_toml(data)
         device = read_device_toml(device_path) if device_path else Device()
         series = read_series(data)
-        out_dir.mkdir(parents=True, exist_ok=True)
-        err.print(f"demo data: {data}", highlight=False)
-        err.print(f"scenario: {demo_truth()['story']}", highlight=False)
+        if out_dir.exists() and not out_dir.is_dir():
+            raise MechidError(f"--out {out_dir}: exists and is not a folder; give a folder name")
+        try:
+            out_dir.mkdir(parents=True, exist_ok=True)
+        except OSError as exc:
+            raise MechidError(f"--out {out_dir}: cannot create the folder ({exc.strerror})") from None
+        err.print(f"demo data: {data}", highlight=False, markup=False)
+        err.print(f"scenario: {demo_truth()['story']}", highlight=False, markup=False)
         with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
                       TimeElapsedColumn(), console=err, disable=not err.is_terminal) as progress:
             run = run_analysis_full(series, device, AnalysisSettings(quick=quick), seed=seed,
@@ -375,7 +385,8 @@ def demo_command(
         truth = demo_truth()
         err.print(f"true mechanism of the demo series: {truth['mechanism']} with "
                   + ", ".join(f"{k} = {v:g}" for k, v in truth["params"].items()), highlight=False)
-        err.print("demo outputs written to " + ", ".join(str(p) for p in written), highlight=False)
+        err.print("demo outputs written to " + ", ".join(str(p) for p in written), highlight=False,
+                  markup=False)
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -18,6 +18,16 @@ voltage and a current column, in any order, each with its unit either as a suffi
 from a header comment (``# temperature_K = 77``, ``# T = 77 K``) or from the file name
 (``sample_77K.csv``, ``run3_77.5K.txt``). When both are present they must agree.
 
+*A wide table*: one current column per temperature, each naming its temperature after an
+``@`` (``current_nA@77K``, ``current [pA] @ 4.2 K``, ``current_A@-20C``), with either one
+shared voltage column or a voltage column per temperature (``voltage_V@77K``). Sweeps of
+different lengths leave the cells below their end empty::
+
+    voltage_V@77K,current_nA@77K,voltage_V@300K,current_nA@300K
+    0.1,0.012,0.1,3.1
+    0.2,0.025,0.2,6.4
+    ,,0.3,9.9
+
 *A folder* of such files (tidy or per-temperature, units may differ between files); every
 ``*.csv``, ``*.txt`` and ``*.dat`` file directly inside it is read and merged into one series.
 Other files (``device.toml``, reports, hidden files) are not data and are skipped.
@@ -87,6 +97,22 @@ COMPLIANCE_RTOL = 1e-3
 #: Fewest distinct voltages at the top of a sweep that make a compliance plateau.
 COMPLIANCE_MIN_POINTS = 3
 
+#: Temperatures accepted, in K. Electrical measurements run from dilution refrigerators
+#: (a few mK) to furnace stages (well under 2000 K); a value outside this range is a unit or
+#: typing mistake, not a measurement (our bound, chosen generously on both sides).
+TEMPERATURE_RANGE_K = (1e-3, 2000.0)
+
+#: Longest piece of a cell or line quoted back in an error message.
+MAX_QUOTED_CHARACTERS = 60
+
+#: A number as a data file may write it: ASCII digits, optional sign, decimal point and
+#: exponent; "nan"/"inf" are recognised so that they get their own message. Python's float()
+#: also takes '3_00', full-width or Arabic-Indic digits and surrounding NUL characters,
+#: which a data file should not contain.
+_NUMBER = re.compile(
+    r"[-+]?(?:(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][-+]?[0-9]+)?|(?i:nan|inf|infinity))"
+)
+
 REASON_ZERO_BIAS = "zero bias carries no transport information"
 REASON_COMPLIANCE = "current at compliance limit"
 
@@ -99,9 +125,11 @@ _EXPECTED_PATTERN = (
 
 _FILENAME_TEMPERATURE = re.compile(r"(?<![\d.])(\d+(?:\.\d+)?)\s?K(?![A-Za-z])")
 # Quantity word case-insensitive, unit case-sensitive (so '# T_c = 9' is not read as Celsius).
+# The value is taken loosely here (digits, dots, signs, exponents) and then checked strictly,
+# so that '# T = 1.2.3 K' is an error rather than a silently ignored comment.
 _HEADER_TEMPERATURE = re.compile(
     r"^#\s*(?i:temperature|temp|t)(?:_(?P<name_unit>\w+)|\s*\[(?P<bracket_unit>[^\]]+)\])?"
-    r"\s*[=:]\s*(?P<value>[-+]?[\d.]+(?:[eE][-+]?\d+)?)\s*(?P<value_unit>°C|degC|[KC])?\s*$"
+    r"\s*[=:]\s*(?P<value>[-+.0-9][-+.0-9eE]*)\s*(?P<value_unit>°C|degC|[KC])?\s*$"
 )
 _TEMPERATURE_UNIT_ALIASES = {"K": "K", "C": "C", "degC": "C", "°C": "C"}
 
@@ -291,7 +319,8 @@ def _parse_column_name(name: str) -> tuple[str, str | None] | None:
     return None
 
 
-def _recognise_columns(header: list[str], source: str, line_number: int) -> dict[str, _Column]:
+def _recognise_columns(header: list[str], source: str, line_number: int,
+                       require: tuple[str, ...] = ("voltage", "current")) -> dict[str, _Column]:
     """Map quantities to header columns, raising on duplicates, missing or unknown units."""
     duplicates = sorted(name for name, n in Counter(header).items() if n > 1)
     if duplicates:
@@ -325,7 +354,7 @@ def _recognise_columns(header: list[str], source: str, line_number: int) -> dict
                 f"{columns[quantity].header!r} and {name!r}; keep exactly one per quantity"
             )
         columns[quantity] = _Column(index, name, quantity, unit)
-    missing = [q for q in ("voltage", "current") if q not in columns]
+    missing = [q for q in require if q not in columns]
     if missing:
         found = ", ".join(repr(h) for h in header)
         raise InputDataError(
@@ -346,35 +375,38 @@ def _to_si(values: NDArray[np.float64], column: _Column) -> NDArray[np.float64]:
     return values * scale + offset
 
 
+def quoted(text: str, limit: int = MAX_QUOTED_CHARACTERS) -> str:
+    """``repr`` of ``text`` cut to ``limit`` characters, for error messages."""
+    if len(text) <= limit:
+        return repr(text)
+    return repr(text[:limit]) + f" ... ({len(text)} characters)"
+
+
+def is_plain_number(text: str) -> bool:
+    """True when ``text`` is a decimal number written with ASCII characters only."""
+    return _NUMBER.fullmatch(text) is not None
+
+
 def _numeric_column(cells: list[str], lines: NDArray[np.int64], column: _Column,
                     source: str) -> NDArray[np.float64]:
     """Convert one column of text cells to float64, naming the first bad cell on failure."""
-    text = np.array(cells, dtype=str)
-    try:
-        values = text.astype(np.float64)
-    except ValueError:
-        bad = next(k for k, cell in enumerate(cells) if not _is_number(cell))
-        shown = repr(cells[bad]) if cells[bad] else "an empty cell"
+    bad = next((k for k, cell in enumerate(cells) if not is_plain_number(cell)), None)
+    if bad is not None:
+        shown = quoted(cells[bad]) if cells[bad] else "an empty cell"
         raise InputDataError(
-            f"{source}, line {lines[bad]}, column {column.header!r}: expected a number, "
-            f"found {shown}"
-        ) from None
+            f"{source}, line {lines[bad]}, column {column.header!r}: expected a number written "
+            f"with the digits 0-9 (e.g. 1.5e-9), found {shown}"
+        )
+    with np.errstate(over="ignore"):  # 1e999 or a 400-digit cell become inf, refused below
+        values = np.array(cells, dtype=str).astype(np.float64)
     not_finite = ~np.isfinite(values)
     if not_finite.any():
         bad = int(np.argmax(not_finite))
         raise InputDataError(
-            f"{source}, line {lines[bad]}, column {column.header!r}: {cells[bad]!r} is not a "
-            "finite number; remove the point or replace it with a measured value"
+            f"{source}, line {lines[bad]}, column {column.header!r}: {quoted(cells[bad])} is not "
+            "a finite number; remove the point or replace it with a measured value"
         )
     return values
-
-
-def _is_number(cell: str) -> bool:
-    try:
-        float(cell)
-    except ValueError:
-        return False
-    return True
 
 
 def _header_temperature(lines: list[tuple[int, str]], source: str) -> tuple[float, int] | None:
@@ -389,9 +421,18 @@ def _header_temperature(lines: list[tuple[int, str]], source: str) -> tuple[floa
         if len(units) != 1 or not units <= {"K", "C"}:
             raise InputDataError(
                 f"{source}, line {number}: cannot tell the unit of the temperature in "
-                f"{text.strip()!r}; write e.g. '# temperature_K = 77' or '# T = 77 K'"
+                f"{quoted(text.strip())}; write e.g. '# temperature_K = 77' or '# T = 77 K'"
             )
-        value = float(match["value"]) + (273.15 if units == {"C"} else 0.0)
+        written_value = match["value"]
+        if not is_plain_number(written_value) or not math.isfinite(float(written_value)):
+            raise InputDataError(
+                f"{source}, line {number}: the temperature comment {quoted(text.strip())} does "
+                f"not hold a finite number ({written_value!r}); write e.g. '# temperature_K = 77'"
+            )
+        celsius = units == {"C"}
+        value = float(written_value) + (273.15 if celsius else 0.0)
+        _check_temperature_value(value, f"{source}, line {number}",
+                                 f"{written_value} {'°C' if celsius else 'K'}")
         found.append((value, number))
     if len({value for value, _ in found}) > 1:
         shown = ", ".join(f"line {n}: {v:g} K" for v, n in found)
@@ -407,7 +448,25 @@ def _filename_temperature(path: Path) -> float | None:
             f"{path.name}: the file name holds several temperatures ({', '.join(matches)} K); "
             "give the temperature in a '# temperature_K = 77' header comment instead"
         )
-    return float(matches[0]) if matches else None
+    if not matches:
+        return None
+    value = float(matches[0])
+    _check_temperature_value(value, f"{path.name} (file name)", f"{matches[0]} K")
+    return value
+
+
+def _check_temperature_value(value_K: float, where: str, as_written: str) -> None:
+    """Raise unless a temperature lies in :data:`TEMPERATURE_RANGE_K`."""
+    low, high = TEMPERATURE_RANGE_K
+    if math.isfinite(value_K) and low <= value_K <= high:
+        return
+    if math.isfinite(value_K) and value_K <= 0:
+        problem = "is not above absolute zero"
+    else:
+        problem = f"is outside the range mechid accepts ({low:g} K to {high:g} K)"
+    shown = as_written if len(as_written) <= MAX_QUOTED_CHARACTERS else quoted(as_written)
+    converted = "" if as_written.endswith(" K") else f" (= {value_K:.6g} K)"
+    raise InputDataError(f"{where}: temperature {shown}{converted} {problem}; check the value and its unit")
 
 
 def _file_temperature(path: Path, comments: list[tuple[int, str]]) -> tuple[float, str] | None:
@@ -451,6 +510,8 @@ def _read_file(path: Path) -> _FileTable:
     header_number, header_line = content[0]
     split = _split_function(header_line)
     header = split(header_line)
+    if any(_WIDE_COLUMN.fullmatch(name) for name in header):
+        return _read_wide(source, header, header_number, content[1:], split)
     columns = _recognise_columns(header, source, header_number)
     rows = content[1:]
     if not rows:
@@ -480,14 +541,118 @@ def _read_file(path: Path) -> _FileTable:
                 f"temperature in the file name; columns found: "
                 f"{', '.join(repr(h) for h in header)}; {_EXPECTED_PATTERN}"
             )
-        value, origin = metadata
-        if value <= 0:
-            raise InputDataError(
-                f"{source}: the temperature from {origin} is {value:g} K; it must be above 0 K"
-            )
+        value, _origin = metadata
         temperature = np.full(lines.size, value)
-    _check_positive_temperature(temperature, lines, source, columns.get("temperature"))
+    if "temperature" in columns:
+        _check_temperature_column(temperature, lines, source, columns["temperature"])
     return _FileTable(source, lines, temperature, values["voltage"], values["current"])
+
+
+#: A column of a wide table: a quantity column name, then '@' and its temperature, e.g.
+#: ``current_nA@77K``, ``voltage [mV] @ 4.2 K`` or ``current_A@-20C``.
+_WIDE_COLUMN = re.compile(
+    r"(?P<name>[^@]+?)\s*@\s*(?P<value>[-+]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][-+]?[0-9]+)?)"
+    r"\s*(?P<unit>K|C|°C|degC)"
+)
+
+
+def _wide_groups(header: list[str], source: str, line_number: int
+                 ) -> tuple[dict[float, dict[str, _Column]], _Column | None]:
+    """Group wide-table columns by temperature; return them and the shared voltage column."""
+    groups: dict[float, dict[str, _Column]] = {}
+    shared_voltage: _Column | None = None
+    for index, name in enumerate(header):
+        match = _WIDE_COLUMN.fullmatch(name)
+        parsed = _parse_column_name(match["name"] if match else name)
+        if parsed is None or parsed[0] == "temperature":
+            raise InputDataError(
+                f"{source}, line {line_number}: column {quoted(name)} does not fit a wide table; "
+                "every column is a voltage or current with its unit, and all but one shared "
+                "voltage column carry their temperature, e.g. 'voltage_V,current_nA@77K,"
+                "current_nA@300K' or 'voltage_V@77K,current_nA@77K,voltage_V@300K,current_nA@300K'"
+            )
+        quantity = parsed[0]
+        # checks the unit as a tidy header would (missing or unknown unit -> clear error)
+        checked = _recognise_columns([match["name"] if match else name], source, line_number,
+                                     require=(quantity,))[quantity]
+        column = _Column(index, name, quantity, checked.unit)
+        if match is None:
+            if quantity != "voltage" or shared_voltage is not None:
+                raise InputDataError(
+                    f"{source}, line {line_number}: column {quoted(name)} has no temperature "
+                    "('@77K'); in a wide table only one shared voltage column may go without"
+                )
+            shared_voltage = column
+            continue
+        celsius = match["unit"] != "K"
+        temperature = float(match["value"]) + (273.15 if celsius else 0.0)
+        _check_temperature_value(temperature, f"{source}, line {line_number}, column {quoted(name)}",
+                                 f"{match['value']} {'°C' if celsius else 'K'}")
+        group = groups.setdefault(temperature, {})
+        if quantity in group:
+            raise InputDataError(
+                f"{source}, line {line_number}: two {quantity} columns at {temperature:g} K "
+                f"({quoted(group[quantity].header)} and {quoted(name)})"
+            )
+        group[quantity] = column
+    return groups, shared_voltage
+
+
+def _read_wide(source: str, header: list[str], header_number: int,
+               rows: list[tuple[int, str]], split: Callable[[str], list[str]]) -> _FileTable:
+    """Read a wide table: per temperature a current column and its (or a shared) voltage column.
+
+    Sweeps of different lengths leave cells empty at the bottom of a column; a row where a
+    temperature has a voltage but no current (or the reverse) is an error.
+    """
+    groups, shared_voltage = _wide_groups(header, source, header_number)
+    if not rows:
+        raise InputDataError(f"{source}: only a header (line {header_number}) and no data rows below it")
+    cells = [split(text) for _, text in rows]
+    for (number, _), fields in zip(rows, cells, strict=True):
+        if len(fields) > len(header):
+            raise InputDataError(
+                f"{source}, line {number}: {len(fields)} field(s) but the header on line "
+                f"{header_number} names {len(header)} column(s)"
+            )
+    padded = [fields + [""] * (len(header) - len(fields)) for fields in cells]
+    lines = np.array([n for n, _ in rows], dtype=np.int64)
+    parts = []
+    for temperature, group in sorted(groups.items()):
+        voltage_column = group.get("voltage", shared_voltage)
+        if "current" not in group or voltage_column is None:
+            missing = "current" if "current" not in group else "voltage"
+            raise InputDataError(
+                f"{source}, line {header_number}: no {missing} column for {temperature:g} K"
+            )
+        parts.append(_wide_part(source, padded, lines, temperature, voltage_column, group["current"]))
+    line, temperature_K, voltage, current = (np.concatenate(a) for a in zip(*parts, strict=True))
+    return _FileTable(source, line, temperature_K, voltage, current)
+
+
+def _wide_part(source: str, cells: list[list[str]], lines: NDArray[np.int64], temperature: float,
+               voltage_column: _Column, current_column: _Column
+               ) -> tuple[NDArray[np.int64], NDArray[np.float64], NDArray[np.float64],
+                          NDArray[np.float64]]:
+    """The points of one temperature of a wide table (rows where both cells are empty skipped)."""
+    v_text = [f[voltage_column.index] for f in cells]
+    i_text = [f[current_column.index] for f in cells]
+    filled = np.array([bool(v) and bool(i) for v, i in zip(v_text, i_text, strict=True)])
+    half = np.array([bool(v) != bool(i) for v, i in zip(v_text, i_text, strict=True)])
+    if half.any():
+        bad = int(np.argmax(half))
+        empty = current_column if v_text[bad] else voltage_column
+        raise InputDataError(
+            f"{source}, line {lines[bad]}, column {quoted(empty.header)}: empty while the other "
+            f"column of the {temperature:g} K sweep holds a value"
+        )
+    keep = np.flatnonzero(filled)
+    kept_lines = lines[keep]
+    voltage = _to_si(_numeric_column([v_text[k] for k in keep], kept_lines, voltage_column, source),
+                     voltage_column)
+    current = _to_si(_numeric_column([i_text[k] for k in keep], kept_lines, current_column, source),
+                     current_column)
+    return kept_lines, np.full(keep.size, temperature), voltage, current
 
 
 def _check_header_against_column(path: Path, comments: list[tuple[int, str]],
@@ -506,17 +671,23 @@ def _check_header_against_column(path: Path, comments: list[tuple[int, str]],
         )
 
 
-def _check_positive_temperature(temperature: NDArray[np.float64], lines: NDArray[np.int64],
-                                source: str, column: _Column | None) -> None:
-    not_positive = temperature <= 0
-    if not not_positive.any():
+def _check_temperature_column(temperature: NDArray[np.float64], lines: NDArray[np.int64],
+                              source: str, column: _Column) -> None:
+    """Every temperature of a column must lie in :data:`TEMPERATURE_RANGE_K`."""
+    low, high = TEMPERATURE_RANGE_K
+    outside = ~((temperature >= low) & (temperature <= high))
+    if not outside.any():
         return
-    bad = int(np.argmax(not_positive))
-    where = f", column {column.header!r}" if column else ""
-    raise InputDataError(
-        f"{source}, line {lines[bad]}{where}: temperature {temperature[bad]:g} K is not above "
-        "absolute zero; temperatures must be > 0 K (Celsius columns need the '_C' suffix)"
-    )
+    bad = int(np.argmax(outside))
+    scale, offset = UNITS["temperature"][column.unit]
+    as_written = f"{(temperature[bad] - offset) / scale:g} {'K' if column.unit == 'K' else '°C'}"
+    hint = "" if column.unit != "K" or temperature[bad] > 0 else (
+        " (a Celsius column needs the '_C' suffix)")
+    try:
+        _check_temperature_value(float(temperature[bad]),
+                                 f"{source}, line {lines[bad]}, column {column.header!r}", as_written)
+    except InputDataError as exc:
+        raise InputDataError(f"{exc}{hint}") from None
 
 
 # --------------------------------------------------------------------------------------------
@@ -615,8 +786,16 @@ def _data_files(path: Path) -> list[Path]:
         raise InputDataError(f"{path}: no such file or folder")
     if path.is_file():
         return [path]
-    files = sorted(p for p in path.iterdir() if p.is_file()
-                   and p.suffix.lower() in DATA_SUFFIXES and not p.name.startswith("."))
+    if not path.is_dir():
+        raise InputDataError(
+            f"{path}: neither a regular file nor a folder (a device, pipe or socket); give a "
+            "data file or a folder of data files"
+        )
+    try:
+        files = sorted(p for p in path.iterdir() if p.is_file()
+                       and p.suffix.lower() in DATA_SUFFIXES and not p.name.startswith("."))
+    except OSError as exc:
+        raise InputDataError(f"{path}: cannot list the folder ({exc.strerror})") from None
     if not files:
         raise InputDataError(
             f"{path}: the folder holds no data files (looked for {', '.join(DATA_SUFFIXES)})"
@@ -624,26 +803,58 @@ def _data_files(path: Path) -> list[Path]:
     return files
 
 
+def _too_few_per_temperature(temperature: NDArray[np.float64], counted: NDArray[np.float64],
+                             names: Sequence[str], sources: NDArray[np.int64]
+                             ) -> tuple[float, int, str] | None:
+    """The first temperature with fewer than :data:`MIN_VOLTAGES_PER_TEMPERATURE` counted
+    points, as ``(temperature, count, files)``; ``counted`` holds 1 for each point that counts.
+    """
+    all_temperatures, index = np.unique(temperature, return_inverse=True)
+    counts = np.bincount(index, weights=counted, minlength=all_temperatures.size)
+    short = np.flatnonzero(counts < MIN_VOLTAGES_PER_TEMPERATURE)
+    if short.size == 0:
+        return None
+    t_bad = float(all_temperatures[short[0]])
+    files = sorted({names[s] for s in np.unique(sources[temperature == t_bad])})
+    return t_bad, int(counts[short[0]]), ", ".join(files)
+
+
 def _check_voltages_per_temperature(temperature: NDArray[np.float64],
                                     voltage: NDArray[np.float64], names: Sequence[str],
                                     sources: NDArray[np.int64]) -> None:
     """Each temperature needs :data:`MIN_VOLTAGES_PER_TEMPERATURE` distinct non-zero voltages."""
-    all_temperatures = np.unique(temperature)
-    pairs = np.unique(np.stack([temperature, voltage]), axis=1)
-    pairs = pairs[:, pairs[1] != 0]
-    counts = np.bincount(np.searchsorted(all_temperatures, pairs[0]),
-                         minlength=all_temperatures.size)
-    short = np.flatnonzero(counts < MIN_VOLTAGES_PER_TEMPERATURE)
-    if short.size == 0:
+    first_of_pair = np.zeros(temperature.size)
+    _, first = np.unique(np.stack([temperature, voltage]), axis=1, return_index=True)
+    first_of_pair[first] = 1.0
+    short = _too_few_per_temperature(temperature, first_of_pair * (voltage != 0), names, sources)
+    if short is None:
         return
-    t_bad = all_temperatures[short[0]]
-    files = sorted({names[s] for s in np.unique(sources[temperature == t_bad])})
+    t_bad, count, files = short
     raise InputDataError(
-        f"{', '.join(files)}: at {t_bad:g} K only {counts[short[0]]} distinct non-zero "
+        f"{files}: at {t_bad:g} K only {count} distinct non-zero "
         f"voltage(s) remain after exclusions; at least {MIN_VOLTAGES_PER_TEMPERATURE} are needed "
         "(two points always lie on a straight line, so linearity cannot be tested). If the "
         "temperature column holds the measured temperature of each point, round it to the "
         "set point."
+    )
+
+
+def _check_nonzero_currents(temperature: NDArray[np.float64], current: NDArray[np.float64],
+                            names: Sequence[str], sources: NDArray[np.int64]) -> None:
+    """Each temperature needs :data:`MIN_VOLTAGES_PER_TEMPERATURE` non-zero currents.
+
+    A sweep read as all zeros (an instrument range too coarse, a wrong column, a unit lost
+    to rounding) carries no information about any mechanism; analysing it would crown
+    whichever hypothesis best describes nothing.
+    """
+    short = _too_few_per_temperature(temperature, (current != 0).astype(float), names, sources)
+    if short is None:
+        return
+    t_bad, count, files = short
+    raise InputDataError(
+        f"{files}: at {t_bad:g} K only {count} current(s) differ "
+        f"from 0 A; at least {MIN_VOLTAGES_PER_TEMPERATURE} non-zero currents are needed. Check "
+        "the current column and its unit, and the instrument's range"
     )
 
 
@@ -698,6 +909,7 @@ def read_series(path: Path | str) -> IVSeries:
                                     names, sources)
     temperature, voltage, current = (merged.temperature_K[keep], merged.voltage_V[keep],
                                      merged.current_A[keep])
+    _check_nonzero_currents(temperature, current, names, sources[keep])
     order = np.lexsort((voltage, temperature))  # stable: repeats keep their reading order
     return IVSeries(temperature[order], voltage[order], current[order], tuple(names),
                     tuple(excluded_zero + excluded_limit))

@@ -179,27 +179,67 @@ def read_device_toml(path: Path) -> Device:
     """
     try:
         with open(path, "rb") as handle:
-            raw = tomllib.load(handle)
+            content = handle.read()
     except OSError as exc:
         raise DeviceError(f"{path}: cannot read the device file ({exc.strerror})") from None
+    try:
+        text = content.decode("utf-8-sig")  # a byte-order mark is accepted, as in data files
+    except UnicodeDecodeError as exc:
+        raise DeviceError(
+            f"{path}: not a UTF-8 text file (byte {exc.start} cannot be decoded); save it as UTF-8"
+        ) from None
+    try:
+        raw = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
-        raise DeviceError(f"{path}: not valid TOML ({exc})") from None
+        raise DeviceError(f"{path}: not valid TOML ({_shortened(str(exc))})") from None
+    except ValueError:  # Python refuses integers of more than 4300 digits
+        raise DeviceError(f"{path}: holds a number too long to read; write it with an exponent") from None
     unknown = sorted(set(raw) - set(DEVICE_KEYS))
     if unknown:
         known = ", ".join(DEVICE_KEYS)
-        raise DeviceError(f"{path}: unknown key(s) {', '.join(unknown)}; known keys: {known}")
-    values: dict[str, Any] = {}
-    for key, value in raw.items():
-        if key == "name":
-            values[key] = str(value)
-            continue
-        if isinstance(value, bool) or not isinstance(value, int | float):
-            raise DeviceError(f"{path}: {key} must be a number ({DEVICE_KEYS[key]}), got {value!r}")
-        values[key] = float(value)
+        shown = ", ".join(_shortened(k) for k in unknown[:5])
+        raise DeviceError(f"{path}: unknown key(s) {shown}; known keys: {known}")
+    values: dict[str, Any] = {key: _toml_value(path, key, value) for key, value in raw.items()}
     try:
         return device_from_values(**values)
     except DeviceError as exc:
         raise DeviceError(f"{path}: {exc}") from None
+
+
+#: Longest device name accepted, and longest piece of a value quoted in a message.
+MAX_NAME_CHARACTERS = 200
+_MAX_QUOTED = 60
+
+
+def _shortened(text: str) -> str:
+    return text if len(text) <= _MAX_QUOTED else text[:_MAX_QUOTED] + f"... ({len(text)} characters)"
+
+
+def _toml_value(path: Path, key: str, value: Any) -> str | float:
+    """Check one TOML value: ``name`` is a short single-line string, the rest finite numbers."""
+    if key == "name":
+        if not isinstance(value, str):
+            raise DeviceError(
+                f"{path}: name must be a text in quotes (e.g. name = \"pad B2\"), got a "
+                f"{type(value).__name__}: {_shortened(repr(value))}"
+            )
+        if len(value) > MAX_NAME_CHARACTERS or not value.isprintable():
+            raise DeviceError(
+                f"{path}: name must be one line of at most {MAX_NAME_CHARACTERS} printable "
+                f"characters, got {_shortened(repr(value))}"
+            )
+        return value
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        raise DeviceError(
+            f"{path}: {key} must be a number ({DEVICE_KEYS[key]}), got {_shortened(repr(value))}"
+        )
+    try:
+        return float(value)  # NaN and inf are refused, with the key's own rule, by Device
+    except OverflowError:
+        raise DeviceError(
+            f"{path}: {key} must be a finite number ({DEVICE_KEYS[key]}), got an integer of "
+            f"about {int(value.bit_length() * math.log10(2)) + 1} digits"
+        ) from None
 
 
 def find_device_toml(data_path: Path) -> Path | None:

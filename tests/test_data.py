@@ -342,16 +342,16 @@ def test_non_numeric_cell_names_file_line_column_and_text(tmp_path: Path) -> Non
     path = _write(tmp_path, "iv.csv", "temperature_K,voltage_V,current_A\n77,0.1,1e-9\n"
                   "# note\n77,0.2,1.2e-9 A\n")
     with pytest.raises(InputDataError,
-                       match=r"iv\.csv, line 4, column 'current_A': expected a number, "
-                             r"found '1\.2e-9 A'"):
+                       match=r"iv\.csv, line 4, column 'current_A': expected a number "
+                             r"written with the digits 0-9 \(e\.g\. 1\.5e-9\), found '1\.2e-9 A'"):
         read_series(path)
 
 
 def test_empty_cell_is_named(tmp_path: Path) -> None:
     path = _write(tmp_path, "iv.csv", "temperature_K,voltage_V,current_A\n77,,1e-9\n")
     with pytest.raises(InputDataError,
-                       match=r"iv\.csv, line 2, column 'voltage_V': expected a number, "
-                             r"found an empty cell"):
+                       match=r"iv\.csv, line 2, column 'voltage_V': expected a number "
+                             r"written with the digits 0-9 \(e\.g\. 1\.5e-9\), found an empty cell"):
         read_series(path)
 
 
@@ -390,7 +390,7 @@ def test_too_few_voltages_left_after_zero_bias_exclusion(tmp_path: Path) -> None
 
 @pytest.mark.parametrize(("column", "value", "shown"),
                          [("temperature_K", "-5", "-5 K"), ("temperature_K", "0", "0 K"),
-                          ("temperature_C", "-300", "-26.85 K")])
+                          ("temperature_C", "-300", "-300 °C \\(= -26\\.85 K\\)")])
 def test_temperature_not_above_absolute_zero(tmp_path: Path, column: str, value: str,
                                              shown: str) -> None:
     path = _write(tmp_path, "iv.csv", f"voltage_V,current_A,{column}\n0.1,1e-9,77\n"
@@ -402,7 +402,8 @@ def test_temperature_not_above_absolute_zero(tmp_path: Path, column: str, value:
 
 def test_negative_temperature_in_header(tmp_path: Path) -> None:
     path = _write(tmp_path, "cold.csv", "# temperature_K = -4\nvoltage_V,current_A\n0.1,1\n")
-    with pytest.raises(InputDataError, match=r"cold\.csv: the temperature from line 1 is -4 K"):
+    with pytest.raises(InputDataError,
+                       match=r"cold\.csv, line 1: temperature -4 K is not above absolute zero"):
         read_series(path)
 
 
