@@ -7,7 +7,20 @@ Data flows one way: read and validate (:mod:`mechid.data`) -> linearise
 """
 
 import logging
+from typing import Any
 
 __version__ = "0.1.0"
 
 logging.getLogger(__name__).addHandler(logging.NullHandler())
+
+__all__ = ["Analysis", "analyse", "__version__"]
+
+
+def __getattr__(name: str) -> Any:
+    """``mechid.analyse`` and ``mechid.Analysis`` (see :mod:`mechid.api`), imported on first use
+    so that ``import mechid`` and the command line's start stay light."""
+    if name in ("analyse", "Analysis"):
+        from mechid import api
+
+        return getattr(api, name)
+    raise AttributeError(f"module 'mechid' has no attribute {name!r}")

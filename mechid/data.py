@@ -773,7 +773,7 @@ def _warn_excluded(points: list[ExcludedPoint], reason: str) -> None:
         for name, rows in by_file.items()
     )
     warnings.warn(f"excluded {len(points)} point(s), {reason}: {where}", MechidWarning,
-                  stacklevel=3)
+                  stacklevel=4)
 
 
 # --------------------------------------------------------------------------------------------
@@ -889,6 +889,65 @@ def read_series(path: Path | str) -> IVSeries:
     tables = []
     for file_path in _data_files(path):  # a plain loop keeps warning stack levels exact
         tables.append(_read_file(file_path))
+    return _checked_series(tables)
+
+
+def series_from_table(table: Any, *, name: str = "table") -> IVSeries:
+    """Build a checked :class:`IVSeries` from in-memory columns (a notebook's way in).
+
+    Parameters
+    ----------
+    table : mapping or DataFrame-like
+        Columns by name, named as in a tidy file header with their units
+        (``temperature_K``, ``voltage_mV``, ``current [nA]`` ...): a dict of arrays, or any
+        object with ``.columns`` and item access by column name (e.g. a pandas DataFrame).
+    name : str
+        What messages call the table; rows are numbered from 1 in them.
+
+    Returns
+    -------
+    IVSeries
+        The same checks and exclusions as :func:`read_series` (zero bias, compliance
+        plateau, temperature range, at least three voltages and non-zero currents).
+
+    Raises
+    ------
+    InputDataError
+        Naming the column and row, as for a file.
+    """
+    header = [str(c) for c in (table.columns if hasattr(table, "columns") else table.keys())]
+    columns = _recognise_columns(header, name, 1, require=("temperature", "voltage", "current"))
+    values: dict[str, NDArray[np.float64]] = {}
+    for quantity, column in columns.items():
+        try:
+            raw = np.asarray(table[column.header], dtype=np.float64).reshape(-1)
+        except (TypeError, ValueError):
+            raise InputDataError(f"{name}, column {column.header!r}: expected numbers only") from None
+        bad = np.flatnonzero(~np.isfinite(raw))
+        if bad.size:
+            raise InputDataError(
+                f"{name}, row {bad[0] + 1}, column {column.header!r}: {raw[bad[0]]!r} is not a "
+                "finite number"
+            )
+        values[quantity] = _to_si(raw, column)
+    sizes = {q: v.size for q, v in values.items()}
+    if len(set(sizes.values())) != 1:
+        raise InputDataError(f"{name}: the columns differ in length {sizes}")
+    rows = np.arange(1, values["voltage"].size + 1, dtype=np.int64)
+    _check_temperature_column(values["temperature"], rows, name, columns["temperature"])
+    return _checked_series([_FileTable(name, rows, values["temperature"], values["voltage"],
+                                       values["current"])])
+
+
+def series_from_arrays(temperature_K: ArrayLike, voltage_V: ArrayLike, current_A: ArrayLike
+                       ) -> IVSeries:
+    """:func:`series_from_table` for three arrays already in K, V and A."""
+    return series_from_table({"temperature_K": temperature_K, "voltage_V": voltage_V,
+                              "current_A": current_A}, name="arrays")
+
+
+def _checked_series(tables: list[_FileTable]) -> IVSeries:
+    """Merge read tables, exclude points that carry no information, check what remains."""
     names = [t.source for t in tables]
     sources = np.concatenate([np.full(t.line.size, k) for k, t in enumerate(tables)])
     merged = _FileTable(

@@ -32,14 +32,17 @@ def _cell(value: Any) -> str:
     return "" if value is None or isinstance(value, float) else str(value)
 
 
-def summary_rows(data: Mapping[str, Any]) -> list[dict[str, str]]:
-    """The CSV rows of a result in plain-JSON form (``to_plain_json(result.to_dict())``)."""
-    rows = []
+def summary_records(data: Mapping[str, Any]) -> list[dict[str, Any]]:
+    """One record per mechanism and parameter, keyed by :data:`COLUMNS`, values as in the JSON.
+
+    ``data`` is a result in plain-JSON form (``to_plain_json(result.to_dict())``).
+    """
+    records = []
     for rank, m in enumerate(data.get("mechanisms") or [], start=1):
         for name, s in (m.get("parameters") or {}).items():
             ci68 = s.get("ci68") or [None, None]
             ci95 = s.get("ci95") or [None, None]
-            values = {
+            records.append({
                 "mechanism_id": m.get("id"), "rank": rank, "probability": m.get("probability"),
                 "log_evidence": m.get("log_evidence"),
                 "log_evidence_err": m.get("log_evidence_err"),
@@ -47,9 +50,13 @@ def summary_rows(data: Mapping[str, Any]) -> list[dict[str, str]]:
                 "unit": s.get("unit"), "median": s.get("median"),
                 "ci68_lo": ci68[0], "ci68_hi": ci68[1], "ci95_lo": ci95[0], "ci95_hi": ci95[1],
                 "fixed": bool(s.get("fixed")),
-            }
-            rows.append({column: _cell(values[column]) for column in COLUMNS})
-    return rows
+            })
+    return records
+
+
+def summary_rows(data: Mapping[str, Any]) -> list[dict[str, str]]:
+    """The CSV rows of a result in plain-JSON form (:func:`summary_records` as text cells)."""
+    return [{column: _cell(record[column]) for column in COLUMNS} for record in summary_records(data)]
 
 
 def write_summary_csv(data: Mapping[str, Any], path: Path) -> Path:
