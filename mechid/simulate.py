@@ -13,6 +13,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from mechid.catalogue.base import Mechanism
+from mechid.data import TEMPERATURE_RANGE_K
 from mechid.device import Device
 from mechid.errors import MechidError
 
@@ -70,18 +71,23 @@ def simulate_series(
     voltages = np.asarray(voltages_V, dtype=float)
     if temperatures.size == 0 or voltages.size == 0:
         raise MechidError("simulate needs at least one temperature and one voltage")
-    if np.any(~np.isfinite(temperatures)) or np.any(temperatures <= 0):
-        raise MechidError("temperatures must be finite and > 0 K")
+    low, high = TEMPERATURE_RANGE_K
+    if not np.all((temperatures >= low) & (temperatures <= high)):
+        raise MechidError(f"temperatures must lie between {low:g} K and {high:g} K (the range "
+                          "the data reader accepts)")
     if np.any(~np.isfinite(voltages)):
         raise MechidError("voltages must be finite numbers")
-    if noise_relative < 0 or noise_floor_A < 0:
-        raise MechidError("noise levels must be >= 0")
+    if not all(np.isfinite(x) and x >= 0 for x in (noise_relative, noise_floor_A)):
+        raise MechidError("noise levels must be finite numbers >= 0")
     _check_ranges(mechanism, params)
     t_grid, v_grid = (a.ravel() for a in np.meshgrid(temperatures, voltages, indexing="ij"))
     clean = mechanism.current(v_grid, t_grid, params, device)
     if not np.all(np.isfinite(clean)):
         raise MechidError(f"{mechanism.id} is not finite at some requested points; check the parameters")
-    sd = np.sqrt((noise_relative * clean) ** 2 + noise_floor_A**2)
+    with np.errstate(over="ignore"):
+        sd = np.sqrt((noise_relative * clean) ** 2 + noise_floor_A**2)
+    if not np.all(np.isfinite(sd)):
+        raise MechidError("the noise levels are too large: the simulated currents overflow")
     if np.any(sd > 0):
         if rng is None:
             raise MechidError("noise was requested but no random generator (seed) was given")

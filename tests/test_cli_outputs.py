@@ -12,6 +12,8 @@ import shutil
 from pathlib import Path
 
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 from typer.testing import CliRunner
 
 from mechid.cli import app
@@ -132,3 +134,36 @@ def test_demo_out_onto_an_existing_file(tmp_path: Path) -> None:
     assert result.exit_code == 2, result.output
     assert "exists and is not a folder" in result.output
     assert (tmp_path / "taken").read_text() == "keep me"
+
+
+# ------------------------------------------------------------------ property test of the arguments
+
+_TEXT = st.text(alphabet="0123456789.,:-+eE _=abcxyz[]", max_size=12)
+
+
+@settings(max_examples=120, deadline=None, derandomize=True,
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(temperatures=st.one_of(_TEXT, st.sampled_from(["77,300", "20:300:4"])),
+       voltages=st.one_of(_TEXT, st.sampled_from(["0.1,0.2,0.3", "-1:1:5"])),
+       t0=st.one_of(_TEXT, st.sampled_from(["1e6", "5e5"])), noise=st.floats(allow_nan=True),
+       seed=st.integers(-5, 2**70), area=st.one_of(_TEXT, st.just("1e-3")))
+def test_simulate_arguments_end_in_success_or_a_usage_error(tmp_path: Path, temperatures: str,
+                                                           voltages: str, t0: str, noise: float,
+                                                           seed: int, area: str) -> None:
+    out = tmp_path / "sim.csv"
+    out.unlink(missing_ok=True)
+    result = _invoke(["simulate", "mott_vrh", "--out", out, "--temperatures-K", temperatures,
+                      "--voltages-V", voltages, "--param", f"characteristic_temperature_K={t0}",
+                      "--param", "prefactor_S=1e-3", "--noise-relative", noise,
+                      "--seed", seed, "--area-cm2", area])
+    assert result.exit_code in (0, 2), result.output
+    assert (result.exit_code == 0) == out.is_file()
+
+
+@pytest.mark.parametrize("option", ["--noise-relative", "--noise-floor-A"])
+def test_simulate_refuses_nan_noise(tmp_path: Path, option: str) -> None:
+    result = _invoke(["simulate", "mott_vrh", "--out", tmp_path / "s.csv", "--param",
+                      "characteristic_temperature_K=1e6", "--param", "prefactor_S=1e-3",
+                      "--temperatures-K", "77,300", "--voltages-V", "0.1,0.2,0.3", option, "nan"])
+    assert result.exit_code == 2 and "finite" in result.output
+    assert not (tmp_path / "s.csv").exists()
