@@ -167,3 +167,16 @@ def test_simulate_refuses_nan_noise(tmp_path: Path, option: str) -> None:
                       "--temperatures-K", "77,300", "--voltages-V", "0.1,0.2,0.3", option, "nan"])
     assert result.exit_code == 2 and "finite" in result.output
     assert not (tmp_path / "s.csv").exists()
+
+
+def test_read_only_output_folder_fails_before_the_analysis(copied: Path, tmp_path: Path,
+                                                            monkeypatch: pytest.MonkeyPatch) -> None:
+    # Root (as in CI) may write anywhere, so the operating system's answer is stood in for:
+    # the check must ask it (os.access) and refuse before any fit.
+    locked = tmp_path / "locked"
+    locked.mkdir()
+    real_access = os.access
+    monkeypatch.setattr("mechid.outputs.os.access",
+                        lambda path, mode: False if Path(path) == locked else real_access(path, mode))
+    _refused(["analyze", copied / "data.csv", "--quick", "--json", locked / "r.json"],
+             "cannot be written to", copied)
