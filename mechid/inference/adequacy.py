@@ -24,6 +24,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.noise import add_noise
 from mechid.inference.priors import NOISE_RELATIVE
 
 #: Smallest posterior predictive p-value accepted (common practice).
@@ -132,7 +133,7 @@ def check_adequacy(
     model = target.model_current(theta)[:, order]
     sd = target.noise_sd(theta, model)
     observed = target.current_A[order]
-    replicated = model + sd * rng.standard_normal(model.shape)
+    replicated = add_noise(model, sd, rng)
 
     chi2_obs = np.sum(((observed - model) / sd) ** 2, axis=1)
     chi2_rep = np.sum(((replicated - model) / sd) ** 2, axis=1)

@@ -45,6 +45,7 @@ from mechid.catalogue import get_mechanism
 from mechid.catalogue.base import Mechanism, StraightenedPlot
 from mechid.data import IVSeries
 from mechid.device import Device
+from mechid.inference.noise import add_noise, noise_sd
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE
 
 logger = logging.getLogger(__name__)
@@ -542,8 +543,8 @@ def predictive_band(fit: Any, voltage_V: FloatArray, temperature_K: FloatArray,
     physical = {name: values[name] for name in target.mechanism.parameter_names}
     with np.errstate(all="ignore"):
         model = target.mechanism.current(voltage_V, temperature_K, physical, target.device)
-        sd = np.sqrt((values[NOISE_RELATIVE] * model) ** 2 + values[NOISE_FLOOR] ** 2)
-        noisy = model + sd * np.random.default_rng(seed).standard_normal(model.shape)
+        sd = noise_sd(model, values[NOISE_RELATIVE], values[NOISE_FLOOR])
+        noisy = add_noise(model, sd, np.random.default_rng(seed))
     sign = np.sign(voltage_V)
     median = _nan_quantiles(model * sign, [0.5])[0]
     lower, upper = _nan_quantiles(noisy * sign, [0.025, 0.975])
