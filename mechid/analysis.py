@@ -8,8 +8,8 @@ It prints nothing; progress is reported through an optional callback.
 from __future__ import annotations
 
 import time
-from collections.abc import Callable
-from dataclasses import asdict, dataclass, field
+from collections.abc import Callable, Mapping
+from dataclasses import asdict, dataclass, field, replace
 from typing import Any, Literal
 
 import numpy as np
@@ -24,7 +24,14 @@ from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.evidence import FAR_BELOW_MARGIN
 from mechid.inference.fit import MechanismFit
 from mechid.inference.rounds import FitJob, default_workers, fit_in_rounds
-from mechid.inference.tempering import LadderSettings
+from mechid.inference.settings import (
+    FULL_LADDER,
+    FULL_SEARCH,
+    QUICK_LADDER,
+    QUICK_SEARCH,
+    LadderSettings,
+    SearchSettings,
+)
 from mechid.linearise import LinearisationResult, linearise
 from mechid.results import AnalysisResult, MechanismResult, Verdict
 
@@ -45,14 +52,6 @@ FLAG_MEANINGS = {
 }
 Polarity = Literal["both", "positive", "negative"]
 
-#: Ladder settings of a full and of a quick run (see benchmarks/ for the evidence errors).
-FULL_LADDER = {"n_temperatures": 8, "beta_power": 2.0, "n_burn": 150, "n_production": 300,
-               "max_production": 600}
-QUICK_LADDER = {"n_temperatures": 5, "beta_power": 2.0, "n_burn": 60, "n_production": 120,
-                "max_production": 120, "n_walkers": 20}
-#: Mode search and pilot run (see mechid.inference.fit.fit_mechanism) of a full and a quick run.
-FULL_SEARCH = {"pilot_steps": 400, "pilot_max_steps": 2000, "n_polish": 4}
-QUICK_SEARCH = {"pilot_steps": 150, "pilot_max_steps": 300, "n_polish": 2}
 
 
 @dataclass(frozen=True)
@@ -74,6 +73,9 @@ class AnalysisSettings:
     workers : int
         Worker processes fitting mechanisms side by side (0: one per core, at most two).
         The numbers do not depend on it.
+    ladder_overrides : mapping
+        Fields of :class:`~mechid.inference.settings.LadderSettings` that replace the
+        preset's (:data:`~mechid.inference.settings.FULL_LADDER` or ``QUICK_LADDER``).
     """
 
     mechanisms: tuple[str, ...] | None = None
@@ -82,17 +84,15 @@ class AnalysisSettings:
     polarity: Polarity = "both"
     prior_odds: dict[str, float] | None = None
     workers: int = 0
-    ladder_overrides: dict[str, Any] = field(default_factory=dict)
+    ladder_overrides: Mapping[str, Any] = field(default_factory=dict)
 
     def ladder(self) -> LadderSettings:
         """The tempered-ladder settings these choices imply."""
-        base = dict(QUICK_LADDER if self.quick else FULL_LADDER)
-        base.update(self.ladder_overrides)
-        return LadderSettings(**base)
+        return replace(QUICK_LADDER if self.quick else FULL_LADDER, **self.ladder_overrides)
 
-    def search(self) -> dict[str, int]:
-        """Keyword arguments of the mode search and pilot run these choices imply."""
-        return dict(QUICK_SEARCH if self.quick else FULL_SEARCH)
+    def search(self) -> SearchSettings:
+        """The mode search and pilot run these choices imply."""
+        return QUICK_SEARCH if self.quick else FULL_SEARCH
 
 
 @dataclass

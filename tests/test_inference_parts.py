@@ -12,6 +12,8 @@ from mechid.inference.adequacy import check_adequacy, count_runs, model_free_rel
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.priors import Prior, mechanism_priors, noise_priors, parameter_prior
+from mechid.inference.settings import SearchSettings
+from mechid.inference.start import find_map
 
 
 def _ohmic(v, t, device, conductance_S, thickness_nm):
@@ -153,9 +155,7 @@ def test_adequacy_flags_a_wrong_curve_shape_and_passes_the_right_one():
     good = _toy_target(noise_rel=0.02, n_per=25)
     bad = _toy_target(noise_rel=0.02, n_per=25, data_formula=_quadratic)  # data ~V^2, model ~V
     for target, expected in ((good, True), (bad, False)):
-        from mechid.inference.start import find_map
-
-        best = find_map(target, rng)
+        best = find_map(target, rng, search=SearchSettings(n_polish=2))
         draws = best + 1e-3 * rng.standard_normal((400, target.ndim))
         check = check_adequacy(target, draws, rng)
         assert check.adequate is expected, check.reasons

@@ -35,13 +35,9 @@ from sklearn.exceptions import ConvergenceWarning as SklearnConvergenceWarning
 from sklearn.mixture import GaussianMixture
 
 from mechid.errors import ConvergenceWarning
+from mechid.inference.settings import LadderSettings
 from mechid.inference.target import FloatArray, Target, evaluate_target
-from mechid.inference.tempering import (
-    LadderRun,
-    LadderSettings,
-    ProgressCallback,
-    TemperedLadder,
-)
+from mechid.inference.tempering import LadderRun, ProgressCallback, TemperedLadder
 
 #: Time blocks for the batch-means errors.
 N_BATCHES = 10

@@ -17,8 +17,9 @@ from mechid.inference.evidence import FAR_BELOW_MARGIN, EvidenceResult, estimate
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, mechanism_priors
 from mechid.inference.reference import ReferencePathTarget, pilot_reference
+from mechid.inference.settings import LadderSettings, SearchSettings
 from mechid.inference.start import find_modes
-from mechid.inference.tempering import LadderRun, LadderSettings
+from mechid.inference.tempering import LadderRun
 from mechid.results import MechanismResult, ParameterSummary, summarise_draws
 
 #: The nuisance parameters of the noise model (not physics).
@@ -59,9 +60,8 @@ def fit_mechanism(
     rng: np.random.Generator,
     hints: Mapping[str, float] | None = None,
     progress: Callable[[int, int], None] | None = None,
-    pilot_steps: int = 400,
-    pilot_max_steps: int = 2000,
-    n_polish: int = 2,
+    *,
+    search: SearchSettings,
     leader_log_evidence: float | None = None,
 ) -> MechanismFit:
     """Fit one mechanism jointly to all points and estimate its evidence.
@@ -87,13 +87,10 @@ def fit_mechanism(
         Starting values from the linearisation tests.
     progress : callable, optional
         ``progress(done, total)`` during sampling.
-    pilot_steps : int
-        First block of the emcee pilot run (it is extended while still climbing).
-    pilot_max_steps : int
-        Cap on the pilot run's length.
-    n_polish : int
-        Number of diverse screened candidates polished by the mode search; every distinct
-        mode found gets its own component in the reference distribution.
+    search : SearchSettings
+        Mode search and pilot run (:data:`mechid.inference.settings.FULL_SEARCH` or
+        ``QUICK_SEARCH``); every distinct mode found gets its own component in the
+        reference distribution.
     leader_log_evidence : float, optional
         Best log-evidence of the mechanisms already fitted (earlier rounds, see
         :mod:`mechid.inference.rounds`): a mechanism far below it is not refined beyond the
@@ -101,11 +98,10 @@ def fit_mechanism(
     """
     priors = mechanism_priors(mechanism, device, current_A)
     target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
-    modes = find_modes(target, rng, hints, n_polish=n_polish)
+    modes = find_modes(target, rng, hints, search=search)
     start = modes[0].point
-    pilot = pilot_reference(target, [m.point for m in modes], *target.bounds,
-                            rng, n_steps=pilot_steps, max_steps=pilot_max_steps,
-                            log_posteriors=[m.log_posterior for m in modes])
+    pilot = pilot_reference(target, [m.point for m in modes], *target.bounds, rng,
+                            search=search, log_posteriors=[m.log_posterior for m in modes])
     path = ReferencePathTarget(target, pilot.reference)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ConvergenceWarning)
