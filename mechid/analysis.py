@@ -21,8 +21,8 @@ from mechid.device import Device
 from mechid.errors import MechidError
 from mechid.formatting import format_estimate
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
-from mechid.inference.evidence import FAR_BELOW_MARGIN
 from mechid.inference.fit import MechanismFit
+from mechid.inference.flags import SamplerFlag
 from mechid.inference.rounds import FitJob, default_workers, fit_in_rounds
 from mechid.inference.settings import (
     FULL_LADDER,
@@ -37,19 +37,6 @@ from mechid.results import AnalysisResult, MechanismResult, Verdict
 
 ProgressHook = Callable[[str, int, int], None]
 
-#: Sampler flags worth a caution for the leader and the runner-up, in plain words.
-FLAG_MEANINGS = {
-    "not_converged": "the evidence did not reach its precision target within the step cap "
-                     "(its quoted error is still honest; run longer for a tighter value)",
-    "autocorr_short": "the chain is shorter than 50 autocorrelation times: its credible intervals "
-                      "may be too narrow",
-    "low_swap_rate": "few swaps between ladder rungs: the evidence error may be understated",
-    "evidence_methods_disagree": "stepping-stone and bridge sampling disagree beyond their errors",
-    "multimodal_suspected": "the posterior has separated modes (each found mode has its own "
-                            "reference component; intervals span them)",
-    "far_below": f"its evidence was not refined because it lies over {FAR_BELOW_MARGIN:g} nats "
-                 "below a better mechanism: more precision cannot change the ranking",
-}
 Polarity = Literal["both", "positive", "negative"]
 
 
@@ -305,7 +292,7 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
         notes.append("the leading mechanism fails its posterior predictive checks: report it as the "
                      "best of the candidates, not as the mechanism")
     for r in results:
-        flags = [f for f in r.sampling.get("flags", []) if f in FLAG_MEANINGS]
+        flags = [flag for flag in map(SamplerFlag, r.sampling.get("flags", [])) if flag.caution]
         if flags and (verdict is None or r.id in (verdict.id, verdict.runner_up)):
-            notes.append(f"{r.id}: " + "; ".join(FLAG_MEANINGS[f] for f in flags))
+            notes.append(f"{r.id}: " + "; ".join(flag.meaning for flag in flags))
     return notes

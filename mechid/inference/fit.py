@@ -13,7 +13,8 @@ from mechid.catalogue.base import Mechanism
 from mechid.device import Device
 from mechid.errors import ConvergenceWarning
 from mechid.inference.adequacy import AdequacyCheck, check_adequacy
-from mechid.inference.evidence import FAR_BELOW_MARGIN, EvidenceResult, estimate_evidence
+from mechid.inference.evidence import EvidenceResult, estimate_evidence
+from mechid.inference.flags import FAR_BELOW_MARGIN, SamplerFlag
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, mechanism_priors
 from mechid.inference.reference import ReferencePathTarget, pilot_reference
@@ -115,11 +116,11 @@ def fit_mechanism(
     # The reference's mass inside the prior box was itself estimated by Monte Carlo.
     evidence.log_evidence_err = float(np.hypot(evidence.log_evidence_err, pilot.reference.mass_err))
     physical_edge = [name for name in evidence.boundary_parameters if name not in NOISE_PARAMETERS]
-    if "map_on_boundary" in evidence.flags and not physical_edge:
+    if SamplerFlag.MAP_ON_BOUNDARY in evidence.flags and not physical_edge:
         # A noise floor pressed against its lower limit only says the data are clean.
-        evidence.flags.remove("map_on_boundary")
+        evidence.flags.remove(SamplerFlag.MAP_ON_BOUNDARY)
     if len(modes) > 1:
-        evidence.flags.append("multimodal_suspected")
+        evidence.flags.append(SamplerFlag.MULTIMODAL_SUSPECTED)
     evidence.n_likelihood_calls += pilot.n_likelihood_calls
     draws = posterior_draws(run)
     adequacy = check_adequacy(target, draws, rng)
