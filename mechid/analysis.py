@@ -22,7 +22,6 @@ from mechid.errors import MechidError
 from mechid.formatting import format_estimate
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.fit import MechanismFit
-from mechid.inference.flags import SamplerFlag
 from mechid.inference.rounds import FitJob, default_workers, fit_in_rounds
 from mechid.inference.settings import (
     FULL_LADDER,
@@ -33,7 +32,7 @@ from mechid.inference.settings import (
     SearchSettings,
 )
 from mechid.linearise import LinearisationResult, linearise
-from mechid.results import AnalysisResult, MechanismResult, Verdict
+from mechid.results import AnalysisResult, MechanismResult, ParameterSummary, Verdict
 
 ProgressHook = Callable[[str, int, int], None]
 
@@ -82,7 +81,7 @@ class AnalysisSettings:
         return QUICK_SEARCH if self.quick else FULL_SEARCH
 
 
-@dataclass
+@dataclass(frozen=True)
 class AnalysisRun:
     """The result plus the in-memory fits (for figures); only ``result`` is serialised."""
 
@@ -162,11 +161,11 @@ def run_analysis_full(
                "n_points_fitted": int(mask.sum())},
         device=device.to_dict(),
         linearisation=lin.to_dict(),
-        mechanisms=results,
+        mechanisms=tuple(results),
         verdict=verdict,
         settings={**asdict(settings), "ladder": asdict(settings.ladder()),
                   "wall_time_s": time.perf_counter() - started},
-        cautions=cautions(series, device, results, verdict),
+        cautions=tuple(cautions(series, device, results, verdict)),
         seed=seed,
     )
     return AnalysisRun(result, lin, fits, series, device)
@@ -207,15 +206,13 @@ def _ranked_results(fits: dict[str, MechanismFit], settings: AnalysisSettings) -
         {k: f.result.log_evidence_err for k, f in fits.items()},
         prior_odds=settings.prior_odds,
     )
-    ordered = []
-    for i, mechanism_id in enumerate(ranking.ids):
-        r = fits[mechanism_id].result
-        r.probability = ranking.probability[i]
-        r.probability_err = ranking.probability_err[i]
-        r.ln_bayes_factor_vs_best = ranking.ln_bayes_factor_vs_best[i]
-        r.ln_bayes_factor_vs_best_err = ranking.ln_bayes_factor_vs_best_err[i]
-        ordered.append(r)
-    return ordered
+    return [
+        replace(fits[mechanism_id].result,
+                probability=ranking.probability[i], probability_err=ranking.probability_err[i],
+                ln_bayes_factor_vs_best=ranking.ln_bayes_factor_vs_best[i],
+                ln_bayes_factor_vs_best_err=ranking.ln_bayes_factor_vs_best_err[i])
+        for i, mechanism_id in enumerate(ranking.ids)
+    ]
 
 
 def _verdict(results: list[MechanismResult]) -> Verdict:
@@ -234,7 +231,7 @@ def _verdict(results: list[MechanismResult]) -> Verdict:
     )
 
 
-def _format_parameter(name: str, summary: Any) -> str:
+def _format_parameter(name: str, summary: ParameterSummary) -> str:
     if summary.fixed:
         unit = "" if summary.unit in ("", "1") else f" {summary.unit}"
         return f"{name} = {summary.median:.4g}{unit} (held fixed)"
@@ -255,7 +252,7 @@ def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b
                  + ("" if resolved else ", not resolved within the Monte Carlo error") + ")")
     text += f". Parameters: {params}." if params else "."
     text += (" The fit is adequate (posterior predictive checks passed)." if best.fit_adequate
-             else " But the fit is NOT adequate: " + "; ".join(best.adequacy.get("reasons", []))
+             else " But the fit is NOT adequate: " + "; ".join(best.adequacy.reasons)
              + ", so no mechanism in the catalogue describes these data well.")
     return text
 
@@ -292,7 +289,7 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
         notes.append("the leading mechanism fails its posterior predictive checks: report it as the "
                      "best of the candidates, not as the mechanism")
     for r in results:
-        flags = [flag for flag in map(SamplerFlag, r.sampling.get("flags", [])) if flag.caution]
+        flags = [flag for flag in r.sampling.flags if flag.caution]
         if flags and (verdict is None or r.id in (verdict.id, verdict.runner_up)):
             notes.append(f"{r.id}: " + "; ".join(flag.meaning for flag in flags))
     return notes

@@ -137,7 +137,7 @@ def test_reference_curves_present() -> None:
 @pytest.mark.parametrize("curve", REFERENCE_CURVES)
 def test_screening_report_of_every_reference_curve(curve: str) -> None:
     run = analyse(curve, screen_only=True)
-    data = to_plain_json(run.result.to_dict())
+    data = to_plain_json(run.result)
     html_text = build_report_html(run)
     parser = parse(html_text)
     check_images(parser)
@@ -173,7 +173,7 @@ def fitted_outputs(fitted_run: AnalysisRun, tmp_path_factory: pytest.TempPathFac
     written = write_outputs(fitted_run, report=out / "report.html", figures_dir=out / "figures",
                             summary=out / "summary.csv")
     return {"dir": out, "written": written, "html": (out / "report.html").read_text("utf-8"),
-            "data": to_plain_json(fitted_run.result.to_dict())}
+            "data": to_plain_json(fitted_run.result)}
 
 
 def test_fitted_report_embeds_decodable_figures(fitted_outputs: dict[str, Any]) -> None:
@@ -280,7 +280,7 @@ def test_console_summary_matches_the_json(fitted_run: AnalysisRun) -> None:
     console = Console(record=True, width=200)
     render_console(fitted_run.result, console)
     text = console.export_text()
-    data = to_plain_json(fitted_run.result.to_dict())
+    data = to_plain_json(fitted_run.result)
     assert "Straightened-plot screening" in text and "Evidence ranking" in text
     for m in data["mechanisms"]:
         assert m["id"] in text

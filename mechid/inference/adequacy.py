@@ -17,8 +17,7 @@ Thresholds (p >= 0.01, fitted/model-free noise <= 3) are common practice, not th
 
 from __future__ import annotations
 
-from dataclasses import asdict, dataclass
-from typing import Any
+from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
@@ -49,12 +48,6 @@ class AdequacyCheck:
     model_free_relative_noise: float | None
     noise_ratio: float | None
     reasons: tuple[str, ...]
-
-    def to_dict(self) -> dict[str, Any]:
-        """Plain-JSON form."""
-        out = asdict(self)
-        out["reasons"] = list(self.reasons)
-        return out
 
 
 def group_order(voltage_V: NDArray, temperature_K: NDArray) -> tuple[NDArray, NDArray]:

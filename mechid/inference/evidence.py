@@ -24,7 +24,7 @@ from __future__ import annotations
 import math
 import warnings
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 from emcee.autocorr import integrated_time
@@ -551,7 +551,7 @@ class _PriorOnly:
 # --------------------------------------------------------------------------------------
 
 
-@dataclass
+@dataclass(frozen=True)
 class EvidenceResult:
     """Log-evidence estimates, their errors and the diagnostics of one ladder run.
 
@@ -584,7 +584,7 @@ class EvidenceResult:
         Likelihood evaluations (points) of the whole estimate, bridge and Laplace included.
     converged : bool
         True if the error and chain-length targets were met.
-    flags : list of SamplerFlag
+    flags : tuple of SamplerFlag
         What the estimate noticed (see :class:`mechid.inference.flags.SamplerFlag`).
     betas, mean_log_likelihood, var_log_likelihood : ndarray, shape (K,)
         Ladder and :math:`E_\\beta`, :math:`V_\\beta` of log L.
@@ -593,7 +593,7 @@ class EvidenceResult:
     step_effective_fraction : ndarray, shape (K - 1,)
         Relative ESS of each stepping-stone step's weights (``ladder_too_coarse`` below
         :data:`LOW_STEP_ESS`).
-    boundary_parameters : list of str
+    boundary_parameters : tuple of str
         Parameters whose MAP lies within one posterior sd of a prior bound.
     wall_time : float
         Seconds of sampling and estimation.
@@ -615,33 +615,15 @@ class EvidenceResult:
     n_steps: int
     n_likelihood_calls: int
     converged: bool
-    flags: list[SamplerFlag] = field(default_factory=list)
+    flags: tuple[SamplerFlag, ...] = ()
     betas: FloatArray = field(default_factory=lambda: np.empty(0))
     mean_log_likelihood: FloatArray = field(default_factory=lambda: np.empty(0))
     var_log_likelihood: FloatArray = field(default_factory=lambda: np.empty(0))
     swap_acceptance: FloatArray = field(default_factory=lambda: np.empty(0))
     step_effective_fraction: FloatArray = field(default_factory=lambda: np.empty(0))
-    boundary_parameters: list[str] = field(default_factory=list)
+    boundary_parameters: tuple[str, ...] = ()
     wall_time: float = 0.0
 
-    def to_dict(self) -> dict[str, object]:
-        """JSON-ready dictionary: built-in types only, non-finite numbers as ``None``."""
-        return {key: _plain(value) for key, value in self.__dict__.items()}
-
-
-def _plain(value: object) -> object:
-    """Convert NumPy values (and containers of them) to JSON-safe built-ins."""
-    if isinstance(value, np.ndarray):
-        return [_plain(v) for v in value.tolist()]
-    if isinstance(value, (list, tuple)):
-        return [_plain(v) for v in value]
-    if isinstance(value, (bool, np.bool_)):
-        return bool(value)
-    if isinstance(value, (int, np.integer)):
-        return int(value)
-    if isinstance(value, (float, np.floating)):
-        return float(value) if np.isfinite(value) else None
-    return value
 
 
 def _ladder_convergence(
@@ -720,7 +702,7 @@ def estimate_evidence(
         converged, sigma, tau_logl = _ladder_convergence(run, settings)
     result = summarise_ladder(target, run, rng, converged=converged, tau_log_likelihood=tau_logl)
     if far_below:
-        result.flags.append(SamplerFlag.FAR_BELOW)
+        result = replace(result, flags=(*result.flags, SamplerFlag.FAR_BELOW))
     elif not converged:
         warnings.warn(
             f"log-evidence not converged after {run.n_steps} production steps: batch-means "
@@ -824,13 +806,13 @@ def summarise_ladder(
         n_steps=run.n_steps,
         n_likelihood_calls=int(calls),
         converged=converged,
-        flags=flags,
+        flags=tuple(flags),
         betas=betas.copy(),
         mean_log_likelihood=mean,
         var_log_likelihood=var,
         swap_acceptance=run.swap_acceptance.copy(),
         step_effective_fraction=step_ess,
-        boundary_parameters=[target.names[i] for i in laplace.boundary_parameters],
+        boundary_parameters=tuple(target.names[i] for i in laplace.boundary_parameters),
         wall_time=run.wall_time,
     )
 

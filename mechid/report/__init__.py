@@ -37,7 +37,7 @@ def build_report_html(run: Any) -> str:
     from mechid.report.html import render_html
 
     _check_run(run)
-    data = to_plain_json(run.result.to_dict())
+    data = to_plain_json(run.result)
     figures = build_figures(run, data)
     pngs = {f.key: f.png_bytes(HTML_DPI) for f in figures}
     return render_html(data, run, figures, pngs)
@@ -73,7 +73,7 @@ def write_outputs(run: Any, *, report: Path | None = None, figures_dir: Path | N
     from mechid.report.summary import write_summary_csv
 
     _check_run(run)
-    data = to_plain_json(run.result.to_dict())
+    data = to_plain_json(run.result)
     written: list[Path] = []
     try:
         figures = build_figures(run, data) if (report or figures_dir) else []

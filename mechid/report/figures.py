@@ -797,12 +797,12 @@ def build_figures(run: Any, result_dict: Mapping[str, Any] | None = None) -> lis
     run : AnalysisRun
         ``.result``, ``.series``, ``.device`` and ``.fits`` are used.
     result_dict : mapping, optional
-        ``to_plain_json(run.result.to_dict())`` when already computed (the figures read the
+        ``to_plain_json(run.result)`` when already computed (the figures read the
         same numbers as the JSON).
     """
     from mechid.results import to_plain_json
 
-    data = result_dict if result_dict is not None else to_plain_json(run.result.to_dict())
+    data = result_dict if result_dict is not None else to_plain_json(run.result)
     figures = [iv_curves_figure(run.series)]
     zabrodskii = zabrodskii_figure(data.get("linearisation") or {})
     if zabrodskii is not None:

@@ -655,7 +655,7 @@ def render_html(data: Json, run: Any, figures: Sequence[ReportFigure],
     Parameters
     ----------
     data : mapping
-        ``to_plain_json(result.to_dict())`` -- the JSON contract, the source of every number.
+        ``to_plain_json(result)`` -- the JSON contract, the source of every number.
     run : AnalysisRun
         Used for the excluded points of the series.
     figures : sequence of ReportFigure

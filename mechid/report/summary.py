@@ -33,7 +33,7 @@ def _cell(value: Any) -> str:
 
 
 def summary_rows(data: Mapping[str, Any]) -> list[dict[str, str]]:
-    """The CSV rows of a result in plain-JSON form (``to_plain_json(result.to_dict())``)."""
+    """The CSV rows of a result in plain-JSON form (``to_plain_json(result)``)."""
     rows = []
     for rank, m in enumerate(data.get("mechanisms") or [], start=1):
         for name, s in (m.get("parameters") or {}).items():
