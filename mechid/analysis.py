@@ -22,6 +22,7 @@ from mechid.errors import MechidError
 from mechid.formatting import format_estimate
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.fit import MechanismFit
+from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.rounds import FitJob, default_workers, fit_in_rounds
 from mechid.inference.settings import (
     FULL_LADDER,
@@ -83,13 +84,19 @@ class AnalysisSettings:
 
 @dataclass(frozen=True)
 class AnalysisRun:
-    """The result plus the in-memory fits (for figures); only ``result`` is serialised."""
+    """The result, the inputs and what inference hands over for reports.
+
+    Only ``result`` is serialised. Reports read ``result``, ``series``, ``device`` and
+    ``predictive`` (see :class:`mechid.report.ReportRun`); ``fits`` keeps the sampler state
+    for benchmarks and diagnostics.
+    """
 
     result: AnalysisResult
     linearisation: LinearisationResult
     fits: dict[str, MechanismFit]
     series: IVSeries
     device: Device
+    predictive: dict[str, PosteriorPredictive]
 
 
 def select_polarity(series: IVSeries, polarity: Polarity) -> np.ndarray:
@@ -168,7 +175,8 @@ def run_analysis_full(
         cautions=tuple(cautions(series, device, results, verdict)),
         seed=seed,
     )
-    return AnalysisRun(result, lin, fits, series, device)
+    return AnalysisRun(result, lin, fits, series, device,
+                       predictive={mid: fit.predictive for mid, fit in fits.items()})
 
 
 def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:

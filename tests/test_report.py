@@ -15,6 +15,7 @@ import re
 import warnings
 from html.parser import HTMLParser
 from pathlib import Path
+from types import SimpleNamespace
 from typing import Any
 
 import pytest
@@ -262,7 +263,7 @@ def test_summary_csv_rows_equal_the_json(fitted_outputs: dict[str, Any]) -> None
 
 
 def test_corner_labels_carry_units_and_log10(fitted_run: AnalysisRun) -> None:
-    columns, labels, _ = corner_labels(fitted_run.fits["poole_frenkel"])
+    columns, labels, _ = corner_labels(fitted_run.predictive["poole_frenkel"])
     # Poole-Frenkel: phi_T [eV] linear, sigma0 log-uniform in S/cm
     assert "phi_T [eV]" in labels
     assert "log10(sigma0 / S/cm)" in labels
@@ -339,3 +340,13 @@ def test_references_cite_methods_and_catalogue_sources(fitted_outputs: dict[str,
     assert ("Poole-Frenkel emission", get_mechanism("poole_frenkel").source) in sources
     html_text = fitted_outputs["html"]
     assert "Methods" in html_text and "Results" in html_text and "Priors" in html_text
+
+
+def test_report_reads_the_results_and_the_predictive_view_only(
+        fitted_run: AnalysisRun, fitted_outputs: dict[str, Any]) -> None:
+    # Before, the figures reached fit.target and fit.draws_internal: a run without the fits
+    # could not be reported. Now the result records and the view give the same report.
+    reported = SimpleNamespace(result=fitted_run.result, series=fitted_run.series,
+                               device=fitted_run.device, predictive=fitted_run.predictive)
+    assert build_report_html(reported) == fitted_outputs["html"]
+    assert set(fitted_run.predictive) == set(FITTED_MECHANISMS)

@@ -17,6 +17,7 @@ from mechid.inference.adequacy import AdequacyCheck, check_adequacy
 from mechid.inference.evidence import EvidenceResult, estimate_evidence
 from mechid.inference.flags import FAR_BELOW_MARGIN, SamplerFlag
 from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.predictive import PosteriorPredictive, posterior_predictive
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, mechanism_priors
 from mechid.inference.reference import PilotRun, ReferencePathTarget, pilot_reference
 from mechid.inference.settings import LadderSettings, SearchSettings
@@ -38,7 +39,11 @@ NOTABLE_CORRELATION = 0.5
 
 @dataclass(frozen=True)
 class MechanismFit:
-    """A fitted mechanism: the target, the sampler run, the evidence and the summaries."""
+    """A fitted mechanism: the target, the sampler run, the evidence and the summaries.
+
+    ``result`` and ``predictive`` are what reports read; the rest is sampler state for
+    benchmarks and diagnostics.
+    """
 
     target: MechanismTarget
     run: LadderRun
@@ -47,6 +52,7 @@ class MechanismFit:
     map_internal: NDArray
     adequacy: AdequacyCheck
     result: MechanismResult
+    predictive: PosteriorPredictive
 
 
 def posterior_draws(run: LadderRun, max_draws: int = 4000) -> NDArray:
@@ -124,7 +130,8 @@ def fit_mechanism(
     draws = posterior_draws(run)
     adequacy = check_adequacy(target, draws, rng)
     result = _mechanism_result(mechanism, target, evidence, draws, start, adequacy)
-    return MechanismFit(target, run, evidence, draws, start, adequacy, result)
+    return MechanismFit(target, run, evidence, draws, start, adequacy, result,
+                        posterior_predictive(target, draws))
 
 
 def _with_pilot(evidence: EvidenceResult, pilot: PilotRun, multimodal: bool) -> EvidenceResult:
