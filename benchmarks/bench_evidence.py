@@ -30,10 +30,10 @@ import numpy as np
 from scipy import stats
 
 from mechid.inference.evidence import batch_means_error, estimate_evidence, stepping_stone
+from mechid.inference.settings import LadderSettings
 from mechid.inference.target import FunctionTarget
 from mechid.inference.tempering import (
     DifferentialEvolutionProposal,
-    LadderSettings,
     StretchProposal,
     temperature_ladder,
 )
@@ -152,7 +152,8 @@ def main() -> None:
     parser.add_argument("--dims", type=int, nargs="+", default=[4, 6])
     parser.add_argument("--points", type=int, default=800)
     args = parser.parse_args()
-    base = LadderSettings(n_temperatures=12, n_burn=300, n_production=600)
+    base = LadderSettings(n_temperatures=12, beta_power=4.0, n_burn=300, n_production=600,
+                          max_production=3000)
     stacked = {
         "stacked DE0.8+snooker0.2": base.proposals,
         "stacked DE": ((DifferentialEvolutionProposal(), 1.0),),
@@ -172,7 +173,7 @@ def main() -> None:
         problem = linear_gaussian(ndim, args.points)
         for name, proposals in stacked.items():
             settings = LadderSettings(
-                n_temperatures=base.n_temperatures, n_burn=base.n_burn,
+                n_temperatures=base.n_temperatures, beta_power=base.beta_power, n_burn=base.n_burn,
                 n_production=base.n_production, max_production=base.n_production,
                 proposals=proposals, target_sigma=10.0, tau_multiple=0.0,
             )

@@ -60,7 +60,7 @@ def main() -> None:
                                     mechanisms=tuple(args.mechanisms) if args.mechanisms else None)
         run, _ = timed("analysis", lambda: run_analysis_full(series, device, settings, seed=0))
 
-    data = to_plain_json(run.result.to_dict())
+    data = to_plain_json(run.result)
     figures, t_build = timed("build figures", lambda: build_figures(run, data))
     pngs, t_png = timed("render PNGs for the HTML",
                         lambda: {f.key: f.png_bytes(HTML_DPI) for f in figures})

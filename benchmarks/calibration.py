@@ -83,7 +83,7 @@ from mechid.device import Device, device_from_values
 from mechid.errors import ConvergenceWarning
 from mechid.inference.fit import MechanismFit, fit_mechanism
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, parameter_prior
-from mechid.inference.tempering import LadderSettings
+from mechid.inference.settings import FULL_SEARCH, LadderSettings, SearchSettings
 from mechid.simulate import simulate_series
 
 REPO_ROOT = Path(__file__).resolve().parent.parent
@@ -288,12 +288,11 @@ def run_once(
     ladder: LadderSettings,
     rng: np.random.Generator,
     region: TruthRegion = TruthRegion(),
-    search: Mapping[str, int] | None = None,
+    search: SearchSettings = FULL_SEARCH,
 ) -> tuple[RunRecord, MechanismFit | None]:
     """Draw a truth, simulate, fit and score one run; failures are recorded, not raised.
 
-    ``search`` holds the mode-search and pilot settings (``AnalysisSettings.search()``; the
-    defaults of :func:`fit_mechanism` when omitted).
+    ``search`` holds the mode-search and pilot settings (``AnalysisSettings.search()``).
     """
     device = scenario_device(scenario)
     truth_rng, noise_rng, fit_rng = rng.spawn(3)
@@ -305,7 +304,7 @@ def run_once(
         with warnings.catch_warnings(record=True) as caught:
             warnings.simplefilter("always", ConvergenceWarning)
             fit = fit_mechanism(mechanism, voltage, temperature, current, device, ladder, fit_rng,
-                                **(search or {}))
+                                search=search)
     except Exception as exc:  # noqa: BLE001 (a failed fit is an outcome of the study)
         record.wall_time = time.perf_counter() - started
         record.error = f"{type(exc).__name__}: {exc}"
@@ -411,7 +410,7 @@ def run_study(
     region: TruthRegion = TruthRegion(),
     budget_s: float | None = None,
     verbose: bool = True,
-    search: Mapping[str, int] | None = None,
+    search: SearchSettings = FULL_SEARCH,
 ) -> list[RunRecord]:
     """Run the study, interleaving mechanisms so a time budget leaves them balanced.
 
@@ -431,7 +430,7 @@ def run_study(
         Start no new round of runs after this many seconds.
     verbose : bool
         Print one progress line per run.
-    search : mapping, optional
+    search : SearchSettings
         Mode-search and pilot settings of every fit.
     """
     scenarios = load_scenarios()

@@ -49,7 +49,7 @@ def main() -> None:
             began = time.perf_counter()
             fit = fit_mechanism(get_mechanism(mechanism_id), series.voltage_V, series.temperature_K,
                                 series.current_A, device, settings.ladder(),
-                                np.random.default_rng(1000 + seed), **settings.search())
+                                np.random.default_rng(1000 + seed), search=settings.search())
             seconds.append(time.perf_counter() - began)
             values.append(fit.evidence.log_evidence)
             errors.append(fit.evidence.log_evidence_err)

@@ -8,8 +8,8 @@ It prints nothing; progress is reported through an optional callback.
 from __future__ import annotations
 
 import time
-from collections.abc import Callable
-from dataclasses import asdict, dataclass, field
+from collections.abc import Callable, Mapping
+from dataclasses import asdict, dataclass, field, replace
 from typing import Any, Literal
 
 import numpy as np
@@ -21,38 +21,24 @@ from mechid.device import Device
 from mechid.errors import MechidError
 from mechid.formatting import format_estimate
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
-from mechid.inference.evidence import FAR_BELOW_MARGIN
 from mechid.inference.fit import MechanismFit
+from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.rounds import FitJob, default_workers, fit_in_rounds
-from mechid.inference.tempering import LadderSettings
+from mechid.inference.settings import (
+    FULL_LADDER,
+    FULL_SEARCH,
+    QUICK_LADDER,
+    QUICK_SEARCH,
+    LadderSettings,
+    SearchSettings,
+)
 from mechid.linearise import LinearisationResult, linearise
-from mechid.results import AnalysisResult, MechanismResult, Verdict
+from mechid.results import AnalysisResult, MechanismResult, ParameterSummary, Verdict
 
 ProgressHook = Callable[[str, int, int], None]
 
-#: Sampler flags worth a caution for the leader and the runner-up, in plain words.
-FLAG_MEANINGS = {
-    "not_converged": "the evidence did not reach its precision target within the step cap "
-                     "(its quoted error is still honest; run longer for a tighter value)",
-    "autocorr_short": "the chain is shorter than 50 autocorrelation times: its credible intervals "
-                      "may be too narrow",
-    "low_swap_rate": "few swaps between ladder rungs: the evidence error may be understated",
-    "evidence_methods_disagree": "stepping-stone and bridge sampling disagree beyond their errors",
-    "multimodal_suspected": "the posterior has separated modes (each found mode has its own "
-                            "reference component; intervals span them)",
-    "far_below": f"its evidence was not refined because it lies over {FAR_BELOW_MARGIN:g} nats "
-                 "below a better mechanism: more precision cannot change the ranking",
-}
 Polarity = Literal["both", "positive", "negative"]
 
-#: Ladder settings of a full and of a quick run (see benchmarks/ for the evidence errors).
-FULL_LADDER = {"n_temperatures": 8, "beta_power": 2.0, "n_burn": 150, "n_production": 300,
-               "max_production": 600}
-QUICK_LADDER = {"n_temperatures": 5, "beta_power": 2.0, "n_burn": 60, "n_production": 120,
-                "max_production": 120, "n_walkers": 20}
-#: Mode search and pilot run (see mechid.inference.fit.fit_mechanism) of a full and a quick run.
-FULL_SEARCH = {"pilot_steps": 400, "pilot_max_steps": 2000, "n_polish": 4}
-QUICK_SEARCH = {"pilot_steps": 150, "pilot_max_steps": 300, "n_polish": 2}
 
 
 @dataclass(frozen=True)
@@ -74,6 +60,9 @@ class AnalysisSettings:
     workers : int
         Worker processes fitting mechanisms side by side (0: one per core, at most two).
         The numbers do not depend on it.
+    ladder_overrides : mapping
+        Fields of :class:`~mechid.inference.settings.LadderSettings` that replace the
+        preset's (:data:`~mechid.inference.settings.FULL_LADDER` or ``QUICK_LADDER``).
     """
 
     mechanisms: tuple[str, ...] | None = None
@@ -82,28 +71,32 @@ class AnalysisSettings:
     polarity: Polarity = "both"
     prior_odds: dict[str, float] | None = None
     workers: int = 0
-    ladder_overrides: dict[str, Any] = field(default_factory=dict)
+    ladder_overrides: Mapping[str, Any] = field(default_factory=dict)
 
     def ladder(self) -> LadderSettings:
         """The tempered-ladder settings these choices imply."""
-        base = dict(QUICK_LADDER if self.quick else FULL_LADDER)
-        base.update(self.ladder_overrides)
-        return LadderSettings(**base)
+        return replace(QUICK_LADDER if self.quick else FULL_LADDER, **self.ladder_overrides)
 
-    def search(self) -> dict[str, int]:
-        """Keyword arguments of the mode search and pilot run these choices imply."""
-        return dict(QUICK_SEARCH if self.quick else FULL_SEARCH)
+    def search(self) -> SearchSettings:
+        """The mode search and pilot run these choices imply."""
+        return QUICK_SEARCH if self.quick else FULL_SEARCH
 
 
-@dataclass
+@dataclass(frozen=True)
 class AnalysisRun:
-    """The result plus the in-memory fits (for figures); only ``result`` is serialised."""
+    """The result, the inputs and what inference hands over for reports.
+
+    Only ``result`` is serialised. Reports read ``result``, ``series``, ``device`` and
+    ``predictive`` (see :class:`mechid.report.ReportRun`); ``fits`` keeps the sampler state
+    for benchmarks and diagnostics.
+    """
 
     result: AnalysisResult
     linearisation: LinearisationResult
     fits: dict[str, MechanismFit]
     series: IVSeries
     device: Device
+    predictive: dict[str, PosteriorPredictive]
 
 
 def select_polarity(series: IVSeries, polarity: Polarity) -> np.ndarray:
@@ -175,14 +168,15 @@ def run_analysis_full(
                "n_points_fitted": int(mask.sum())},
         device=device.to_dict(),
         linearisation=lin.to_dict(),
-        mechanisms=results,
+        mechanisms=tuple(results),
         verdict=verdict,
         settings={**asdict(settings), "ladder": asdict(settings.ladder()),
                   "wall_time_s": time.perf_counter() - started},
-        cautions=cautions(series, device, results, verdict),
+        cautions=tuple(cautions(series, device, results, verdict)),
         seed=seed,
     )
-    return AnalysisRun(result, lin, fits, series, device)
+    return AnalysisRun(result, lin, fits, series, device,
+                       predictive={mid: fit.predictive for mid, fit in fits.items()})
 
 
 def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:
@@ -220,15 +214,13 @@ def _ranked_results(fits: dict[str, MechanismFit], settings: AnalysisSettings) -
         {k: f.result.log_evidence_err for k, f in fits.items()},
         prior_odds=settings.prior_odds,
     )
-    ordered = []
-    for i, mechanism_id in enumerate(ranking.ids):
-        r = fits[mechanism_id].result
-        r.probability = ranking.probability[i]
-        r.probability_err = ranking.probability_err[i]
-        r.ln_bayes_factor_vs_best = ranking.ln_bayes_factor_vs_best[i]
-        r.ln_bayes_factor_vs_best_err = ranking.ln_bayes_factor_vs_best_err[i]
-        ordered.append(r)
-    return ordered
+    return [
+        replace(fits[mechanism_id].result,
+                probability=ranking.probability[i], probability_err=ranking.probability_err[i],
+                ln_bayes_factor_vs_best=ranking.ln_bayes_factor_vs_best[i],
+                ln_bayes_factor_vs_best_err=ranking.ln_bayes_factor_vs_best_err[i])
+        for i, mechanism_id in enumerate(ranking.ids)
+    ]
 
 
 def _verdict(results: list[MechanismResult]) -> Verdict:
@@ -247,7 +239,7 @@ def _verdict(results: list[MechanismResult]) -> Verdict:
     )
 
 
-def _format_parameter(name: str, summary: Any) -> str:
+def _format_parameter(name: str, summary: ParameterSummary) -> str:
     if summary.fixed:
         unit = "" if summary.unit in ("", "1") else f" {summary.unit}"
         return f"{name} = {summary.median:.4g}{unit} (held fixed)"
@@ -268,7 +260,7 @@ def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b
                  + ("" if resolved else ", not resolved within the Monte Carlo error") + ")")
     text += f". Parameters: {params}." if params else "."
     text += (" The fit is adequate (posterior predictive checks passed)." if best.fit_adequate
-             else " But the fit is NOT adequate: " + "; ".join(best.adequacy.get("reasons", []))
+             else " But the fit is NOT adequate: " + "; ".join(best.adequacy.reasons)
              + ", so no mechanism in the catalogue describes these data well.")
     return text
 
@@ -305,7 +297,7 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
         notes.append("the leading mechanism fails its posterior predictive checks: report it as the "
                      "best of the candidates, not as the mechanism")
     for r in results:
-        flags = [f for f in r.sampling.get("flags", []) if f in FLAG_MEANINGS]
+        flags = [flag for flag in r.sampling.flags if flag.caution]
         if flags and (verdict is None or r.id in (verdict.id, verdict.runner_up)):
-            notes.append(f"{r.id}: " + "; ".join(FLAG_MEANINGS[f] for f in flags))
+            notes.append(f"{r.id}: " + "; ".join(flag.meaning for flag in flags))
     return notes

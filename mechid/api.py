@@ -62,7 +62,7 @@ class Analysis:
 
     def to_dict(self) -> dict[str, Any]:
         """The result as plain JSON types: the ``mechid.result/1`` contract."""
-        return to_plain_json(self.run.result.to_dict())
+        return to_plain_json(self.run.result)
 
     def parameter_table(self) -> list[dict[str, Any]]:
         """One row per mechanism and parameter (ready for ``pandas.DataFrame(rows)``).

@@ -6,47 +6,81 @@ reports and the command line read these objects, never raw sampler state.
 
 from __future__ import annotations
 
+import dataclasses
 import json
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass, field
+from enum import Enum
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 from numpy.typing import NDArray
 
 from mechid import __version__
+from mechid.inference.flags import SamplerFlag
+
+if TYPE_CHECKING:
+    from mechid.inference.adequacy import AdequacyCheck
+    from mechid.inference.evidence import EvidenceResult
+    from mechid.inference.priors import Prior
 
 SCHEMA = "mechid.result/1"
 
 
+#: Field metadata that keeps a field out of the JSON (e.g. posterior draws, see --samples).
+NOT_IN_JSON = {"json": False}
+
+
 @dataclass(frozen=True)
 class ParameterSummary:
-    """Posterior summary of one parameter in physical units."""
+    """Posterior summary of one parameter in physical units.
 
-    name: str
-    unit: str
+    JSON: ``{"median", "ci68", "ci95", "unit", "fixed"}`` (the name is the key).
+    """
+
+    name: str = field(metadata=NOT_IN_JSON)
     median: float
     ci68: tuple[float, float]
     ci95: tuple[float, float]
+    unit: str
     fixed: bool = False
-
-    def to_dict(self) -> dict[str, Any]:
-        """The contract's ``{"median", "ci68", "ci95", "unit"}`` (plus ``fixed``)."""
-        return {"median": self.median, "ci68": list(self.ci68), "ci95": list(self.ci95),
-                "unit": self.unit, "fixed": self.fixed}
 
 
 def summarise_draws(name: str, unit: str, draws: NDArray) -> ParameterSummary:
     """Median and central 68 % / 95 % credible intervals of 1-D posterior draws."""
     q = np.quantile(np.asarray(draws, dtype=float), [0.025, 0.16, 0.5, 0.84, 0.975])
-    return ParameterSummary(name, unit, float(q[2]), (float(q[1]), float(q[3])),
-                            (float(q[0]), float(q[4])))
+    return ParameterSummary(name=name, median=float(q[2]), ci68=(float(q[1]), float(q[3])),
+                            ci95=(float(q[0]), float(q[4])), unit=unit)
 
 
-@dataclass
+def held_fixed(name: str, unit: str, value: float) -> ParameterSummary:
+    """The summary of a parameter held at ``value`` (every interval is the point)."""
+    return ParameterSummary(name=name, median=value, ci68=(value, value), ci95=(value, value),
+                            unit=unit, fixed=True)
+
+
+@dataclass(frozen=True)
+class SamplingSummary:
+    """How well the beta = 1 chain sampled the posterior (the contract's ``"sampling"``)."""
+
+    n_draws: int
+    autocorr_time: tuple[float, ...]
+    effective_sample_size: float
+    n_likelihood_calls: int
+    flags: tuple[SamplerFlag, ...]
+
+
+@dataclass(frozen=True)
 class MechanismResult:
-    """Everything learned about one mechanism from the joint fit."""
+    """Everything learned about one mechanism from the joint fit (built once, never changed).
+
+    The ranking fields (probability, Bayes factors against the best) are NaN as the fit
+    builds it; the comparison makes the ranked copy with :func:`dataclasses.replace`.
+    ``bayes_factor_vs_best`` is derived from ``ln_bayes_factor_vs_best``. The field order
+    is the JSON order.
+    """
 
     id: str
     family: str
@@ -55,38 +89,25 @@ class MechanismResult:
     source: str
     log_evidence: float
     log_evidence_err: float
-    probability: float = float("nan")
-    probability_err: float = float("nan")
-    ln_bayes_factor_vs_best: float = float("nan")
-    ln_bayes_factor_vs_best_err: float = float("nan")
-    fit_adequate: bool = False
-    adequacy: dict[str, Any] = field(default_factory=dict)
-    priors: list[dict[str, Any]] = field(default_factory=list)
-    parameters: dict[str, ParameterSummary] = field(default_factory=dict)
-    correlations: dict[str, Any] = field(default_factory=dict)
-    evidence: dict[str, Any] = field(default_factory=dict)
-    sampling: dict[str, Any] = field(default_factory=dict)
-    map_parameters: dict[str, float] = field(default_factory=dict)
+    probability: float
+    probability_err: float
+    bayes_factor_vs_best: float = field(init=False)
+    ln_bayes_factor_vs_best: float
+    ln_bayes_factor_vs_best_err: float
+    fit_adequate: bool
+    adequacy: AdequacyCheck
+    priors: tuple[Prior, ...]
+    parameters: dict[str, ParameterSummary]
+    map_parameters: dict[str, float]
+    correlations: dict[str, Any]
+    evidence: EvidenceResult
+    sampling: SamplingSummary
     # Posterior draws in physical units (not serialised into the JSON; see --samples).
-    draws: dict[str, NDArray] = field(default_factory=dict, repr=False)
+    draws: dict[str, NDArray] = field(default_factory=dict, repr=False, compare=False,
+                                      metadata=NOT_IN_JSON)
 
-    def to_dict(self) -> dict[str, Any]:
-        """The contract entry of ``"mechanisms"``."""
-        return {
-            "id": self.id, "family": self.family, "name": self.name,
-            "formula": self.formula, "source": self.source,
-            "log_evidence": self.log_evidence, "log_evidence_err": self.log_evidence_err,
-            "probability": self.probability, "probability_err": self.probability_err,
-            "bayes_factor_vs_best": _exp_or_zero(self.ln_bayes_factor_vs_best),
-            "ln_bayes_factor_vs_best": self.ln_bayes_factor_vs_best,
-            "ln_bayes_factor_vs_best_err": self.ln_bayes_factor_vs_best_err,
-            "fit_adequate": self.fit_adequate, "adequacy": self.adequacy,
-            "priors": self.priors,
-            "parameters": {k: v.to_dict() for k, v in self.parameters.items()},
-            "map_parameters": self.map_parameters,
-            "correlations": self.correlations,
-            "evidence": self.evidence, "sampling": self.sampling,
-        }
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "bayes_factor_vs_best", _exp_or_zero(self.ln_bayes_factor_vs_best))
 
 
 def _exp_or_zero(ln_value: float) -> float:
@@ -98,61 +119,41 @@ def _exp_or_zero(ln_value: float) -> float:
     return math.exp(ln_value) if ln_value > -745 else 0.0
 
 
-@dataclass
+@dataclass(frozen=True)
 class Verdict:
     """The headline: the leading mechanism and how strongly the data prefer it."""
 
     id: str
     family: str
     probability: float
+    runner_up: str | None
+    bayes_factor_vs_runner_up: float = field(init=False)
     ln_bayes_factor_vs_runner_up: float
     ln_bayes_factor_vs_runner_up_err: float
-    runner_up: str | None
     strength: str
     resolved: bool
     fit_adequate: bool
     sentence: str
 
-    def to_dict(self) -> dict[str, Any]:
-        """The contract's ``"verdict"`` object."""
-        return {
-            "id": self.id, "family": self.family, "probability": self.probability,
-            "runner_up": self.runner_up,
-            "bayes_factor_vs_runner_up": _exp_or_zero(self.ln_bayes_factor_vs_runner_up),
-            "ln_bayes_factor_vs_runner_up": self.ln_bayes_factor_vs_runner_up,
-            "ln_bayes_factor_vs_runner_up_err": self.ln_bayes_factor_vs_runner_up_err,
-            "strength": self.strength, "resolved": self.resolved,
-            "fit_adequate": self.fit_adequate, "sentence": self.sentence,
-        }
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "bayes_factor_vs_runner_up",
+                           _exp_or_zero(self.ln_bayes_factor_vs_runner_up))
 
 
-@dataclass
+@dataclass(frozen=True)
 class AnalysisResult:
-    """The whole outcome of ``mechid analyze``."""
+    """The whole outcome of ``mechid analyze`` (the JSON contract ``mechid.result/1``)."""
 
+    schema: str = field(default=SCHEMA, init=False)
+    mechid_version: str = field(default=__version__, init=False)
+    seed: int | None
     input: dict[str, Any]
     device: dict[str, Any]
-    linearisation: dict[str, Any]
-    mechanisms: list[MechanismResult]
-    verdict: Verdict | None
     settings: dict[str, Any]
-    cautions: list[str] = field(default_factory=list)
-    seed: int | None = None
-
-    def to_dict(self) -> dict[str, Any]:
-        """The full JSON contract ``mechid.result/1``."""
-        return {
-            "schema": SCHEMA,
-            "mechid_version": __version__,
-            "seed": self.seed,
-            "input": self.input,
-            "device": self.device,
-            "settings": self.settings,
-            "linearisation": self.linearisation,
-            "mechanisms": [m.to_dict() for m in self.mechanisms],
-            "verdict": None if self.verdict is None else self.verdict.to_dict(),
-            "cautions": list(self.cautions),
-        }
+    linearisation: dict[str, Any]
+    mechanisms: tuple[MechanismResult, ...]
+    verdict: Verdict | None
+    cautions: tuple[str, ...]
 
     def mechanism(self, mechanism_id: str) -> MechanismResult:
         """The result for one mechanism id."""
@@ -160,8 +161,23 @@ class AnalysisResult:
 
 
 def to_plain_json(value: Any) -> Any:
-    """Convert NumPy scalars/arrays, tuples and non-finite floats (-> None) to plain JSON."""
-    if isinstance(value, dict):
+    """The one JSON converter: result records to built-in types, ready for ``json.dumps``.
+
+    Dataclasses become dicts of their fields (in field order; fields whose metadata is
+    :data:`NOT_IN_JSON` are left out),
+    enums their value, NumPy scalars and arrays Python numbers and lists, tuples lists, and
+    non-finite floats ``None`` (strict JSON, as ``docs/result-schema.md`` says). Objects with
+    a ``to_dict`` method of their own (the screening records and the device) are converted
+    from it.
+    """
+    if dataclasses.is_dataclass(value) and not isinstance(value, type):
+        if hasattr(value, "to_dict"):
+            return to_plain_json(value.to_dict())
+        names = [f.name for f in dataclasses.fields(value) if f.metadata.get("json", True)]
+        return {name: to_plain_json(getattr(value, name)) for name in names}
+    if isinstance(value, Enum):
+        return to_plain_json(value.value)
+    if isinstance(value, Mapping):
         return {str(k): to_plain_json(v) for k, v in value.items()}
     if isinstance(value, list | tuple):
         return [to_plain_json(v) for v in value]
@@ -179,7 +195,7 @@ def to_plain_json(value: Any) -> Any:
 
 def write_json(result: AnalysisResult, path: Path) -> None:
     """Write the result as strict JSON (non-finite numbers become null)."""
-    text = json.dumps(to_plain_json(result.to_dict()), indent=2, allow_nan=False)
+    text = json.dumps(to_plain_json(result), indent=2, allow_nan=False)
     path.write_text(text + "\n", encoding="utf-8")
 
 

@@ -1,6 +1,6 @@
 """Simulate I-V-T series from a catalogue mechanism, optionally with the fit's noise model.
 
-The noise model is the one the Bayesian fit assumes (:mod:`mechid.inference.likelihood`):
+The noise model is the one the Bayesian fit assumes (:mod:`mechid.inference.noise`):
 Gaussian with standard deviation sqrt((s_rel * I)^2 + floor^2).
 """
 
@@ -16,6 +16,7 @@ from mechid.catalogue.base import Mechanism
 from mechid.data import TEMPERATURE_RANGE_K
 from mechid.device import Device
 from mechid.errors import MechidError
+from mechid.inference.noise import add_noise, noise_sd
 
 
 @dataclass(frozen=True)
@@ -85,13 +86,13 @@ def simulate_series(
     if not np.all(np.isfinite(clean)):
         raise MechidError(f"{mechanism.id} is not finite at some requested points; check the parameters")
     with np.errstate(over="ignore"):
-        sd = np.sqrt((noise_relative * clean) ** 2 + noise_floor_A**2)
+        sd = noise_sd(clean, noise_relative, noise_floor_A)
     if not np.all(np.isfinite(sd)):
         raise MechidError("the noise levels are too large: the simulated currents overflow")
     if np.any(sd > 0):
         if rng is None:
             raise MechidError("noise was requested but no random generator (seed) was given")
-        noisy = clean + sd * rng.standard_normal(clean.shape)
+        noisy = add_noise(clean, sd, rng)
     else:
         noisy = clean.copy()
     return SimulatedSeries(t_grid, v_grid, noisy, clean)

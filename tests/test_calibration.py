@@ -26,7 +26,7 @@ import pytest
 
 from mechid.analysis import AnalysisSettings
 from mechid.catalogue import get_mechanism
-from mechid.inference.tempering import LadderSettings
+from mechid.inference.settings import LadderSettings, SearchSettings
 
 BENCHMARK = Path(__file__).resolve().parents[1] / "benchmarks" / "calibration.py"
 
@@ -55,7 +55,8 @@ def _study(mechanism_id: str, runs: int, ladder: LadderSettings, seed: int) -> l
     """(record, fit) pairs of ``runs`` runs of one mechanism."""
     scenario = calibration.load_scenarios()[mechanism_id]
     mechanism = get_mechanism(mechanism_id)
-    return [calibration.run_once(mechanism, scenario, ladder, rng)
+    return [calibration.run_once(mechanism, scenario, ladder, rng,
+                                 search=SearchSettings(n_polish=2))
             for rng in np.random.default_rng(seed).spawn(runs)]
 
 

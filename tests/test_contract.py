@@ -16,6 +16,7 @@ import pytest
 from typer.testing import CliRunner
 
 from mechid.cli import app
+from mechid.inference.flags import SamplerFlag
 
 ROOT = Path(__file__).resolve().parents[1]
 SCHEMA_DOC = ROOT / "docs" / "result-schema.md"
@@ -236,3 +237,23 @@ def test_verdict_names_leader_bayes_factor_and_strength(result):
     assert isinstance(verdict["resolved"], bool) and isinstance(verdict["fit_adequate"], bool)
     assert verdict["fit_adequate"] is first["fit_adequate"]
     assert first["id"] in verdict["sentence"] and expected in verdict["sentence"]
+
+
+def _documented_flags() -> list[tuple[str, str]]:
+    """(name, meaning) of each item of the schema document's list of sampler flags."""
+    text = SCHEMA_DOC.read_text(encoding="utf-8")
+    section = text[text.index("`sampling.flags` (and `evidence.flags`)"):]
+    section = section[:section.index("\n\n", section.index("\n- "))]
+    return re.findall(r"^- `([a-z_]+)`: (.+)\.$", section, flags=re.MULTILINE)
+
+
+def test_document_lists_exactly_the_sampler_flags_with_their_meanings():
+    # The enum is the one place flags are made and explained; the document must say the same.
+    documented = _documented_flags()
+    assert documented == [(flag.value, flag.meaning) for flag in SamplerFlag]
+
+
+def test_flags_in_the_json_are_plain_strings_of_the_enum(result):
+    for mechanism in result["mechanisms"]:
+        for flags in (mechanism["sampling"]["flags"], mechanism["evidence"]["flags"]):
+            assert all(isinstance(flag, str) and SamplerFlag(flag).meaning for flag in flags)

@@ -31,10 +31,12 @@ from mechid.inference.evidence import (
     estimate_evidence,
     stepping_stone,
 )
+from mechid.inference.settings import LadderSettings
 from mechid.inference.target import FunctionTarget
-from mechid.inference.tempering import LadderSettings, temperature_ladder
+from mechid.inference.tempering import temperature_ladder
+from mechid.results import to_plain_json
 
-PT_FAST = LadderSettings(n_temperatures=12, n_burn=200, n_production=600, max_production=600,
+PT_FAST = LadderSettings(n_temperatures=12, beta_power=4.0, n_burn=200, n_production=600, max_production=600,
                          target_sigma=10.0, tau_multiple=0.0)
 
 
@@ -247,7 +249,7 @@ def test_pt_stepping_stone_ti_and_bridge_match_closed_form(model, pt_run):
     left, right = result.ti_bracket
     assert left - 3 * result.log_evidence_ti_err <= exact <= right + 3 * result.log_evidence_ti_err
     assert abs(result.log_evidence_laplace - exact) < 0.2  # Gaussian posterior: Laplace exact
-    assert result.converged and result.flags == []
+    assert result.converged and result.flags == ()
     assert result.n_likelihood_calls >= run.n_likelihood_evaluations > 12 * 32 * 800 * 0.9
     np.testing.assert_allclose(result.mean_log_likelihood[-1],
                                model.moments(1.0)[0], atol=0.3)
@@ -255,11 +257,11 @@ def test_pt_stepping_stone_ti_and_bridge_match_closed_form(model, pt_run):
 
 def test_result_serialises_to_strict_json(pt_run):
     _, result = pt_run
-    text = json.dumps(result.to_dict(), allow_nan=False)
+    text = json.dumps(to_plain_json(result), allow_nan=False)
     assert json.loads(text)["log_evidence"] == pytest.approx(result.log_evidence)
 
 
-SMALL = LadderSettings(n_temperatures=6, n_burn=60, n_production=200, max_production=200,
+SMALL = LadderSettings(n_temperatures=6, beta_power=4.0, n_burn=60, n_production=200, max_production=200,
                       target_sigma=10.0, tau_multiple=0.0)
 
 
@@ -354,7 +356,7 @@ def test_prior_width_and_ignored_parameter_change_log_evidence_as_expected(small
     lower, upper = w_hat - 8 * sd, w_hat + 8 * sd
     wider_upper = upper.copy()
     wider_upper[1] += upper[1] - lower[1]
-    settings = LadderSettings(n_temperatures=10, n_burn=150, n_production=400,
+    settings = LadderSettings(n_temperatures=10, beta_power=4.0, n_burn=150, n_production=400,
                               max_production=400, target_sigma=10.0, tau_multiple=0.0)
     rng = np.random.default_rng(12)
     _, narrow = estimate_evidence(box_target(small_model, lower, upper), settings, rng)
@@ -390,7 +392,7 @@ def test_gaussian_shells():
     radial, _ = integrate.quad(lambda p: 2 * math.pi * p * stats.norm(2.0, 0.1).pdf(p), 0, 10)
     exact = math.log(2 * radial) - math.log(144.0)
     assert exact == pytest.approx(-1.7456, abs=1e-4)
-    settings = LadderSettings(n_temperatures=12, n_burn=300, n_production=700,
+    settings = LadderSettings(n_temperatures=12, beta_power=4.0, n_burn=300, n_production=700,
                               max_production=700, target_sigma=10.0, tau_multiple=0.0)
     _, result = estimate_evidence(shells_target(), settings, np.random.default_rng(4))
     assert abs(result.log_evidence - exact) < 0.1
@@ -404,7 +406,7 @@ def test_bayes_factor_of_nested_polynomials():
     linear = LinearGaussian(quadratic.design[:, :2], quadratic.y, quadratic.sigma,
                             np.zeros(2), quadratic.s0[:2, :2])
     exact = quadratic.log_evidence() - linear.log_evidence()
-    settings = LadderSettings(n_temperatures=12, n_burn=200, n_production=800,
+    settings = LadderSettings(n_temperatures=12, beta_power=4.0, n_burn=200, n_production=800,
                               max_production=800, target_sigma=10.0, tau_multiple=0.0)
     _, z2 = estimate_evidence(quadratic.target(), settings, np.random.default_rng(31))
     _, z1 = estimate_evidence(linear.target(), settings, np.random.default_rng(32))
@@ -422,16 +424,16 @@ def test_likelihood_zero_on_part_of_the_prior():
         lambda t: np.where(t[:, 0] > -1, stats.norm.logpdf(t[:, 0]), -np.inf),
         lambda rng, n: rng.uniform(-5, 5, (n, 1)),
     )
-    settings = LadderSettings(n_temperatures=8, n_burn=100, n_production=400,
+    settings = LadderSettings(n_temperatures=8, beta_power=4.0, n_burn=100, n_production=400,
                               max_production=400, target_sigma=10.0, tau_multiple=0.0)
     _, result = estimate_evidence(target, settings, np.random.default_rng(3))
     assert abs(result.log_evidence - exact) < max(0.1, 4 * result.log_evidence_err)
     assert "ti_undefined" in result.flags
-    assert json.dumps(result.to_dict(), allow_nan=False)
+    assert json.dumps(to_plain_json(result), allow_nan=False)
 
 
 def test_not_converged_warns_and_flags(model):
-    settings = LadderSettings(n_temperatures=4, n_burn=20, n_production=40, max_production=60,
+    settings = LadderSettings(n_temperatures=4, beta_power=4.0, n_burn=20, n_production=40, max_production=60,
                               extension_steps=20, target_sigma=1e-4)
     with pytest.warns(ConvergenceWarning, match="not converged"):
         run, result = estimate_evidence(model.target(), settings, np.random.default_rng(1))
@@ -441,7 +443,7 @@ def test_not_converged_warns_and_flags(model):
 
 
 def test_progress_reports_extension_steps(model):
-    settings = LadderSettings(n_temperatures=4, n_burn=10, n_production=30, max_production=50,
+    settings = LadderSettings(n_temperatures=4, beta_power=4.0, n_burn=10, n_production=30, max_production=50,
                               extension_steps=20, target_sigma=1e-6)
     seen: list[tuple[int, int]] = []
     with pytest.warns(ConvergenceWarning):

@@ -33,7 +33,7 @@ from mechid.errors import ConvergenceWarning
 from mechid.inference.fit import fit_mechanism
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.priors import Prior, mechanism_priors
-from mechid.inference.tempering import LadderSettings
+from mechid.inference.settings import LadderSettings, SearchSettings
 from mechid.simulate import simulate_series
 
 dynesty = pytest.importorskip("dynesty")
@@ -95,7 +95,8 @@ def pipeline_log_evidence(target: MechanismTarget, ladder: LadderSettings,
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", ConvergenceWarning)
         fit = fit_mechanism(target.mechanism, target.voltage_V, target.temperature_K,
-                            target.current_A, DEVICE, ladder, np.random.default_rng(seed))
+                            target.current_A, DEVICE, ladder, np.random.default_rng(seed),
+                            search=SearchSettings(n_polish=2))
     assert fit.target.ndim == target.ndim
     return fit.evidence.log_evidence, fit.evidence.log_evidence_err
 

@@ -11,7 +11,10 @@ from mechid.device import Device, Measured
 from mechid.inference.adequacy import check_adequacy, count_runs, model_free_relative_noise
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.predictive import posterior_predictive
 from mechid.inference.priors import Prior, mechanism_priors, noise_priors, parameter_prior
+from mechid.inference.settings import SearchSettings
+from mechid.inference.start import find_map
 
 
 def _ohmic(v, t, device, conductance_S, thickness_nm):
@@ -155,9 +158,7 @@ def test_adequacy_flags_a_wrong_curve_shape_and_passes_the_right_one():
     good = _toy_target(noise_rel=0.02, n_per=25)
     bad = _toy_target(noise_rel=0.02, n_per=25, data_formula=_quadratic)  # data ~V^2, model ~V
     for target, expected in ((good, True), (bad, False)):
-        from mechid.inference.start import find_map
-
-        best = find_map(target, rng)
+        best = find_map(target, rng, search=SearchSettings(n_polish=2))
         draws = best + 1e-3 * rng.standard_normal((400, target.ndim))
         check = check_adequacy(target, draws, rng)
         assert check.adequate is expected, check.reasons
@@ -195,3 +196,35 @@ def test_reference_mixture_density_matches_scipy_and_is_normalised():
     total, _ = integrate.dblquad(lambda y, x_: np.exp(ref.log_density(np.array([[x_, y]]))[0]),
                                  -4, 4, -4, 4, epsabs=1e-6)
     assert total == pytest.approx(1.0, abs=3 * ref.mass_err + 1e-4)
+
+
+def test_posterior_predictive_view_of_a_point_posterior():
+    # One posterior point repeated: the median model must be G V (written here), the band
+    # model + sigma z with sigma = hypot(s I, floor) and z standard normal, so its quantile
+    # offsets averaged over the grid must be scipy's 2.5 % and 97.5 % points.
+    target = _toy_target(noise_rel=0.05)
+    theta = np.array([np.log10(2e-6), np.log10(0.05), np.log10(1e-9)])
+    assert target.names == ("conductance_S", "noise_relative", "noise_floor_A")
+    view = posterior_predictive(target, np.tile(theta, (400, 1)))
+    model = 2e-6 * np.abs(view.grid_voltage_V)  # folded: sign(V) I
+    np.testing.assert_allclose(view.median_A, model, rtol=1e-12)
+    sd = np.hypot(0.05 * np.abs(model), 1e-9)
+    # np.quantile (linear interpolation) of n draws sits near order statistic (n-1)p + 1, whose
+    # mean is about Phi^-1((k - 0.375)/(n + 0.25)) (Blom 1958): -1.897 for p = 0.025, n = 150.
+    n = view.n_predictive_draws
+    blom = stats.norm.ppf(((n - 1) * 0.975 + 1 - 0.375) / (n + 0.25))
+    assert n == 150
+    assert np.mean((view.upper_A - model) / sd) == pytest.approx(blom, abs=0.05)
+    assert np.mean((view.lower_A - model) / sd) == pytest.approx(-blom, abs=0.05)
+    # Residuals at the point, the fitted data, and the corner axes (noise left out).
+    at_points = 2e-6 * target.voltage_V
+    expected = (target.current_A - at_points) / np.hypot(0.05 * np.abs(at_points), 1e-9)
+    np.testing.assert_allclose(view.residuals, expected, rtol=1e-10)
+    np.testing.assert_array_equal(view.current_A, target.current_A)
+    assert [(a.name, a.log10) for a in view.parameters] == [("conductance_S", True)]
+    np.testing.assert_array_equal(view.parameters[0].values, np.full(400, theta[0]))
+    # The grid covers every (temperature, polarity) branch of the data.
+    for t in (100.0, 300.0):
+        on = view.grid_temperature_K == t
+        assert view.grid_voltage_V[on].min() == pytest.approx(-1.0)
+        assert view.grid_voltage_V[on].max() == pytest.approx(1.0)

@@ -12,8 +12,8 @@ from mechid.errors import MechidWarning
 from mechid.inference.fit import fit_mechanism
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.priors import mechanism_priors
+from mechid.inference.settings import FULL_SEARCH, LadderSettings, SearchSettings
 from mechid.inference.start import find_modes
-from mechid.inference.tempering import LadderSettings
 
 
 def _squared_amplitude(lower: float) -> Mechanism:
@@ -43,7 +43,7 @@ def test_both_modes_are_found_sampled_and_counted():
     v, t, i = _data()
     both, half = _squared_amplitude(-2.0), _squared_amplitude(0.0)
     target = MechanismTarget(both, v, t, i, Device(), mechanism_priors(both, Device(), i))
-    modes = find_modes(target, np.random.default_rng(0), n_polish=4)
+    modes = find_modes(target, np.random.default_rng(0), search=FULL_SEARCH)
     signs = sorted(np.sign(m.point[0]) for m in modes)
     assert signs == [-1.0, 1.0], [m.point for m in modes]
 
@@ -52,8 +52,9 @@ def test_both_modes_are_found_sampled_and_counted():
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", MechidWarning)
         fit_both = fit_mechanism(both, v, t, i, Device(), settings, np.random.default_rng(1),
-                                 n_polish=4)
-        fit_half = fit_mechanism(half, v, t, i, Device(), settings, np.random.default_rng(2))
+                                 search=FULL_SEARCH)
+        fit_half = fit_mechanism(half, v, t, i, Device(), settings, np.random.default_rng(2),
+                                 search=SearchSettings(n_polish=2))
     positive = np.mean(fit_both.result.draws["amplitude"] > 0)
     assert 0.3 < positive < 0.7, positive
     assert "multimodal_suspected" in fit_both.evidence.flags

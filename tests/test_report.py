@@ -15,6 +15,7 @@ import re
 import warnings
 from html.parser import HTMLParser
 from pathlib import Path
+from types import SimpleNamespace
 from typing import Any
 
 import pytest
@@ -137,7 +138,7 @@ def test_reference_curves_present() -> None:
 @pytest.mark.parametrize("curve", REFERENCE_CURVES)
 def test_screening_report_of_every_reference_curve(curve: str) -> None:
     run = analyse(curve, screen_only=True)
-    data = to_plain_json(run.result.to_dict())
+    data = to_plain_json(run.result)
     html_text = build_report_html(run)
     parser = parse(html_text)
     check_images(parser)
@@ -173,7 +174,7 @@ def fitted_outputs(fitted_run: AnalysisRun, tmp_path_factory: pytest.TempPathFac
     written = write_outputs(fitted_run, report=out / "report.html", figures_dir=out / "figures",
                             summary=out / "summary.csv")
     return {"dir": out, "written": written, "html": (out / "report.html").read_text("utf-8"),
-            "data": to_plain_json(fitted_run.result.to_dict())}
+            "data": to_plain_json(fitted_run.result)}
 
 
 def test_fitted_report_embeds_decodable_figures(fitted_outputs: dict[str, Any]) -> None:
@@ -262,7 +263,7 @@ def test_summary_csv_rows_equal_the_json(fitted_outputs: dict[str, Any]) -> None
 
 
 def test_corner_labels_carry_units_and_log10(fitted_run: AnalysisRun) -> None:
-    columns, labels, _ = corner_labels(fitted_run.fits["poole_frenkel"])
+    columns, labels, _ = corner_labels(fitted_run.predictive["poole_frenkel"])
     # Poole-Frenkel: phi_T [eV] linear, sigma0 log-uniform in S/cm
     assert "phi_T [eV]" in labels
     assert "log10(sigma0 / S/cm)" in labels
@@ -280,7 +281,7 @@ def test_console_summary_matches_the_json(fitted_run: AnalysisRun) -> None:
     console = Console(record=True, width=200)
     render_console(fitted_run.result, console)
     text = console.export_text()
-    data = to_plain_json(fitted_run.result.to_dict())
+    data = to_plain_json(fitted_run.result)
     assert "Straightened-plot screening" in text and "Evidence ranking" in text
     for m in data["mechanisms"]:
         assert m["id"] in text
@@ -339,3 +340,13 @@ def test_references_cite_methods_and_catalogue_sources(fitted_outputs: dict[str,
     assert ("Poole-Frenkel emission", get_mechanism("poole_frenkel").source) in sources
     html_text = fitted_outputs["html"]
     assert "Methods" in html_text and "Results" in html_text and "Priors" in html_text
+
+
+def test_report_reads_the_results_and_the_predictive_view_only(
+        fitted_run: AnalysisRun, fitted_outputs: dict[str, Any]) -> None:
+    # Before, the figures reached fit.target and fit.draws_internal: a run without the fits
+    # could not be reported. Now the result records and the view give the same report.
+    reported = SimpleNamespace(result=fitted_run.result, series=fitted_run.series,
+                               device=fitted_run.device, predictive=fitted_run.predictive)
+    assert build_report_html(reported) == fitted_outputs["html"]
+    assert set(fitted_run.predictive) == set(FITTED_MECHANISMS)

@@ -10,12 +10,12 @@ from mechid.catalogue import MECHANISMS, get_mechanism
 from mechid.catalogue.base import Mechanism
 from mechid.device import device_from_values
 from mechid.inference.rounds import FitJob, fit_in_rounds
-from mechid.inference.tempering import LadderSettings
+from mechid.inference.settings import LadderSettings, SearchSettings
 from mechid.simulate import simulate_series
 
 TINY_LADDER = LadderSettings(n_temperatures=4, beta_power=2.0, n_walkers=16, n_burn=20,
                              n_production=40, max_production=40)
-TINY_SEARCH = {"pilot_steps": 40, "pilot_max_steps": 40, "n_polish": 1}
+TINY_SEARCH = SearchSettings(n_polish=1, pilot_steps=40, pilot_max_steps=40)
 
 
 def test_catalogued_mechanisms_pickle_as_their_registry_entry():

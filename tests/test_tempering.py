@@ -8,10 +8,10 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from mechid.inference.settings import LadderSettings
 from mechid.inference.target import FunctionTarget, Target, evaluate_target
 from mechid.inference.tempering import (
     DifferentialEvolutionProposal,
-    LadderSettings,
     SnookerProposal,
     StretchProposal,
     TemperedLadder,
@@ -21,7 +21,8 @@ from mechid.inference.tempering import (
     temperature_ladder,
 )
 
-FAST = LadderSettings(n_temperatures=6, n_burn=100, n_production=300)
+FAST = LadderSettings(n_temperatures=6, beta_power=4.0, n_burn=100, n_production=300,
+                      max_production=3000)
 
 
 def gaussian_target(mean: np.ndarray, cov: np.ndarray, box: float = 20.0) -> FunctionTarget:
@@ -195,7 +196,8 @@ def test_start_points_seed_the_hot_to_cold_rungs_and_bad_starts_are_redrawn():
 def test_swaps_recover_the_weights_of_separated_modes():
     # Modes 6 apart with weights 0.8 / 0.2 (exact posterior weights, the prior being flat
     # over both): swaps move walkers between modes.
-    settings = LadderSettings(n_temperatures=8, n_burn=200, n_production=600)
+    settings = LadderSettings(n_temperatures=8, beta_power=4.0, n_burn=200, n_production=600,
+                              max_production=3000)
     run = run_tempered_ladder(mixture_target(0.8), settings, np.random.default_rng(5))
     heavy = np.mean(run.cold_chain[..., 0] > 0)
     assert heavy == pytest.approx(0.8, abs=0.06)

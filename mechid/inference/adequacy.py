@@ -17,13 +17,13 @@ Thresholds (p >= 0.01, fitted/model-free noise <= 3) are common practice, not th
 
 from __future__ import annotations
 
-from dataclasses import asdict, dataclass
-from typing import Any
+from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
 
 from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.noise import add_noise
 from mechid.inference.priors import NOISE_RELATIVE
 
 #: Smallest posterior predictive p-value accepted (common practice).
@@ -48,12 +48,6 @@ class AdequacyCheck:
     model_free_relative_noise: float | None
     noise_ratio: float | None
     reasons: tuple[str, ...]
-
-    def to_dict(self) -> dict[str, Any]:
-        """Plain-JSON form."""
-        out = asdict(self)
-        out["reasons"] = list(self.reasons)
-        return out
 
 
 def group_order(voltage_V: NDArray, temperature_K: NDArray) -> tuple[NDArray, NDArray]:
@@ -132,7 +126,7 @@ def check_adequacy(
     model = target.model_current(theta)[:, order]
     sd = target.noise_sd(theta, model)
     observed = target.current_A[order]
-    replicated = model + sd * rng.standard_normal(model.shape)
+    replicated = add_noise(model, sd, rng)
 
     chi2_obs = np.sum(((observed - model) / sd) ** 2, axis=1)
     chi2_rep = np.sum(((replicated - model) / sd) ** 2, axis=1)

@@ -24,7 +24,7 @@ from __future__ import annotations
 import math
 import warnings
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 from emcee.autocorr import integrated_time
@@ -35,24 +35,21 @@ from sklearn.exceptions import ConvergenceWarning as SklearnConvergenceWarning
 from sklearn.mixture import GaussianMixture
 
 from mechid.errors import ConvergenceWarning
-from mechid.inference.target import FloatArray, Target, evaluate_target
-from mechid.inference.tempering import (
-    LadderRun,
-    LadderSettings,
-    ProgressCallback,
-    TemperedLadder,
+from mechid.inference.flags import (
+    AUTOCORR_MULTIPLE,
+    LOW_STEP_ESS,
+    LOW_SWAP_RATE,
+    SamplerFlag,
 )
+from mechid.inference.settings import LadderSettings
+from mechid.inference.target import FloatArray, Target, evaluate_target
+from mechid.inference.tempering import LadderRun, ProgressCallback, TemperedLadder
 
 #: Time blocks for the batch-means errors.
 N_BATCHES = 10
-#: Swap acceptance below which the ladder is flagged as too sparse.
-LOW_SWAP_RATE = 0.1
-#: An evidence this many errors below ``not_worth_below`` is not refined further ...
+#: An evidence this many errors below ``not_worth_below`` is not refined further, where
+#: ``not_worth_below`` is the best competitor's log-evidence minus :data:`FAR_BELOW_MARGIN`.
 FAR_BELOW_SIGMAS = 5.0
-#: ... where ``not_worth_below`` is the best competitor's log-evidence minus this margin (nats).
-FAR_BELOW_MARGIN = 50.0
-#: Relative ESS of a stepping-stone step's weights below which the ladder is too coarse.
-LOW_STEP_ESS = 0.05
 #: Minimum number of proposal draws for bridge sampling.
 MIN_BRIDGE_PROPOSALS = 2000
 #: Largest Gaussian-mixture proposal tried for bridge sampling (chosen by BIC).
@@ -554,7 +551,7 @@ class _PriorOnly:
 # --------------------------------------------------------------------------------------
 
 
-@dataclass
+@dataclass(frozen=True)
 class EvidenceResult:
     """Log-evidence estimates, their errors and the diagnostics of one ladder run.
 
@@ -587,10 +584,8 @@ class EvidenceResult:
         Likelihood evaluations (points) of the whole estimate, bridge and Laplace included.
     converged : bool
         True if the error and chain-length targets were met.
-    flags : list of str
-        ``not_converged``, ``low_swap_rate``, ``autocorr_short``, ``ladder_too_coarse``,
-        ``evidence_methods_disagree``, ``map_on_boundary``, ``ti_undefined``,
-        ``bridge_failed``.
+    flags : tuple of SamplerFlag
+        What the estimate noticed (see :class:`mechid.inference.flags.SamplerFlag`).
     betas, mean_log_likelihood, var_log_likelihood : ndarray, shape (K,)
         Ladder and :math:`E_\\beta`, :math:`V_\\beta` of log L.
     swap_acceptance : ndarray, shape (K - 1,)
@@ -598,7 +593,7 @@ class EvidenceResult:
     step_effective_fraction : ndarray, shape (K - 1,)
         Relative ESS of each stepping-stone step's weights (``ladder_too_coarse`` below
         :data:`LOW_STEP_ESS`).
-    boundary_parameters : list of str
+    boundary_parameters : tuple of str
         Parameters whose MAP lies within one posterior sd of a prior bound.
     wall_time : float
         Seconds of sampling and estimation.
@@ -620,33 +615,15 @@ class EvidenceResult:
     n_steps: int
     n_likelihood_calls: int
     converged: bool
-    flags: list[str] = field(default_factory=list)
+    flags: tuple[SamplerFlag, ...] = ()
     betas: FloatArray = field(default_factory=lambda: np.empty(0))
     mean_log_likelihood: FloatArray = field(default_factory=lambda: np.empty(0))
     var_log_likelihood: FloatArray = field(default_factory=lambda: np.empty(0))
     swap_acceptance: FloatArray = field(default_factory=lambda: np.empty(0))
     step_effective_fraction: FloatArray = field(default_factory=lambda: np.empty(0))
-    boundary_parameters: list[str] = field(default_factory=list)
+    boundary_parameters: tuple[str, ...] = ()
     wall_time: float = 0.0
 
-    def to_dict(self) -> dict[str, object]:
-        """JSON-ready dictionary: built-in types only, non-finite numbers as ``None``."""
-        return {key: _plain(value) for key, value in self.__dict__.items()}
-
-
-def _plain(value: object) -> object:
-    """Convert NumPy values (and containers of them) to JSON-safe built-ins."""
-    if isinstance(value, np.ndarray):
-        return [_plain(v) for v in value.tolist()]
-    if isinstance(value, (list, tuple)):
-        return [_plain(v) for v in value]
-    if isinstance(value, (bool, np.bool_)):
-        return bool(value)
-    if isinstance(value, (int, np.integer)):
-        return int(value)
-    if isinstance(value, (float, np.floating)):
-        return float(value) if np.isfinite(value) else None
-    return value
 
 
 def _ladder_convergence(
@@ -725,7 +702,7 @@ def estimate_evidence(
         converged, sigma, tau_logl = _ladder_convergence(run, settings)
     result = summarise_ladder(target, run, rng, converged=converged, tau_log_likelihood=tau_logl)
     if far_below:
-        result.flags.append("far_below")
+        result = replace(result, flags=(*result.flags, SamplerFlag.FAR_BELOW))
     elif not converged:
         warnings.warn(
             f"log-evidence not converged after {run.n_steps} production steps: batch-means "
@@ -766,7 +743,7 @@ def summarise_ladder(
     EvidenceResult
     """
     betas, chains = run.betas, run.log_likelihood
-    flags: list[str] = [] if converged else ["not_converged"]
+    flags: list[SamplerFlag] = [] if converged else [SamplerFlag.NOT_CONVERGED]
     ss = stepping_stone(betas, chains)
     ss_err, _ = batch_means_error(lambda block: stepping_stone(betas, block), chains)
     mean, var = power_posterior_moments(chains)
@@ -791,26 +768,26 @@ def summarise_ladder(
     calls += bridge.n_evaluations if bridge is not None else 0
 
     if np.any(run.swap_acceptance < LOW_SWAP_RATE):
-        flags.append("low_swap_rate")
-    if run.n_steps < 50.0 * float(np.max(tau)):
-        flags.append("autocorr_short")
+        flags.append(SamplerFlag.LOW_SWAP_RATE)
+    if run.n_steps < AUTOCORR_MULTIPLE * float(np.max(tau)):
+        flags.append(SamplerFlag.AUTOCORR_SHORT)
     if not (np.all(np.isfinite(mean)) and np.all(np.isfinite(var))):
-        flags.append("ti_undefined")
+        flags.append(SamplerFlag.TI_UNDEFINED)
     # Rung overlap, not SS vs TI: along a reference path, TI's first rung is dominated by the
     # reference's rare, very poor tail draws (variance of log L ~1e6 measured), so the two
     # differ by more than their errors even on ladders whose every step is well estimated.
     step_ess = stepping_stone_step_ess(betas, chains)
     if np.min(step_ess) < LOW_STEP_ESS:
-        flags.append("ladder_too_coarse")
+        flags.append(SamplerFlag.LADDER_TOO_COARSE)
     disagree = (ss < ti.left - 3 * ss_err - 0.1) or (ss > ti.right + 3 * ss_err + 0.1)
     if bridge is None:
-        flags.append("bridge_failed")
+        flags.append(SamplerFlag.BRIDGE_FAILED)
     elif abs(ss - bridge.log_evidence) > 3 * math.hypot(ss_err, bridge.error) + 0.1:
         disagree = True
     if disagree:
-        flags.append("evidence_methods_disagree")
+        flags.append(SamplerFlag.EVIDENCE_METHODS_DISAGREE)
     if laplace.on_boundary:
-        flags.append("map_on_boundary")
+        flags.append(SamplerFlag.MAP_ON_BOUNDARY)
 
     return EvidenceResult(
         log_evidence=ss,
@@ -829,13 +806,13 @@ def summarise_ladder(
         n_steps=run.n_steps,
         n_likelihood_calls=int(calls),
         converged=converged,
-        flags=flags,
+        flags=tuple(flags),
         betas=betas.copy(),
         mean_log_likelihood=mean,
         var_log_likelihood=var,
         swap_acceptance=run.swap_acceptance.copy(),
         step_effective_fraction=step_ess,
-        boundary_parameters=[target.names[i] for i in laplace.boundary_parameters],
+        boundary_parameters=tuple(target.names[i] for i in laplace.boundary_parameters),
         wall_time=run.wall_time,
     )
 

@@ -2,9 +2,10 @@
 
 from __future__ import annotations
 
+import math
 import warnings
 from collections.abc import Callable, Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 from numpy.typing import NDArray
@@ -13,13 +14,22 @@ from mechid.catalogue.base import Mechanism
 from mechid.device import Device
 from mechid.errors import ConvergenceWarning
 from mechid.inference.adequacy import AdequacyCheck, check_adequacy
-from mechid.inference.evidence import FAR_BELOW_MARGIN, EvidenceResult, estimate_evidence
+from mechid.inference.evidence import EvidenceResult, estimate_evidence
+from mechid.inference.flags import FAR_BELOW_MARGIN, SamplerFlag
 from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.predictive import PosteriorPredictive, posterior_predictive
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, mechanism_priors
-from mechid.inference.reference import ReferencePathTarget, pilot_reference
+from mechid.inference.reference import PilotRun, ReferencePathTarget, pilot_reference
+from mechid.inference.settings import LadderSettings, SearchSettings
 from mechid.inference.start import find_modes
-from mechid.inference.tempering import LadderRun, LadderSettings
-from mechid.results import MechanismResult, ParameterSummary, summarise_draws
+from mechid.inference.tempering import LadderRun
+from mechid.results import (
+    MechanismResult,
+    ParameterSummary,
+    SamplingSummary,
+    held_fixed,
+    summarise_draws,
+)
 
 #: The nuisance parameters of the noise model (not physics).
 NOISE_PARAMETERS = (NOISE_RELATIVE, NOISE_FLOOR)
@@ -27,9 +37,13 @@ NOISE_PARAMETERS = (NOISE_RELATIVE, NOISE_FLOOR)
 NOTABLE_CORRELATION = 0.5
 
 
-@dataclass
+@dataclass(frozen=True)
 class MechanismFit:
-    """A fitted mechanism: the target, the sampler run, the evidence and the summaries."""
+    """A fitted mechanism: the target, the sampler run, the evidence and the summaries.
+
+    ``result`` and ``predictive`` are what reports read; the rest is sampler state for
+    benchmarks and diagnostics.
+    """
 
     target: MechanismTarget
     run: LadderRun
@@ -38,6 +52,7 @@ class MechanismFit:
     map_internal: NDArray
     adequacy: AdequacyCheck
     result: MechanismResult
+    predictive: PosteriorPredictive
 
 
 def posterior_draws(run: LadderRun, max_draws: int = 4000) -> NDArray:
@@ -59,9 +74,8 @@ def fit_mechanism(
     rng: np.random.Generator,
     hints: Mapping[str, float] | None = None,
     progress: Callable[[int, int], None] | None = None,
-    pilot_steps: int = 400,
-    pilot_max_steps: int = 2000,
-    n_polish: int = 2,
+    *,
+    search: SearchSettings,
     leader_log_evidence: float | None = None,
 ) -> MechanismFit:
     """Fit one mechanism jointly to all points and estimate its evidence.
@@ -87,13 +101,10 @@ def fit_mechanism(
         Starting values from the linearisation tests.
     progress : callable, optional
         ``progress(done, total)`` during sampling.
-    pilot_steps : int
-        First block of the emcee pilot run (it is extended while still climbing).
-    pilot_max_steps : int
-        Cap on the pilot run's length.
-    n_polish : int
-        Number of diverse screened candidates polished by the mode search; every distinct
-        mode found gets its own component in the reference distribution.
+    search : SearchSettings
+        Mode search and pilot run (:data:`mechid.inference.settings.FULL_SEARCH` or
+        ``QUICK_SEARCH``); every distinct mode found gets its own component in the
+        reference distribution.
     leader_log_evidence : float, optional
         Best log-evidence of the mechanisms already fitted (earlier rounds, see
         :mod:`mechid.inference.rounds`): a mechanism far below it is not refined beyond the
@@ -101,11 +112,10 @@ def fit_mechanism(
     """
     priors = mechanism_priors(mechanism, device, current_A)
     target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
-    modes = find_modes(target, rng, hints, n_polish=n_polish)
+    modes = find_modes(target, rng, hints, search=search)
     start = modes[0].point
-    pilot = pilot_reference(target, [m.point for m in modes], *target.bounds,
-                            rng, n_steps=pilot_steps, max_steps=pilot_max_steps,
-                            log_posteriors=[m.log_posterior for m in modes])
+    pilot = pilot_reference(target, [m.point for m in modes], *target.bounds, rng,
+                            search=search, log_posteriors=[m.log_posterior for m in modes])
     path = ReferencePathTarget(target, pilot.reference)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ConvergenceWarning)
@@ -116,19 +126,33 @@ def fit_mechanism(
                                           not_worth_below=floor)
     for warning in caught:  # say which mechanism a sampler warning is about
         warnings.warn(f"{mechanism.id}: {warning.message}", warning.category, stacklevel=2)
-    # The reference's mass inside the prior box was itself estimated by Monte Carlo.
-    evidence.log_evidence_err = float(np.hypot(evidence.log_evidence_err, pilot.reference.mass_err))
-    physical_edge = [name for name in evidence.boundary_parameters if name not in NOISE_PARAMETERS]
-    if "map_on_boundary" in evidence.flags and not physical_edge:
-        # A noise floor pressed against its lower limit only says the data are clean.
-        evidence.flags.remove("map_on_boundary")
-    if len(modes) > 1:
-        evidence.flags.append("multimodal_suspected")
-    evidence.n_likelihood_calls += pilot.n_likelihood_calls
+    evidence = _with_pilot(evidence, pilot, multimodal=len(modes) > 1)
     draws = posterior_draws(run)
     adequacy = check_adequacy(target, draws, rng)
     result = _mechanism_result(mechanism, target, evidence, draws, start, adequacy)
-    return MechanismFit(target, run, evidence, draws, start, adequacy, result)
+    return MechanismFit(target, run, evidence, draws, start, adequacy, result,
+                        posterior_predictive(target, draws))
+
+
+def _with_pilot(evidence: EvidenceResult, pilot: PilotRun, multimodal: bool) -> EvidenceResult:
+    """The ladder's evidence completed with what the pilot run and the mode search add.
+
+    The reference's mass inside the prior box was itself estimated by Monte Carlo (its error
+    adds in quadrature); the pilot's likelihood calls count; a MAP on the boundary only in a
+    noise parameter is no flag (a noise floor pressed against its lower limit only says the
+    data are clean); several modes give ``multimodal_suspected``.
+    """
+    physical_edge = [name for name in evidence.boundary_parameters if name not in NOISE_PARAMETERS]
+    flags = [flag for flag in evidence.flags
+             if physical_edge or flag is not SamplerFlag.MAP_ON_BOUNDARY]
+    if multimodal:
+        flags.append(SamplerFlag.MULTIMODAL_SUSPECTED)
+    return replace(
+        evidence,
+        log_evidence_err=float(np.hypot(evidence.log_evidence_err, pilot.reference.mass_err)),
+        n_likelihood_calls=evidence.n_likelihood_calls + pilot.n_likelihood_calls,
+        flags=tuple(flags),
+    )
 
 
 def _mechanism_result(
@@ -146,8 +170,7 @@ def _mechanism_result(
     for prior in target.priors:
         values = physical[prior.name][:, 0]
         if prior.is_fixed:
-            v = float(prior.value)
-            summaries[prior.name] = ParameterSummary(prior.name, prior.unit, v, (v, v), (v, v), True)
+            summaries[prior.name] = held_fixed(prior.name, prior.unit, float(prior.value))
         else:
             summaries[prior.name] = summarise_draws(prior.name, prior.unit, values)
             samples[prior.name] = values
@@ -155,13 +178,15 @@ def _mechanism_result(
         id=mechanism.id, family=mechanism.family, name=mechanism.name,
         formula=mechanism.formula, source=mechanism.source,
         log_evidence=float(evidence.log_evidence), log_evidence_err=float(evidence.log_evidence_err),
-        fit_adequate=adequacy.adequate, adequacy=adequacy.to_dict(),
-        priors=[p.to_dict() for p in target.priors],
+        probability=math.nan, probability_err=math.nan,
+        ln_bayes_factor_vs_best=math.nan, ln_bayes_factor_vs_best_err=math.nan,
+        fit_adequate=adequacy.adequate, adequacy=adequacy,
+        priors=tuple(target.priors),
         parameters=summaries,
-        correlations=_correlations(target.names, draws),
-        evidence=evidence.to_dict(),
-        sampling=_sampling_summary(evidence, draws),
         map_parameters={k: float(v[0, 0]) for k, v in best.items()},
+        correlations=_correlations(target.names, draws),
+        evidence=evidence,
+        sampling=_sampling_summary(evidence, draws),
         draws=samples,
     )
 
@@ -181,11 +206,11 @@ def _correlations(names: tuple[str, ...], draws: NDArray) -> dict[str, object]:
     return {"names": list(names), "matrix": matrix.tolist(), "notable": notable}
 
 
-def _sampling_summary(evidence: EvidenceResult, draws: NDArray) -> dict[str, object]:
-    return {
-        "n_draws": int(len(draws)),
-        "autocorr_time": list(np.atleast_1d(evidence.autocorr_time).astype(float)),
-        "effective_sample_size": float(evidence.effective_sample_size),
-        "n_likelihood_calls": int(evidence.n_likelihood_calls),
-        "flags": list(evidence.flags),
-    }
+def _sampling_summary(evidence: EvidenceResult, draws: NDArray) -> SamplingSummary:
+    return SamplingSummary(
+        n_draws=int(len(draws)),
+        autocorr_time=tuple(np.atleast_1d(evidence.autocorr_time).astype(float).tolist()),
+        effective_sample_size=float(evidence.effective_sample_size),
+        n_likelihood_calls=int(evidence.n_likelihood_calls),
+        flags=evidence.flags,
+    )

@@ -1,16 +1,10 @@
 """Joint multi-temperature likelihood of one mechanism, vectorised over walkers and points.
 
-Noise model (heteroscedastic Gaussian in current):
-
-.. math::
-
-    I_i^{obs} \\sim \\mathcal{N}\\big(I(V_i, T_i; \\theta),\\;
-    \\sigma_i^2 = (s_{rel} I(V_i, T_i; \\theta))^2 + \\sigma_{floor}^2\\big)
-
-The relative term describes instrument gain error and device-to-sweep scatter, the floor the
-instrument's current noise, so points near the floor (including negative readings at tiny
-bias) are weighted correctly. Both are nuisance parameters with stated priors
-(:func:`mechid.inference.priors.noise_priors`), marginalised by the sampler.
+Noise model: the heteroscedastic Gaussian of :mod:`mechid.inference.noise`,
+sigma_i^2 = (s_rel I(V_i, T_i; theta))^2 + sigma_floor^2, so points near the floor (including
+negative readings at tiny bias) are weighted correctly. Both noise parameters are nuisance
+parameters with stated priors (:func:`mechid.inference.priors.noise_priors`), marginalised
+by the sampler.
 
 Physical parameters are shared across all temperatures and both polarities.
 """
@@ -27,9 +21,9 @@ from numpy.typing import NDArray
 
 from mechid.catalogue.base import Mechanism
 from mechid.device import Device
+from mechid.inference.noise import noise_sd, noise_variance, summed_log_density
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, Prior
 
-_LOG_2PI = float(np.log(2 * np.pi))
 _MAX_THREADS = max(1, min(4, os.cpu_count() or 1))
 _THREADS = {"count": _MAX_THREADS}
 #: Below about this many walker-points per chunk, thread overhead outweighs the gain.
@@ -141,7 +135,7 @@ class MechanismTarget:
     def noise_sd(self, theta: NDArray, model: NDArray) -> NDArray:
         """Per-point noise standard deviation in A, shape ``(m, n)``."""
         values = self.physical_values(theta)
-        return np.sqrt((values[NOISE_RELATIVE] * model) ** 2 + values[NOISE_FLOOR] ** 2)
+        return noise_sd(model, values[NOISE_RELATIVE], values[NOISE_FLOOR])
 
     def log_prior(self, theta: NDArray) -> NDArray:
         """Normalised log prior of internal vectors ``(m, ndim)`` -> ``(m,)``.
@@ -177,11 +171,10 @@ class MechanismTarget:
         with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
             values = self.physical_values(theta)
             magnitude = self._pair_magnitude(values) * self._pair_nonzero  # model 0 at V = 0
-            variance = (values[NOISE_RELATIVE] * magnitude) ** 2 + values[NOISE_FLOOR] ** 2
+            variance = noise_variance(magnitude, values[NOISE_RELATIVE], values[NOISE_FLOOR])
             squares = (self._pair_square_sum - 2.0 * magnitude * self._pair_signed_sum
                        + self._pair_count * magnitude**2)
-            loglike = (-0.5 * np.sum(squares / variance + self._pair_count * np.log(variance), axis=1)
-                       - 0.5 * _LOG_2PI * self.n_points)
+            loglike = summed_log_density(squares, variance, self._pair_count)
         return np.where(np.isfinite(loglike), loglike, -np.inf)
 
     def log_posterior(self, theta: NDArray) -> NDArray:

@@ -36,6 +36,7 @@ import numpy as np
 from numpy.typing import NDArray
 from scipy.special import gammaln
 
+from mechid.inference.settings import SearchSettings
 from mechid.inference.target import Target
 
 #: Degrees of freedom of the Student-t reference (heavy tails keep L*pi/r bounded).
@@ -287,9 +288,8 @@ def pilot_reference(
     lower: NDArray,
     upper: NDArray,
     rng: np.random.Generator,
-    n_walkers: int | None = None,
-    n_steps: int = 400,
-    max_steps: int = 2000,
+    *,
+    search: SearchSettings,
     log_posteriors: Sequence[float] | None = None,
 ) -> PilotRun:
     """Run emcee at beta = 1 at each mode and fit the Student-t mixture reference.
@@ -304,19 +304,17 @@ def pilot_reference(
         Prior support in sampling coordinates.
     rng : numpy.random.Generator
         The random source (emcee receives states drawn from it).
-    n_walkers : int, optional
-        Ensemble size, default ``max(32, 4 d)`` rounded to even.
-    n_steps : int
-        Steps of the first block; the last ``n_steps // 2`` steps are used.
-    max_steps : int
-        Cap on the pilot length while the log posterior is still rising.
+    search : SearchSettings
+        ``pilot_steps``: steps of the first block (the last ``pilot_steps // 2`` are used);
+        ``pilot_max_steps``: cap on the pilot length while the log posterior is still
+        rising. The ensemble has ``max(32, 4 d)`` walkers, rounded up to even.
     log_posteriors : sequence of float, optional
         Log posterior at each start; with several modes the mixture weights are their
         Laplace masses, each floored at 5 % so that every mode keeps reference draws.
     """
     starts = [np.asarray(start, float)] if np.ndim(start) == 1 else [np.asarray(x, float) for x in start]
-    parts = [_pilot_component(target, x, lower, upper, rng, n_walkers, n_steps, max_steps)
-             for x in starts]
+    parts = [_pilot_component(target, x, lower, upper, rng, search.pilot_steps,
+                              search.pilot_max_steps) for x in starts]
     means = np.array([part[1] for part in parts])
     covs = np.array([part[2] for part in parts])
     if len(parts) == 1 or log_posteriors is None:
@@ -334,11 +332,11 @@ def pilot_reference(
 
 def _pilot_component(
     target: Target, start: NDArray, lower: NDArray, upper: NDArray, rng: np.random.Generator,
-    n_walkers: int | None, n_steps: int, max_steps: int,
+    n_steps: int, max_steps: int,
 ) -> tuple[NDArray, NDArray, NDArray, int]:
     """emcee run at one mode: (draws, mean, covariance for the reference, likelihood calls)."""
     d = target.ndim
-    walkers = n_walkers or max(32, 4 * d)
+    walkers = max(32, 4 * d)
     walkers += walkers % 2
     scales = local_scales(target, start, lower, upper)
     cov0 = laplace_covariance(target, start, scales, lower, upper)

@@ -33,7 +33,7 @@ from mechid.catalogue import get_mechanism
 from mechid.device import Device
 from mechid.inference.fit import MechanismFit, fit_mechanism
 from mechid.inference.likelihood import set_likelihood_threads
-from mechid.inference.tempering import LadderSettings
+from mechid.inference.settings import LadderSettings, SearchSettings
 
 #: Mechanisms fitted per round (the far-below threshold is updated between rounds).
 ROUND_SIZE = 2
@@ -59,7 +59,7 @@ class _SharedInputs:
     current_A: NDArray
     device: Device
     ladder: LadderSettings
-    search: dict[str, int]
+    search: SearchSettings
 
 
 def default_workers() -> int:
@@ -74,7 +74,7 @@ def fit_in_rounds(
     current_A: NDArray,
     device: Device,
     ladder: LadderSettings,
-    search: Mapping[str, int],
+    search: SearchSettings,
     workers: int = 1,
     progress: ProgressHook | None = None,
 ) -> dict[str, MechanismFit]:
@@ -90,15 +90,15 @@ def fit_in_rounds(
         Device description.
     ladder : LadderSettings
         Tempered-ladder settings.
-    search : mapping
-        Mode-search and pilot keyword arguments of :func:`fit_mechanism`.
+    search : SearchSettings
+        Mode search and pilot run of every fit.
     workers : int
         Worker processes; 1 fits in this process. The numbers do not depend on it.
     progress : callable, optional
         ``progress(label, done, total)`` while sampling.
     """
     shared = _SharedInputs(np.asarray(voltage_V, float), np.asarray(temperature_K, float),
-                           np.asarray(current_A, float), device, ladder, dict(search))
+                           np.asarray(current_A, float), device, ladder, search)
     if ladder.max_production > ladder.n_production:
         rounds = [list(jobs[i: i + ROUND_SIZE]) for i in range(0, len(jobs), ROUND_SIZE)]
     else:  # no extensions, so no far-below decisions: one round, no waiting between fits
@@ -165,7 +165,7 @@ def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
     return fit_mechanism(
         get_mechanism(job.mechanism_id), shared.voltage_V, shared.temperature_K, shared.current_A,
         shared.device, shared.ladder, job.rng, hints=job.hints, progress=hook,
-        leader_log_evidence=leader, **shared.search,
+        search=shared.search, leader_log_evidence=leader,
     )
 
 

@@ -19,6 +19,7 @@ from numpy.typing import NDArray
 from scipy import optimize
 
 from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.settings import SearchSettings
 
 #: Modes further than this below the best (nats) carry negligible mass (< ~3e-4) and are dropped.
 MODE_WINDOW = 8.0
@@ -66,8 +67,8 @@ def find_modes(
     target: MechanismTarget,
     rng: np.random.Generator,
     hints: Mapping[str, float] | None = None,
-    n_screen: int = 2000,
-    n_polish: int = 4,
+    *,
+    search: SearchSettings,
 ) -> list[Mode]:
     """Distinct posterior modes, best first (internal coordinates).
 
@@ -79,12 +80,11 @@ def find_modes(
         Source of the screening draws.
     hints : mapping, optional
         Parameter values suggested by the linearisation tests (physical units).
-    n_screen : int
-        Number of prior draws screened in vectorised batches.
-    n_polish : int
-        Number of diverse good candidates polished (the best screened point is always one).
+    search : SearchSettings
+        ``n_screen`` prior draws are screened in vectorised batches, then ``n_polish``
+        diverse good candidates are polished (the best screened point is always one).
     """
-    candidates = [target.sample_prior(rng, n_screen)]
+    candidates = [target.sample_prior(rng, search.n_screen)]
     if hints:
         candidates.append(hint_vectors(target, hints, rng))
     points = np.vstack(candidates)
@@ -94,7 +94,7 @@ def find_modes(
     span = upper - lower
     if not np.any(np.isfinite(scores)):
         return [Mode(points[0], -np.inf)]
-    starts = _diverse(points, np.where(np.isfinite(scores), scores, -np.inf), span, n_polish)
+    starts = _diverse(points, np.where(np.isfinite(scores), scores, -np.inf), span, search.n_polish)
 
     def negative(z: NDArray) -> float:
         value = target.log_posterior((lower + z * span)[None, :])[0]
@@ -166,8 +166,8 @@ def find_map(
     target: MechanismTarget,
     rng: np.random.Generator,
     hints: Mapping[str, float] | None = None,
-    n_screen: int = 2000,
-    n_polish: int = 2,
+    *,
+    search: SearchSettings,
 ) -> NDArray:
     """Approximate MAP point (the best of :func:`find_modes`), shape ``(ndim,)``."""
-    return find_modes(target, rng, hints, n_screen, n_polish)[0].point
+    return find_modes(target, rng, hints, search=search)[0].point

@@ -31,12 +31,16 @@ from __future__ import annotations
 
 import time
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
 from numpy.typing import NDArray
 
 from mechid.inference.target import FloatArray, Target, evaluate_target
+
+if TYPE_CHECKING:  # the settings module imports the proposals defined here
+    from mechid.inference.settings import LadderSettings
 
 ProgressCallback = Callable[[int, int], None]
 
@@ -206,100 +210,6 @@ class SnookerProposal(EnsembleProposal):
                 np.log(np.linalg.norm(proposal - z, axis=-1)) - np.log(length)
             )
         return proposal, log_factor
-
-
-def _default_proposals() -> tuple[tuple[EnsembleProposal, float], ...]:
-    return ((DifferentialEvolutionProposal(), 0.8), (SnookerProposal(), 0.2))
-
-
-# --------------------------------------------------------------------------------------
-# Settings and results
-# --------------------------------------------------------------------------------------
-
-
-@dataclass(frozen=True)
-class LadderSettings:
-    """Settings of the tempered ladder and of the adaptive evidence run.
-
-    Parameters
-    ----------
-    n_temperatures : int
-        Number of rungs ``K`` (>= 2), including beta = 0 and beta = 1.
-    beta_power : float
-        Ladder exponent: ``beta_k = (k / (K - 1)) ** beta_power``.
-    n_walkers : int or None
-        Walkers per rung (even, at least ``max(8, 2 * ndim)``); default ``max(32, 4 * ndim)``
-        rounded up to even.
-    n_burn : int
-        Steps discarded before recording.
-    n_production : int
-        Steps of the first production block (every ``thin``-th is recorded).
-    swap_every : int
-        Steps between neighbour-swap sweeps; 0 disables swaps (a diagnostic, not for use).
-    target_sigma : float
-        Stop extending once the batch-means error of the log-evidence is at most this.
-    extension_steps : int
-        Steps added per extension block.
-    max_production : int
-        Cap on production steps (burn-in excluded); reaching it without meeting the
-        targets gives the ``not_converged`` flag.
-    tau_multiple : float
-        Required chain length in integrated autocorrelation times of log L (emcee
-        autocorrelation tutorial: trust tau only for N > 50 tau).
-    thin : int
-        Record every ``thin``-th step.
-    proposals : tuple of (EnsembleProposal, weight)
-        Mixture of ensemble proposals; one is drawn per step (shared by all rungs).
-    """
-
-    n_temperatures: int = 12
-    beta_power: float = 4.0
-    n_walkers: int | None = None
-    n_burn: int = 300
-    n_production: int = 600
-    swap_every: int = 1
-    target_sigma: float = 0.1
-    extension_steps: int = 200
-    max_production: int = 3000
-    tau_multiple: float = 50.0
-    thin: int = 1
-    proposals: tuple[tuple[EnsembleProposal, float], ...] = field(
-        default_factory=_default_proposals
-    )
-
-    def walkers_for(self, ndim: int) -> int:
-        """Walkers per rung for a target of ``ndim`` parameters."""
-        if self.n_walkers is not None:
-            return int(self.n_walkers)
-        n = max(32, 4 * ndim)
-        return n + (n % 2)
-
-    def betas(self) -> FloatArray:
-        """Inverse temperatures of the ladder, increasing from exactly 0 to exactly 1."""
-        return temperature_ladder(self.n_temperatures, self.beta_power)
-
-    def validate(self, ndim: int) -> None:
-        """Raise ``ValueError`` naming the first inconsistent setting."""
-        walkers = self.walkers_for(ndim)
-        checks = [
-            (self.n_temperatures >= 2, "n_temperatures must be at least 2 (beta = 0 and 1)"),
-            (self.beta_power > 0, "beta_power must be positive"),
-            (walkers % 2 == 0, f"n_walkers must be even for red-blue updates, got {walkers}"),
-            (walkers >= max(8, 2 * ndim), f"n_walkers must be >= max(8, 2*ndim) = "
-                                          f"{max(8, 2 * ndim)}, got {walkers}"),
-            (self.n_burn >= 0, "n_burn must be >= 0"),
-            (self.n_production >= 10 * self.thin,
-             "n_production must give at least 10 recorded steps (10 * thin) for batch means"),
-            (self.swap_every >= 0, "swap_every must be >= 0 (0 disables swaps)"),
-            (self.thin >= 1, "thin must be >= 1"),
-            (self.extension_steps >= 1, "extension_steps must be >= 1"),
-            (self.target_sigma > 0, "target_sigma must be positive"),
-            (len(self.proposals) > 0 and all(w > 0 for _, w in self.proposals),
-             "proposals need at least one entry with positive weights"),
-        ]
-        for ok, message in checks:
-            if not ok:
-                raise ValueError(f"invalid LadderSettings: {message}")
 
 
 def temperature_ladder(n_temperatures: int, power: float) -> FloatArray:

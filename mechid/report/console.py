@@ -113,7 +113,7 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
     console : rich.console.Console
         Where to print.
     """
-    data = (to_plain_json(result.to_dict()) if isinstance(result, AnalysisResult)
+    data = (to_plain_json(result) if isinstance(result, AnalysisResult)
             else dict(result))
     screening = screening_table(data)
     if screening is not None:

@@ -33,7 +33,7 @@ from collections.abc import Iterator, Mapping, Sequence
 from contextlib import contextmanager
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import matplotlib
 import numpy as np
@@ -45,7 +45,10 @@ from mechid.catalogue import get_mechanism
 from mechid.catalogue.base import Mechanism, StraightenedPlot
 from mechid.data import IVSeries
 from mechid.device import Device
-from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE
+from mechid.inference.predictive import PosteriorPredictive, thin_draws
+
+if TYPE_CHECKING:
+    from mechid.report import ReportRun
 
 logger = logging.getLogger(__name__)
 
@@ -57,12 +60,8 @@ DOUBLE_COLUMN_IN = 7.0
 HTML_DPI = 150
 #: Resolution of the PNG files written by ``--figures``.
 FILE_DPI = 300
-#: Posterior draws used for the predictive band (fixed subset: same report for same run).
-PREDICTIVE_DRAWS = 150
 #: Posterior draws shown in a corner plot (evenly thinned; enough for 95 % contours).
 CORNER_DRAWS = 2500
-#: Grid points per (temperature, polarity) branch of the model curves.
-CURVE_POINTS = 70
 #: Relative |V| mismatch accepted when matching a common bias (as in mechid.linearise).
 BIAS_MATCH_RTOL = 0.05
 
@@ -470,106 +469,22 @@ def straightened_figure(mechanism: Mechanism, linearisation_entry: Mapping[str, 
 # --------------------------------------------------------------------------------------------
 
 
-def _draw_subset(draws: FloatArray, n: int) -> FloatArray:
-    """An evenly spaced, deterministic subset of posterior draws."""
-    if len(draws) <= n:
-        return draws
-    return draws[np.linspace(0, len(draws) - 1, n).astype(int)]
-
-
-def _branch_grid(abs_v: FloatArray) -> FloatArray:
-    """Bias magnitudes spanning one measured branch (log-spaced when it spans a decade)."""
-    lo, hi = float(abs_v.min()), float(abs_v.max())
-    if hi <= lo:
-        return np.array([lo])
-    if hi / lo > 10:
-        return np.geomspace(lo, hi, CURVE_POINTS)
-    return np.linspace(lo, hi, CURVE_POINTS)
-
-
-def _model_grid(voltage_V: FloatArray, temperature_K: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """Dense (signed V, T) grid covering every measured branch of the fitted points."""
-    grid_v, grid_t = [], []
-    for t in np.unique(temperature_K):
-        for sign in (1.0, -1.0):
-            on = (temperature_K == t) & (np.sign(voltage_V) == sign)
-            if on.any():
-                v = sign * _branch_grid(np.abs(voltage_V[on]))
-                grid_v.append(v)
-                grid_t.append(np.full(v.shape, t))
-    return np.concatenate(grid_v), np.concatenate(grid_t)
-
-
-def _nan_quantiles(values: FloatArray, q: Sequence[float]) -> FloatArray:
-    """Quantiles along axis 0 ignoring NaN; NaN for all-NaN columns (no warning)."""
-    finite = np.isfinite(values)
-    if finite.all():
-        return np.quantile(values, q, axis=0)
-    out = np.full((len(q), values.shape[1]), np.nan)
-    good = finite.any(axis=0)
-    if good.any():
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore", RuntimeWarning)
-            out[:, good] = np.nanquantile(np.where(finite, values, np.nan)[:, good], q, axis=0)
-    return out
-
-
-def predictive_band(fit: Any, voltage_V: FloatArray, temperature_K: FloatArray,
-                    seed: int = 0) -> dict[str, FloatArray]:
-    """Posterior median model and 95 % posterior predictive band on a (V, T) grid.
-
-    The predictive draw adds the fitted noise model (relative term and floor, see
-    :mod:`mechid.inference.likelihood`) to the model current of each posterior draw.
-
-    Parameters
-    ----------
-    fit : MechanismFit
-        Needs ``.target`` (a :class:`~mechid.inference.likelihood.MechanismTarget`) and
-        ``.draws_internal``.
-    voltage_V, temperature_K : ndarray
-        Grid points (signed bias).
-    seed : int
-        Seed of the noise draws (fixed: the same run gives the same report).
-
-    Returns
-    -------
-    dict
-        ``"median"``, ``"lower"``, ``"upper"`` of the folded current sign(V) * I, in A.
-    """
-    target = fit.target
-    draws = _draw_subset(np.asarray(fit.draws_internal, dtype=float), PREDICTIVE_DRAWS)
-    values = target.physical_values(draws)
-    physical = {name: values[name] for name in target.mechanism.parameter_names}
-    with np.errstate(all="ignore"):
-        model = target.mechanism.current(voltage_V, temperature_K, physical, target.device)
-        sd = np.sqrt((values[NOISE_RELATIVE] * model) ** 2 + values[NOISE_FLOOR] ** 2)
-        noisy = model + sd * np.random.default_rng(seed).standard_normal(model.shape)
-    sign = np.sign(voltage_V)
-    median = _nan_quantiles(model * sign, [0.5])[0]
-    lower, upper = _nan_quantiles(noisy * sign, [0.025, 0.975])
-    return {"median": median, "lower": lower, "upper": upper}
-
-
-def _reference_point(fit: Any) -> FloatArray:
-    """Posterior median of every sampled coordinate (where the residuals are evaluated)."""
-    return np.median(np.asarray(fit.draws_internal, dtype=float), axis=0)
-
-
-def joint_fit_figure(mechanism_result: Mapping[str, Any], fit: Any) -> ReportFigure:
+def joint_fit_figure(mechanism_result: Mapping[str, Any],
+                     view: PosteriorPredictive) -> ReportFigure:
     """Data with the joint fit and its predictive band, and standardised residuals.
 
     Parameters
     ----------
     mechanism_result : mapping
         The mechanism's JSON entry (name, adequacy numbers for the caption).
-    fit : MechanismFit
-        The in-memory fit (target with the fitted points, posterior draws).
+    view : PosteriorPredictive
+        The fitted points, residuals and predictive band handed over by inference.
     """
-    target = fit.target
-    v, t, i = target.voltage_V, target.temperature_K, target.current_A
-    grid_v, grid_t = _model_grid(v, t)
-    band = predictive_band(fit, grid_v, grid_t)
-    residuals = target.standardised_residuals(_reference_point(fit)[None, :])
+    mechanism = get_mechanism(view.mechanism_id)
+    v, t, i = view.voltage_V, view.temperature_K, view.current_A
+    grid_v, grid_t = view.grid_voltage_V, view.grid_temperature_K
+    band = {"median": view.median_A, "lower": view.lower_A, "upper": view.upper_A}
+    residuals = view.residuals
     colours = temperature_colours(np.unique(t))
     floor = _positive_floor(np.abs(i))
     with _style():
@@ -593,7 +508,7 @@ def joint_fit_figure(mechanism_result: Mapping[str, Any], fit: Any) -> ReportFig
         _log_axis(ax.yaxis)
         ax.set_ylim(bottom=floor)
         ax.set_ylabel("|I| [A]")
-        ax.set_title(f"Joint fit of {mechanism_result.get('name', target.mechanism.name)} "
+        ax.set_title(f"Joint fit of {mechanism_result.get('name', mechanism.name)} "
                      "to all temperatures", loc="left")
         _legend(ax, len(colours), title="temperature", loc="best")
         ax_res.axhline(0.0, color=INK, lw=0.6)
@@ -608,11 +523,11 @@ def joint_fit_figure(mechanism_result: Mapping[str, Any], fit: Any) -> ReportFig
     chi2 = adequacy.get("reduced_chi_square")
     caption = ("Points: measured |I| that entered the fit. Lines: posterior median model; "
                f"shaded: 95 % posterior predictive band (model plus fitted noise, "
-               f"{PREDICTIVE_DRAWS} posterior draws). Lower panel: standardised residuals "
+               f"{view.n_predictive_draws} posterior draws). Lower panel: standardised residuals "
                "(I_obs - I_model)/σ at the posterior median, dashed at ±2σ"
                + (f"; reduced χ² = {chi2:.3g}" if isinstance(chi2, int | float) else "") + ".")
-    return ReportFigure(f"{target.mechanism.id}_joint_fit", "Joint fit and residuals", caption,
-                        fig, "mechanism", target.mechanism.id)
+    return ReportFigure(f"{mechanism.id}_joint_fit", "Joint fit and residuals", caption,
+                        fig, "mechanism", mechanism.id)
 
 
 # --------------------------------------------------------------------------------------------
@@ -620,21 +535,19 @@ def joint_fit_figure(mechanism_result: Mapping[str, Any], fit: Any) -> ReportFig
 # --------------------------------------------------------------------------------------------
 
 
-def corner_labels(fit: Any) -> tuple[list[int], list[str], list[str]]:
+def corner_labels(view: PosteriorPredictive) -> tuple[list[int], list[str], list[str]]:
     """Columns, axis labels with units and short titles of the physical sampled parameters.
 
-    Noise parameters are left out (nuisance; their summaries are in the tables). A parameter
-    sampled in log10 is labelled ``log10(symbol / unit)`` (``log10(symbol)`` when
+    Noise parameters are not in the view (nuisance; their summaries are in the tables). A
+    parameter sampled in log10 is labelled ``log10(symbol / unit)`` (``log10(symbol)`` when
     dimensionless); others ``symbol [unit]``, the catalogue's :attr:`Parameter.label`.
     """
-    mechanism: Mechanism = fit.target.mechanism
+    mechanism = get_mechanism(view.mechanism_id)
     columns, labels, titles = [], [], []
-    for column, prior in enumerate(fit.target.free):
-        if prior.name not in mechanism.parameter_names:
-            continue
-        parameter = mechanism.parameter(prior.name)
+    for column, axis in enumerate(view.parameters):
+        parameter = mechanism.parameter(axis.name)
         dimensionless = parameter.unit in ("", "1")
-        if prior.log_scale:
+        if axis.log10:
             label = (f"log10({parameter.symbol})" if dimensionless
                      else f"log10({parameter.symbol} / {parameter.unit})")
             title = f"log10 {parameter.symbol}"
@@ -652,19 +565,21 @@ def _quantile_title(symbol: str, values: FloatArray) -> str:
     return f"{symbol} = {mid:.3g}  +{hi - mid:.2g} / −{mid - lo:.2g}"
 
 
-def corner_figure(fit: Any) -> ReportFigure | None:
+def corner_figure(view: PosteriorPredictive) -> ReportFigure | None:
     """Corner plot of the physical parameters' posterior (68 % and 95 % contours).
 
     Returns None when no physical parameter was sampled or none has any spread.
     """
     import corner  # imported here: corner imports matplotlib.pyplot only for its own figures
 
-    columns, labels, titles = corner_labels(fit)
-    draws = np.asarray(fit.draws_internal, dtype=float)
+    columns, labels, titles = corner_labels(view)
+    if not columns:
+        return None
+    draws = np.column_stack([axis.values for axis in view.parameters])
     keep = [k for k, c in enumerate(columns) if np.ptp(draws[:, c]) > 0]
     if not keep:
         return None
-    data = _draw_subset(draws, CORNER_DRAWS)[:, [columns[k] for k in keep]]
+    data = thin_draws(draws, CORNER_DRAWS)[:, [columns[k] for k in keep]]
     labels = [labels[k] for k in keep]
     titles = [titles[k] for k in keep]
     size = min(DOUBLE_COLUMN_IN, 1.75 * len(keep) + 0.9)
@@ -683,7 +598,7 @@ def corner_figure(fit: Any) -> ReportFigure | None:
         diagonal = np.array(fig.axes).reshape(len(keep), len(keep)).diagonal()
         for ax, title, column in zip(diagonal, titles, data.T, strict=True):
             ax.set_title(_quantile_title(title, column), fontsize=7)
-    mechanism = fit.target.mechanism
+    mechanism = get_mechanism(view.mechanism_id)
     caption = (f"Posterior of the {mechanism.name} parameters ({len(data)} draws of the "
                "β = 1 chain), drawn with corner.py (Foreman-Mackey 2016). Two-dimensional "
                "panels: contours enclosing 68 % and 95 % of the posterior mass. Diagonal: "
@@ -788,20 +703,21 @@ def _format_probability(p: float, prefix: str = "") -> str:
 # --------------------------------------------------------------------------------------------
 
 
-def build_figures(run: Any, result_dict: Mapping[str, Any] | None = None) -> list[ReportFigure]:
+def build_figures(run: ReportRun, result_dict: Mapping[str, Any] | None = None
+                  ) -> list[ReportFigure]:
     """Every figure of the report of one analysis run, in report order.
 
     Parameters
     ----------
-    run : AnalysisRun
-        ``.result``, ``.series``, ``.device`` and ``.fits`` are used.
+    run : ReportRun
+        The result, the series, the device and the posterior-predictive views.
     result_dict : mapping, optional
-        ``to_plain_json(run.result.to_dict())`` when already computed (the figures read the
+        ``to_plain_json(run.result)`` when already computed (the figures read the
         same numbers as the JSON).
     """
     from mechid.results import to_plain_json
 
-    data = result_dict if result_dict is not None else to_plain_json(run.result.to_dict())
+    data = result_dict if result_dict is not None else to_plain_json(run.result)
     figures = [iv_curves_figure(run.series)]
     zabrodskii = zabrodskii_figure(data.get("linearisation") or {})
     if zabrodskii is not None:
@@ -821,7 +737,8 @@ def mechanism_order(data: Mapping[str, Any]) -> list[str]:
     return fitted + [m for m in screened if m not in fitted]
 
 
-def mechanism_figures(run: Any, data: Mapping[str, Any], mechanism_id: str) -> list[ReportFigure]:
+def mechanism_figures(run: ReportRun, data: Mapping[str, Any],
+                      mechanism_id: str) -> list[ReportFigure]:
     """Straightened plots, joint fit and posterior of one mechanism (those that apply)."""
     figures: list[ReportFigure] = []
     entry = linearisation_entry(data, mechanism_id)
@@ -830,12 +747,12 @@ def mechanism_figures(run: Any, data: Mapping[str, Any], mechanism_id: str) -> l
         straight = straightened_figure(mechanism, entry, run.series, run.device)
         if straight is not None:
             figures.append(straight)
-    fit = (run.fits or {}).get(mechanism_id)
+    view = run.predictive.get(mechanism_id)
     mechanism_json = next((m for m in data.get("mechanisms") or [] if m["id"] == mechanism_id),
                           None)
-    if fit is not None and mechanism_json is not None:
-        figures.append(joint_fit_figure(mechanism_json, fit))
-        posterior = corner_figure(fit)
+    if view is not None and mechanism_json is not None:
+        figures.append(joint_fit_figure(mechanism_json, view))
+        posterior = corner_figure(view)
         if posterior is not None:
             figures.append(posterior)
     return figures

@@ -27,7 +27,7 @@ import base64
 import datetime as _dt
 import html
 from collections.abc import Mapping, Sequence
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from mechid.catalogue import get_mechanism
 from mechid.report.figures import DOUBLE_COLUMN_IN, ReportFigure, mechanism_order
@@ -48,6 +48,9 @@ from mechid.report.text import (
     screening_entry,
     unit_suffix,
 )
+
+if TYPE_CHECKING:
+    from mechid.report import ReportRun
 
 Json = Mapping[str, Any]
 
@@ -382,7 +385,7 @@ def _screening_table(data: Json) -> str:
                     numeric=(0, 2, 3)))
 
 
-def _data_section(data: Json, run: Any, figures: _Figures) -> str:
+def _data_section(data: Json, run: ReportRun, figures: _Figures) -> str:
     inp = data.get("input") or {}
     out = ['<h2 id="data"><span class="num">3</span>The measurements</h2>',
            figures.get("data_iv_curves")]
@@ -459,8 +462,8 @@ def _noise_text(data: Json) -> str:
     return text
 
 
-def _excluded_html(run: Any) -> str:
-    excluded = list(getattr(getattr(run, "series", None), "excluded", ()) or ())
+def _excluded_html(run: ReportRun) -> str:
+    excluded = list(run.series.excluded or ())
     if not excluded:
         return "<h4>Excluded points</h4><p>None: every point read was used.</p>"
     limit = 30
@@ -648,15 +651,15 @@ def _references_section(data: Json) -> str:
 # --------------------------------------------------------------------------------------------
 
 
-def render_html(data: Json, run: Any, figures: Sequence[ReportFigure],
+def render_html(data: Json, run: ReportRun, figures: Sequence[ReportFigure],
                 pngs: Mapping[str, bytes]) -> str:
     """The whole report as one HTML string.
 
     Parameters
     ----------
     data : mapping
-        ``to_plain_json(result.to_dict())`` -- the JSON contract, the source of every number.
-    run : AnalysisRun
+        ``to_plain_json(result)`` -- the JSON contract, the source of every number.
+    run : ReportRun
         Used for the excluded points of the series.
     figures : sequence of ReportFigure
         From :func:`mechid.report.figures.build_figures`.

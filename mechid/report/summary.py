@@ -35,7 +35,7 @@ def _cell(value: Any) -> str:
 def summary_records(data: Mapping[str, Any]) -> list[dict[str, Any]]:
     """One record per mechanism and parameter, keyed by :data:`COLUMNS`, values as in the JSON.
 
-    ``data`` is a result in plain-JSON form (``to_plain_json(result.to_dict())``).
+    ``data`` is a result in plain-JSON form (``to_plain_json(result)``).
     """
     records = []
     for rank, m in enumerate(data.get("mechanisms") or [], start=1):

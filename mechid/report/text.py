@@ -1,6 +1,6 @@
 """The report's words: headline numbers, methods and results paragraphs, references.
 
-Everything here reads the plain-JSON form of the result (``to_plain_json(result.to_dict())``),
+Everything here reads the plain-JSON form of the result (``to_plain_json(result)``),
 so every number a reader sees is formatted from the same value that is in the JSON file.
 The paragraphs are written from the run's own numbers and cite the published methods, so
 they can be pasted into a manuscript or a referee response and edited.
