@@ -52,7 +52,8 @@ from sklearn.linear_model import HuberRegressor
 from threadpoolctl import threadpool_limits
 
 from mechid.catalogue import MECHANISMS
-from mechid.catalogue.base import Mechanism, StraightenedPlot
+from mechid.catalogue.base import Mechanism, ParameterHints, StraightenedPlot
+from mechid.catalogue.checks import PlotEstimate
 from mechid.catalogue.hopping import es_hopping_energy_eV, mott_hopping_energy_eV
 from mechid.constants import (
     BOLTZMANN_EV,
@@ -316,6 +317,9 @@ class MechanismLinearisation:
         Screening score (see :func:`screening_score`); -inf when nothing could be drawn.
     notes : tuple of str
         Plots that could not be drawn, with the reason.
+    hints : ParameterHints
+        Values of the declared parameters the plots determine (the mechanism's
+        ``estimates``), keyed by parameter name: the fit's starting values. Not in the JSON.
     """
 
     mechanism_id: str
@@ -326,6 +330,7 @@ class MechanismLinearisation:
     straightness: float | None
     score: float
     notes: tuple[str, ...] = ()
+    hints: ParameterHints = field(default_factory=lambda: ParameterHints(""))
 
     def to_dict(self) -> dict[str, Any]:
         """Plain-JSON form."""
@@ -893,9 +898,18 @@ def slope_times_temperature_check(plot_id: str) -> CheckRule:
 
 def _zero_field_fit(ctx: _Context, plot_id: str, key: str) -> tuple[float, float, int] | None:
     """OLS line of an activation energy against sqrt(bias): (intercept, slope, n biases)."""
-    lines = [line for line in ctx.lines.get(plot_id, ()) if key in line.quantities]
+    return zero_bias_line(ctx.lines.get(plot_id, ()), key, 0.5)
+
+
+def zero_bias_line(plot_lines: Sequence[LineFit], key: str,
+                   power: float) -> tuple[float, float, int] | None:
+    """OLS line of a per-bias quantity against |V|^power: (intercept, slope, n biases).
+
+    None when fewer than two biases give a finite value.
+    """
+    lines = [line for line in plot_lines if key in line.quantities]
     energies = np.array([line.quantities[key] for line in lines], dtype=float)
-    roots = np.sqrt(np.array([line.group_value for line in lines], dtype=float))
+    roots = np.array([line.group_value for line in lines], dtype=float) ** power
     ok = np.isfinite(energies)
     if np.count_nonzero(ok) < 2 or np.ptp(roots[ok]) == 0:
         return None
@@ -1317,6 +1331,36 @@ def _summary(lines: Mapping[str, Sequence[LineFit]]) -> dict[str, float]:
     return summary
 
 
+def parameter_hints(mechanism: Mechanism,
+                    lines: Mapping[str, Sequence[LineFit]]) -> ParameterHints:
+    """Starting values of the parameters the mechanism's plots determine.
+
+    Evaluates every declared :class:`~mechid.catalogue.checks.PlotEstimate`: the median of
+    the quantity over the plot's lines, or its extrapolation to zero bias
+    (:func:`zero_bias_line`). Values that are not finite are left out; whether a value lies
+    inside the prior is for the mode search to decide.
+    """
+    values: dict[str, float] = {}
+    sources: dict[str, str] = {}
+    for estimate in mechanism.estimates:
+        value = _estimate_value(estimate, lines.get(estimate.plot, ()))
+        if value is not None and math.isfinite(value):
+            values[estimate.parameter] = value
+            sources[estimate.parameter] = (f"{estimate.plot}.{estimate.key}"
+                                           + ("" if estimate.zero_bias_power is None
+                                              else " at zero bias"))
+    return ParameterHints(mechanism.id, values, sources)
+
+
+def _estimate_value(estimate: PlotEstimate, plot_lines: Sequence[LineFit]) -> float | None:
+    if estimate.zero_bias_power is not None:
+        fit = zero_bias_line(plot_lines, estimate.key, estimate.zero_bias_power)
+        return None if fit is None else fit[0]
+    values = np.array([line.quantities.get(estimate.key, np.nan) for line in plot_lines])
+    values = values[np.isfinite(values)]
+    return float(np.median(values)) if values.size else None
+
+
 def _analyse_mechanism(mechanism: Mechanism, data: _Prepared, device: Device,
                        shared: Mapping[str, Any]) -> MechanismLinearisation:
     lines: dict[str, list[LineFit]] = {}
@@ -1338,6 +1382,7 @@ def _analyse_mechanism(mechanism: Mechanism, data: _Prepared, device: Device,
         straightness=straightness,
         score=screening_score(straightness, checks),
         notes=tuple(notes),
+        hints=parameter_hints(mechanism, lines),
     )
 
 

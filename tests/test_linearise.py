@@ -18,8 +18,12 @@ import pytest
 from scipy import constants, stats
 
 from mechid.catalogue import get_mechanism
+from mechid.catalogue.base import ParameterHints
 from mechid.data import IVSeries
 from mechid.device import Device, device_from_values
+from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.priors import mechanism_priors
+from mechid.inference.start import hint_vectors
 from mechid.linearise import (
     Check,
     LinearisationResult,
@@ -338,3 +342,62 @@ def test_all_negative_currents_on_positive_bias_give_no_lines() -> None:
     result = linearise(series, _device(thickness_nm=5.0))
     assert result.best is None
     assert all(not m.lines for m in result.mechanisms)
+
+
+# --------------------------------------------------------------------------------------------
+# Hand-off of the plot values to the fit (keyed by parameter name)
+# --------------------------------------------------------------------------------------------
+
+#: Relative tolerance of each hinted value against the truth on the clean REGIMES data.
+#: Exact transforms (emission, VRH) leave only rounding; the FN plot carries the Murphy-Good
+#: thermal factor at 77-300 K (~1 %); the hopping Arrhenius slope at 1-3.5 V still feels
+#: the sinh curvature, ln(1 - exp(-eaE/kT)) (Mott & Davis 1979 law), ~10 % on E_a.
+HINT_RTOL = {
+    "fowler_nordheim": {"barrier_height_eV": 0.01},
+    "schottky_emission": {"dielectric_constant": 1e-6, "barrier_height_eV": 1e-6,
+                          "richardson_constant_ratio": 1e-6},
+    "poole_frenkel": {"dielectric_constant": 1e-6, "trap_depth_eV": 1e-6,
+                      "prefactor_S_per_cm": 1e-6},
+    "nearest_neighbour_hopping": {"activation_energy_eV": 0.15, "hopping_distance_nm": 0.01},
+    "mott_vrh": {"characteristic_temperature_K": 1e-6, "prefactor_S": 1e-6},
+    "es_vrh": {"characteristic_temperature_K": 1e-6, "prefactor_S": 1e-6},
+    # The low-bias conductance G0 and its cubic coefficient mix barrier, thickness and mass:
+    # the plot alone determines no declared parameter, so nothing is handed over.
+    "direct_tunnelling": {},
+}
+
+
+@pytest.mark.parametrize("mechanism_id", list(REGIMES))
+def test_hints_are_keyed_by_parameter_name_and_near_the_truth(
+        results: dict[str, LinearisationResult], mechanism_id: str) -> None:
+    hints = results[mechanism_id].for_mechanism(mechanism_id).hints
+    mechanism = get_mechanism(mechanism_id)
+    assert hints.mechanism_id == mechanism_id
+    assert set(hints.values) <= set(mechanism.parameter_names)
+    expected = HINT_RTOL[mechanism_id]
+    assert set(hints.values) == set(expected)
+    truth = REGIMES[mechanism_id].params
+    for name, rtol in expected.items():
+        assert hints.values[name] == pytest.approx(truth[name], rel=rtol), name
+        assert hints.sources[name].startswith(tuple(p.id for p in mechanism.plots))
+
+
+def test_hinted_values_reach_the_mode_search_screen() -> None:
+    regime = REGIMES["poole_frenkel"]
+    series = _series(regime.mechanism_id, regime.params, regime.temperatures_K,
+                     regime.biases_V, regime.device)
+    mechanism = get_mechanism("poole_frenkel")
+    target = MechanismTarget(mechanism, series.voltage_V, series.temperature_K,
+                             series.current_A, regime.device,
+                             mechanism_priors(mechanism, regime.device, series.current_A))
+    hints = linearise(series, regime.device).for_mechanism("poole_frenkel").hints
+    draws = hint_vectors(target, hints, np.random.default_rng(0))
+    names = [p.name for p in target.free]
+    column = names.index("trap_depth_eV")
+    hinted = target.free[column].to_internal(hints.values["trap_depth_eV"])
+    assert np.all(draws[:, column] == hinted)
+    assert hints.values["trap_depth_eV"] == pytest.approx(0.9, rel=1e-6)
+    with pytest.raises(ValueError, match="poole_frenkel_plot.dielectric_constant"):
+        hint_vectors(target, ParameterHints("poole_frenkel",
+                                            {"poole_frenkel_plot.dielectric_constant": 4.0}),
+                     np.random.default_rng(0))

@@ -22,6 +22,7 @@ from typing import Any, Literal
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from mechid.catalogue.checks import PlotEstimate
 from mechid.device import Device
 from mechid.errors import UnknownMechanismError
 
@@ -148,6 +149,9 @@ class Mechanism:
     The current is odd in voltage: ``I(V) = sign(V) * magnitude(|V|)``, so both bias
     polarities are described by one set of parameters (symmetric device). ``needs_area`` is
     False for mechanisms written directly as a current (no electrode area involved).
+    ``estimates`` lists the parameters its straightened plots determine
+    (:class:`~mechid.catalogue.checks.PlotEstimate`): the screening reads them into
+    :class:`ParameterHints`, the fit's starting values.
     """
 
     id: str
@@ -161,6 +165,15 @@ class Mechanism:
     temperature_dependence: str = ""
     options: Mapping[str, Any] = field(default_factory=dict)
     needs_area: bool = True
+    estimates: tuple[PlotEstimate, ...] = ()
+
+    def __post_init__(self) -> None:
+        plot_ids = {plot.id for plot in self.plots}
+        for estimate in self.estimates:
+            if estimate.parameter not in self.parameter_names:
+                raise ValueError(f"{self.id}: estimate of unknown parameter {estimate.parameter!r}")
+            if estimate.plot not in plot_ids:
+                raise ValueError(f"{self.id}: estimate from undeclared plot {estimate.plot!r}")
 
     @property
     def parameter_names(self) -> tuple[str, ...]:
@@ -233,3 +246,26 @@ def _catalogued_mechanism(mechanism_id: str) -> Mechanism:
     from mechid.catalogue import get_mechanism
 
     return get_mechanism(mechanism_id)
+
+
+@dataclass(frozen=True)
+class ParameterHints:
+    """Starting values for one mechanism's fit, keyed by declared parameter name.
+
+    Built by the screening from the mechanism's declared
+    :class:`~mechid.catalogue.checks.PlotEstimate` entries and handed to the mode search
+    (:func:`mechid.inference.start.find_modes`).
+
+    Parameters
+    ----------
+    mechanism_id : str
+        The mechanism these values are for.
+    values : mapping
+        Parameter name -> value in the parameter's unit (finite values only).
+    sources : mapping
+        Parameter name -> where the value was read, e.g. ``"schottky_plot.dielectric_constant"``.
+    """
+
+    mechanism_id: str
+    values: Mapping[str, float] = field(default_factory=dict)
+    sources: Mapping[str, str] = field(default_factory=dict)

@@ -25,6 +25,7 @@ from mechid.catalogue.base import (
     iv_magnitudes,
     positive_or_nan,
 )
+from mechid.catalogue.checks import PlotEstimate
 from mechid.constants import (
     BOLTZMANN_EV,
     POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V,
@@ -479,6 +480,12 @@ SCHOTTKY_EMISSION = Mechanism(
     ),
     magnitude=_schottky_current,
     plots=(SCHOTTKY_PLOT, RICHARDSON_PLOT),
+    estimates=(
+        PlotEstimate("dielectric_constant", "schottky_plot"),
+        PlotEstimate("barrier_height_eV", "richardson_plot", "effective_barrier_eV",
+                     zero_bias_power=0.5),
+        PlotEstimate("richardson_constant_ratio", "richardson_plot"),
+    ),
     temperature_dependence="strong: activated, ln(I/T^2) linear in 1/T with slope -phi_eff/k",
 )
 
@@ -508,5 +515,11 @@ POOLE_FRENKEL = Mechanism(
     ),
     magnitude=_poole_frenkel_current,
     plots=(POOLE_FRENKEL_PLOT, POOLE_FRENKEL_ARRHENIUS_PLOT),
+    estimates=(
+        PlotEstimate("dielectric_constant", "poole_frenkel_plot"),
+        PlotEstimate("trap_depth_eV", "poole_frenkel_arrhenius_plot", "activation_energy_eV",
+                     zero_bias_power=0.5),
+        PlotEstimate("prefactor_S_per_cm", "poole_frenkel_arrhenius_plot"),
+    ),
     temperature_dependence="strong: activated, ln(I/V) linear in 1/T with slope -E_a(E)/k",
 )

@@ -30,6 +30,7 @@ from mechid.catalogue.base import (
     iv_magnitudes,
     positive_or_nan,
 )
+from mechid.catalogue.checks import PlotEstimate
 from mechid.constants import BOLTZMANN_EV, SCHOTTKY_BETA_EV_SQRT_M_PER_V
 from mechid.device import Device
 
@@ -501,7 +502,19 @@ NEAREST_NEIGHBOUR_HOPPING = Mechanism(
         ),
     ),
     temperature_dependence="activated: ln(I/V) linear in 1/T at low field (slope -E_a/k)",
+    estimates=(
+        PlotEstimate("activation_energy_eV", "hopping_arrhenius_plot", zero_bias_power=1.0),
+        PlotEstimate("hopping_distance_nm", "hopping_field_plot"),
+    ),
 )
+
+
+
+def _vrh_estimates(plot_id: str) -> tuple[PlotEstimate, ...]:
+    """A variable-range-hopping plot gives T0 (slope) and G0 (intercept)."""
+    return (PlotEstimate("characteristic_temperature_K", plot_id),
+            PlotEstimate("prefactor_S", plot_id))
+
 
 _MOTT_EXPONENTS = {1: (0.5, "1/2"), 2: (1.0 / 3.0, "1/3"), 3: (0.25, "1/4")}
 
@@ -552,6 +565,7 @@ def mott_vrh_variant(dimension: int) -> Mechanism:
         temperature_dependence=f"stretched exponential: ln(I/V) linear in T^(-{text})",
         options={"dimension": dimension},
         needs_area=False,
+        estimates=_vrh_estimates("mott_vrh_plot"),
     )
 
 
@@ -575,4 +589,5 @@ ES_VRH = Mechanism(
     plots=(_vrh_plot("es_vrh_plot", "Efros-Shklovskii plot (ln(I/V) against T^-1/2)", 0.5, "1/2"),),
     temperature_dependence="stretched exponential: ln(I/V) linear in T^(-1/2)",
     needs_area=False,
+    estimates=_vrh_estimates("es_vrh_plot"),
 )

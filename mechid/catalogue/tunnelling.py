@@ -28,6 +28,7 @@ from mechid.catalogue.base import (
     StraightenedPlot,
     iv_magnitudes,
 )
+from mechid.catalogue.checks import PlotEstimate
 from mechid.constants import (
     BOLTZMANN_EV,
     ELECTRON_MASS,
@@ -671,5 +672,8 @@ FOWLER_NORDHEIM = Mechanism(
     parameters=(_barrier(0.5, 3.0), _thickness(1.0, 100.0, 8.0), _MASS),
     magnitude=_fowler_nordheim_current,
     plots=(FOWLER_NORDHEIM_PLOT,),
+    # Needs the device thickness and effective mass (else the plot gives only a barrier
+    # assuming m* = m0, which is not this parameter).
+    estimates=(PlotEstimate("barrier_height_eV", "fowler_nordheim_plot"),),
     temperature_dependence="weak: rises slowly with temperature (pi c kT/sin(pi c kT) factor)",
 )
