@@ -31,10 +31,10 @@ Line fit and score
 ------------------
 Each line is a Huber regression (scikit-learn ``HuberRegressor``, deterministic) with R^2
 on all points used and slope/intercept errors from the ordinary-least-squares formula on the
-robust residuals (:func:`robust_line`). Mechanism-specific checks are listed in one table,
-:data:`MECHANISM_CHECKS`, keyed by mechanism id and reading declared plot ids and quantity
-keys. The ranking uses :func:`screening_score`, a documented composite of straightness and
-checks -- a screening heuristic; the Bayesian evidence is the real comparison.
+robust residuals (:func:`robust_line`). Each mechanism declares its consistency checks as
+data (``Mechanism.checks``, :mod:`mechid.catalogue.checks`); each check type is evaluated by
+its rule in :data:`CHECK_RULES`. The ranking uses :func:`screening_score`, a documented
+composite of straightness and checks -- a screening heuristic; the Bayesian evidence is the real comparison.
 """
 
 from __future__ import annotations
@@ -51,15 +51,28 @@ from sklearn.exceptions import ConvergenceWarning as SklearnConvergenceWarning
 from sklearn.linear_model import HuberRegressor
 from threadpoolctl import threadpool_limits
 
-from mechid.catalogue import MECHANISMS
+from mechid import catalogue
 from mechid.catalogue.base import Mechanism, ParameterHints, StraightenedPlot
-from mechid.catalogue.checks import PlotEstimate
-from mechid.catalogue.hopping import es_hopping_energy_eV, mott_hopping_energy_eV
-from mechid.constants import (
-    BOLTZMANN_EV,
-    POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V,
-    SCHOTTKY_BETA_EV_SQRT_M_PER_V,
+from mechid.catalogue.checks import (
+    CheckSpec,
+    DielectricRange,
+    DielectricVsOptical,
+    FieldLoweringDielectric,
+    HopEnergyExceedsKT,
+    HoppingLaw,
+    NearlyTemperatureIndependent,
+    Ohmic,
+    PlotEstimate,
+    PositiveQuantity,
+    QuantityInRange,
+    RichardsonConstant,
+    SlopeTimesTemperature,
+    StraightPlot,
+    ThermallyActivated,
+    TunnellingRegime,
+    ZeroFieldBarrier,
 )
+from mechid.constants import BOLTZMANN_EV
 from mechid.data import SeriesLike
 from mechid.device import Device
 
@@ -80,26 +93,6 @@ FLAT_RELATIVE_SPREAD = 1e-12
 #: Fewest points for a per-temperature line.
 MIN_POINTS_PER_LINE = 4
 
-#: Acceptable range of a dielectric constant read from a Schottky/Poole-Frenkel slope, and
-#: the largest relative mismatch to the optical value n^2 [common practice; physics sheet S11].
-DIELECTRIC_RANGE = (1.0, 20.0)
-DIELECTRIC_OPTICAL_RTOL = 0.5
-#: Largest coefficient of variation of (slope x T) across temperatures (our threshold).
-SLOPE_T_MAX_CV = 0.1
-#: Decades A*/A0 may stray from 1 [common practice].
-RICHARDSON_DECADES = 2.0
-#: Largest apparent activation energy of a tunnelling current, eV [common practice].
-TUNNELLING_MAX_ACTIVATION_EV = 0.020
-#: Smallest FN-plot R^2 counted as straight, and the FN barrier range in eV [common practice].
-FN_MIN_R_SQUARED = 0.99
-FN_BARRIER_RANGE_EV = (0.5, 5.0)
-#: Hopping exponents p of ln G = const - (T0/T)^p: nearest-neighbour (Arrhenius), Mott 3D
-#: (Mott 1968/1969), Efros-Shklovskii (Efros & Shklovskii 1975).
-HOPPING_LAWS: dict[str, float] = {
-    "nearest_neighbour_hopping": 1.0,
-    "mott_vrh": 0.25,
-    "es_vrh": 0.5,
-}
 #: Tolerance on the Zabrodskii exponent: max(this, 2 standard errors); a law is supported
 #: only when it is also the nearest of the laws. A prefactor G0 ~ T^m shifts w by m
 #: (Zabrodskii & Zinov'eva 1984), which biases p by ~0.1 for low-field hopping.
@@ -233,6 +226,9 @@ class ZabrodskiiAnalysis:
         Mechanism id of the hopping law whose p is nearest, when within tolerance.
     detail : str
         How the analysis went, or why it could not be made.
+    law_exponents : mapping
+        The candidate laws: p of every mechanism that declares a
+        :class:`~mechid.catalogue.checks.HoppingLaw`, keyed by mechanism id.
     """
 
     bias_V: float | None
@@ -242,6 +238,7 @@ class ZabrodskiiAnalysis:
     exponent_p_err: float | None
     supported_law: str | None
     detail: str
+    law_exponents: Mapping[str, float] = field(default_factory=dict)
 
     def to_dict(self) -> dict[str, Any]:
         """Plain-JSON form."""
@@ -252,7 +249,7 @@ class ZabrodskiiAnalysis:
             "exponent_p": _json_float(self.exponent_p),
             "exponent_p_err": _json_float(self.exponent_p_err),
             "supported_law": self.supported_law,
-            "law_exponents": dict(HOPPING_LAWS),
+            "law_exponents": dict(self.law_exponents),
             "detail": self.detail,
         }
 
@@ -684,19 +681,20 @@ def _activation_energies(data: _Prepared) -> list[ActivationEnergy]:
     return out
 
 
-def zabrodskii_analysis(data: _Prepared) -> ZabrodskiiAnalysis:
+def zabrodskii_analysis(data: _Prepared, laws: Mapping[str, float]) -> ZabrodskiiAnalysis:
     """Reduced activation energy and hopping exponent (Zabrodskii & Zinov'eva 1984).
 
     w(T) = d ln G / d ln T with G = I/V at the lowest common bias, by second-order finite
     differences on the (non-uniform) ln T grid (:func:`numpy.gradient`, edge_order=2). For
     G = G0 exp[-(T0/T)^p], w = p (T0/T)^p, so ln w = ln(p T0^p) - p ln T and the OLS slope of
     ln w vs ln T is -p (Zabrodskii & Zinov'eva, Sov. Phys. JETP 59, 425 (1984), from memory).
-    p = 1 is nearest-neighbour (Arrhenius), 1/4 Mott 3D, 1/2 Efros-Shklovskii.
+    p = 1 is nearest-neighbour (Arrhenius), 1/4 Mott 3D, 1/2 Efros-Shklovskii; ``laws`` are
+    the candidates (:func:`hopping_laws`), the nearest is reported.
     """
     def failed(detail: str, bias: float | None = None, temps: Sequence[float] = (),
                w: Sequence[float] = ()) -> ZabrodskiiAnalysis:
         return ZabrodskiiAnalysis(bias, tuple(map(float, temps)), tuple(map(float, w)),
-                                  None, None, None, detail)
+                                  None, None, None, detail, dict(laws))
 
     if data.temperatures.size < MIN_TEMPERATURES:
         return failed(f"not enough temperatures ({data.temperatures.size}; needs "
@@ -718,13 +716,15 @@ def zabrodskii_analysis(data: _Prepared) -> ZabrodskiiAnalysis:
     minus_p, p_err = _ols_slope(ln_t, np.log(w))
     p = -minus_p
     p_err_or_none = p_err if math.isfinite(p_err) else None
-    nearest = min(HOPPING_LAWS, key=lambda law: abs(p - HOPPING_LAWS[law]))
-    supported = nearest if _law_supported(p, p_err_or_none, HOPPING_LAWS[nearest]) else None
+    if not laws:
+        return failed("no mechanism declares a hopping law", bias, temps, w)
+    nearest = min(laws, key=lambda law: abs(p - laws[law]))
+    supported = nearest if _law_supported(p, p_err_or_none, laws[nearest], laws) else None
     detail = (f"p = {p:.3f} +/- {p_err:.3f} from ln w vs ln T at {bias:g} V over "
-              f"{temps.size} temperatures; nearest law {nearest} (p = {HOPPING_LAWS[nearest]:g})"
+              f"{temps.size} temperatures; nearest law {nearest} (p = {laws[nearest]:g})"
               + ("" if supported else ", but too far from it"))
     return ZabrodskiiAnalysis(bias, tuple(map(float, temps)), tuple(map(float, w)), p,
-                              p_err_or_none, supported, detail)
+                              p_err_or_none, supported, detail, dict(laws))
 
 
 def _branch_transition_voltage(abs_v: FloatArray, current: FloatArray) -> float | None:
@@ -811,6 +811,7 @@ class _Context:
     lines: Mapping[str, Sequence[LineFit]]
     device: Device
     data: _Prepared
+    laws: Mapping[str, float]
     zabrodskii: ZabrodskiiAnalysis
     activation: Sequence[ActivationEnergy]
     transitions: Sequence[TransitionVoltage]
@@ -824,81 +825,8 @@ class _Context:
         return values[np.isfinite(values)]
 
 
-CheckRule = Callable[[_Context], Check]
-
-
 def _unknown(name: str, expected: str, detail: str) -> Check:
     return Check(name, None, None, expected, detail)
-
-
-def dielectric_range_check(plot_id: str) -> CheckRule:
-    """eps_r read from a Schottky/PF slope lies in DIELECTRIC_RANGE (Sze & Ng 2007; [CP])."""
-    name, low, high = "dielectric_constant_in_range", *DIELECTRIC_RANGE
-    expected = f"{low:g} <= eps_r <= {high:g}"
-
-    def rule(ctx: _Context) -> Check:
-        if not ctx.lines.get(plot_id):
-            return _unknown(name, expected, f"no {plot_id} line could be drawn")
-        if ctx.device.thickness_nm is None:
-            return _unknown(name, expected, "needs the film thickness to turn the slope into eps_r")
-        values = ctx.quantity(plot_id, "dielectric_constant")
-        if values.size == 0:
-            return Check(name, False, None, expected,
-                         f"the {plot_id} slope is not positive, so no eps_r can be read from it")
-        eps = float(np.median(values))
-        passed = low <= eps <= high
-        return Check(name, passed, eps, expected,
-                     f"median eps_r = {eps:.3g} from the {plot_id} slopes"
-                     + ("" if passed else ", outside the range of real dielectrics"))
-    return rule
-
-
-def dielectric_optical_check(plot_id: str) -> CheckRule:
-    """eps_r from the slope agrees with the optical value n^2 (Chiu 2014; Sze & Ng 2007).
-
-    Passes when |eps_r/n^2 - 1| <= DIELECTRIC_OPTICAL_RTOL (a common-practice threshold).
-    """
-    name = "dielectric_constant_vs_optical"
-    expected = f"|eps_r/n^2 - 1| <= {DIELECTRIC_OPTICAL_RTOL:g}"
-
-    def rule(ctx: _Context) -> Check:
-        optical = ctx.device.optical_dielectric_constant
-        if optical is None:
-            return _unknown(name, expected, "the device's optical dielectric constant is not given")
-        values = ctx.quantity(plot_id, "dielectric_constant")
-        if values.size == 0:
-            return _unknown(name, expected, f"no eps_r could be read from the {plot_id} slopes")
-        ratio = float(np.median(values)) / optical.value
-        passed = abs(ratio - 1) <= DIELECTRIC_OPTICAL_RTOL
-        return Check(name, passed, ratio, expected,
-                     f"eps_r/n^2 = {ratio:.3g} (optical value {optical.value:g})")
-    return rule
-
-
-def slope_times_temperature_check(plot_id: str) -> CheckRule:
-    """The field slope scales as 1/T: slope*T constant (coefficient of variation small)."""
-    name = "slope_times_temperature_constant"
-    expected = f"coefficient of variation of slope*T <= {SLOPE_T_MAX_CV:g}"
-
-    def rule(ctx: _Context) -> Check:
-        lines = ctx.lines.get(plot_id, ())
-        if len(lines) < 2:
-            return _unknown(name, expected, "needs lines at >= 2 temperatures")
-        product = np.array([line.slope * line.group_value for line in lines])
-        mean = float(np.mean(product))
-        if not mean > 0:
-            return Check(name, False, None, expected,
-                         f"the {plot_id} slopes are not positive on average")
-        cv = float(np.std(product) / mean)
-        passed = cv <= SLOPE_T_MAX_CV
-        return Check(name, passed, cv, expected,
-                     f"slope*T varies by {100 * cv:.2g} % over {len(lines)} temperatures")
-    return rule
-
-
-def _zero_field_fit(ctx: _Context, plot_id: str, key: str) -> tuple[float, float, int] | None:
-    """OLS line of an activation energy against sqrt(bias): (intercept, slope, n biases)."""
-    return zero_bias_line(ctx.lines.get(plot_id, ()), key, 0.5)
 
 
 def zero_bias_line(plot_lines: Sequence[LineFit], key: str,
@@ -918,82 +846,128 @@ def zero_bias_line(plot_lines: Sequence[LineFit], key: str,
     return intercept, slope, int(np.count_nonzero(ok))
 
 
-def zero_field_barrier_check(plot_id: str, key: str, parameter: str) -> CheckRule:
+def dielectric_range_check(spec: DielectricRange, ctx: _Context) -> Check:
+    """eps_r read from a Schottky/PF slope lies in [low, high] (Sze & Ng 2007; [CP])."""
+    plot_id, name = spec.plot, "dielectric_constant_in_range"
+    expected = f"{spec.low:g} <= eps_r <= {spec.high:g}"
+    if not ctx.lines.get(plot_id):
+        return _unknown(name, expected, f"no {plot_id} line could be drawn")
+    if ctx.device.thickness_nm is None:
+        return _unknown(name, expected, "needs the film thickness to turn the slope into eps_r")
+    values = ctx.quantity(plot_id, "dielectric_constant")
+    if values.size == 0:
+        return Check(name, False, None, expected,
+                     f"the {plot_id} slope is not positive, so no eps_r can be read from it")
+    eps = float(np.median(values))
+    passed = spec.low <= eps <= spec.high
+    return Check(name, passed, eps, expected,
+                 f"median eps_r = {eps:.3g} from the {plot_id} slopes"
+                 + ("" if passed else ", outside the range of real dielectrics"))
+
+
+def dielectric_optical_check(spec: DielectricVsOptical, ctx: _Context) -> Check:
+    """eps_r from the slope agrees with the optical value n^2 (Chiu 2014; Sze & Ng 2007).
+
+    Passes when |eps_r/n^2 - 1| <= spec.rtol (a common-practice threshold).
+    """
+    name = "dielectric_constant_vs_optical"
+    expected = f"|eps_r/n^2 - 1| <= {spec.rtol:g}"
+    optical = ctx.device.optical_dielectric_constant
+    if optical is None:
+        return _unknown(name, expected, "the device's optical dielectric constant is not given")
+    values = ctx.quantity(spec.plot, "dielectric_constant")
+    if values.size == 0:
+        return _unknown(name, expected, f"no eps_r could be read from the {spec.plot} slopes")
+    ratio = float(np.median(values)) / optical.value
+    passed = abs(ratio - 1) <= spec.rtol
+    return Check(name, passed, ratio, expected,
+                 f"eps_r/n^2 = {ratio:.3g} (optical value {optical.value:g})")
+
+
+def slope_times_temperature_check(spec: SlopeTimesTemperature, ctx: _Context) -> Check:
+    """The field slope scales as 1/T: slope*T constant (coefficient of variation small)."""
+    name = "slope_times_temperature_constant"
+    expected = f"coefficient of variation of slope*T <= {spec.max_cv:g}"
+    lines = ctx.lines.get(spec.plot, ())
+    if len(lines) < 2:
+        return _unknown(name, expected, "needs lines at >= 2 temperatures")
+    product = np.array([line.slope * line.group_value for line in lines])
+    mean = float(np.mean(product))
+    if not mean > 0:
+        return Check(name, False, None, expected,
+                     f"the {spec.plot} slopes are not positive on average")
+    cv = float(np.std(product) / mean)
+    passed = cv <= spec.max_cv
+    return Check(name, passed, cv, expected,
+                 f"slope*T varies by {100 * cv:.2g} % over {len(lines)} temperatures")
+
+
+def zero_field_barrier_check(spec: ZeroFieldBarrier, ctx: _Context) -> Check:
     """Barrier extrapolated to zero field from the Arrhenius/Richardson energies.
 
     The activation energy at bias V is phi - beta sqrt(V/(d eps_r)) (Sze & Ng 2007; for
     Poole-Frenkel Frenkel 1938), so an OLS line of it against sqrt(V) has intercept phi
-    (zero field). The barrier must lie within the declared range of ``parameter`` (which
-    is positive).
+    (zero field). The barrier must lie within the declared range of ``spec.parameter``
+    (which is positive).
     """
-    name = f"zero_field_{parameter}"
-
-    def rule(ctx: _Context) -> Check:
-        declared = ctx.mechanism.parameter(parameter)
-        expected = f"{declared.lower:g} <= {parameter} <= {declared.upper:g}"
-        fit = _zero_field_fit(ctx, plot_id, key)
-        if fit is None:
-            return _unknown(name, expected, f"needs {plot_id} lines at >= 2 biases")
-        intercept, _, n = fit
-        passed = declared.lower <= intercept <= declared.upper
-        return Check(name, passed, intercept, expected,
-                     f"{key} extrapolated to zero field: {intercept:.3g} eV from {n} biases")
-    return rule
+    name = f"zero_field_{spec.parameter}"
+    declared = ctx.mechanism.parameter(spec.parameter)
+    expected = f"{declared.lower:g} <= {spec.parameter} <= {declared.upper:g}"
+    fit = zero_bias_line(ctx.lines.get(spec.plot, ()), spec.quantity, 0.5)
+    if fit is None:
+        return _unknown(name, expected, f"needs {spec.plot} lines at >= 2 biases")
+    intercept, _, n = fit
+    passed = declared.lower <= intercept <= declared.upper
+    return Check(name, passed, intercept, expected,
+                 f"{spec.quantity} extrapolated to zero field: {intercept:.3g} eV from {n} biases")
 
 
-def field_lowering_dielectric_check(arrhenius_plot_id: str, key: str, field_plot_id: str,
-                                    coefficient_eV: float) -> CheckRule:
+def field_lowering_dielectric_check(spec: FieldLoweringDielectric, ctx: _Context) -> Check:
     """The two eps_r estimates agree: from the field plot slope and from d E_a/d sqrt(E).
 
     E_a(V) = phi - beta sqrt(V/(d eps_r)) gives eps_r = (beta/(s sqrt(d)))^2 from the slope s
     of E_a against sqrt(V); it must agree with the eps_r of the field plot (Sze & Ng 2007;
-    physics sheet S11 item 2). Passes when the ratio is within 1 +/- DIELECTRIC_OPTICAL_RTOL.
+    physics sheet S11 item 2). Passes when the ratio is within 1 +/- spec.rtol.
     """
     name = "dielectric_constants_agree"
-    expected = f"|eps_r(E_a)/eps_r(slope) - 1| <= {DIELECTRIC_OPTICAL_RTOL:g}"
-
-    def rule(ctx: _Context) -> Check:
-        if ctx.device.thickness_nm is None:
-            return _unknown(name, expected, "needs the film thickness")
-        fit = _zero_field_fit(ctx, arrhenius_plot_id, key)
-        from_slope = ctx.quantity(field_plot_id, "dielectric_constant")
-        if fit is None or from_slope.size == 0:
-            return _unknown(name, expected, "needs both eps_r estimates")
-        _, slope, n = fit
-        if not slope < 0:
-            return Check(name, False, None, expected,
-                         f"{key} does not fall with sqrt(bias), so no field lowering is seen")
-        eps = (coefficient_eV / (-slope * math.sqrt(ctx.device.thickness_nm.value * 1e-9))) ** 2
-        ratio = eps / float(np.median(from_slope))
-        passed = abs(ratio - 1) <= DIELECTRIC_OPTICAL_RTOL
-        return Check(name, passed, ratio, expected,
-                     f"eps_r = {eps:.3g} from the field dependence of {key} ({n} biases) vs "
-                     f"{float(np.median(from_slope)):.3g} from the {field_plot_id}")
-    return rule
+    expected = f"|eps_r(E_a)/eps_r(slope) - 1| <= {spec.rtol:g}"
+    if ctx.device.thickness_nm is None:
+        return _unknown(name, expected, "needs the film thickness")
+    fit = zero_bias_line(ctx.lines.get(spec.arrhenius_plot, ()), spec.quantity, 0.5)
+    from_slope = ctx.quantity(spec.field_plot, "dielectric_constant")
+    if fit is None or from_slope.size == 0:
+        return _unknown(name, expected, "needs both eps_r estimates")
+    _, slope, n = fit
+    if not slope < 0:
+        return Check(name, False, None, expected,
+                     f"{spec.quantity} does not fall with sqrt(bias), so no field lowering is seen")
+    eps = (spec.coefficient_eV / (-slope * math.sqrt(ctx.device.thickness_nm.value * 1e-9))) ** 2
+    ratio = eps / float(np.median(from_slope))
+    passed = abs(ratio - 1) <= spec.rtol
+    return Check(name, passed, ratio, expected,
+                 f"eps_r = {eps:.3g} from the field dependence of {spec.quantity} ({n} biases) vs "
+                 f"{float(np.median(from_slope)):.3g} from the {spec.field_plot}")
 
 
-def richardson_constant_check(plot_id: str) -> CheckRule:
-    """A* from the Richardson intercept within RICHARDSON_DECADES decades of A0 [CP].
+def richardson_constant_check(spec: RichardsonConstant, ctx: _Context) -> Check:
+    """A* from the Richardson intercept within spec.max_decades decades of A0 [CP].
 
     Practitioners expect A*/A0 ~ m*/m0 of order one (Sze & Ng 2007; physics sheet S11
     item 3: "within ~1-2 decades of 120 m*/m0").
     """
     name = "richardson_constant_plausible"
-    expected = f"|log10(A*/A0)| <= {RICHARDSON_DECADES:g}"
-
-    def rule(ctx: _Context) -> Check:
-        values = ctx.quantity(plot_id, "richardson_constant_ratio")
-        values = values[values > 0]
-        if values.size == 0:
-            return _unknown(name, expected, "needs the electrode area and a Richardson line")
-        ratio = float(np.median(values))
-        decades = math.log10(ratio)
-        return Check(name, abs(decades) <= RICHARDSON_DECADES, ratio, expected,
-                     f"A*/A0 = {ratio:.3g} ({decades:+.2g} decades)")
-    return rule
+    expected = f"|log10(A*/A0)| <= {spec.max_decades:g}"
+    values = ctx.quantity(spec.plot, "richardson_constant_ratio")
+    values = values[values > 0]
+    if values.size == 0:
+        return _unknown(name, expected, "needs the electrode area and a Richardson line")
+    ratio = float(np.median(values))
+    decades = math.log10(ratio)
+    return Check(name, abs(decades) <= spec.max_decades, ratio, expected,
+                 f"A*/A0 = {ratio:.3g} ({decades:+.2g} decades)")
 
 
-def thermally_activated_check(ctx: _Context) -> Check:
+def thermally_activated_check(spec: ThermallyActivated, ctx: _Context) -> Check:
     """Emission and hopping are activated: median Zabrodskii w = d ln G/d ln T > 1 [ours]."""
     name, expected = "thermally_activated", "median w = d ln G/d ln T > 1"
     w = np.asarray(ctx.zabrodskii.w, dtype=float)
@@ -1006,60 +980,53 @@ def thermally_activated_check(ctx: _Context) -> Check:
                  f"(median w = {median:.3g})")
 
 
-def temperature_independent_check(ctx: _Context) -> Check:
+def temperature_independent_check(spec: NearlyTemperatureIndependent, ctx: _Context) -> Check:
     """Tunnelling is nearly temperature independent: apparent E_a < 20 meV [common practice].
 
     The largest apparent activation energy over the common biases is tested; at low
     temperature a small E_a can still mean a strong change, so w < 1 is also required.
     """
     name = "nearly_temperature_independent"
-    expected = f"apparent E_a < {1e3 * TUNNELLING_MAX_ACTIVATION_EV:g} meV and median w < 1"
+    expected = f"apparent E_a < {1e3 * spec.max_activation_eV:g} meV and median w < 1"
     if not ctx.activation:
         return _unknown(name, expected, "needs >= 2 temperatures at a common bias")
     largest = max(a.activation_energy_eV for a in ctx.activation)
     w = np.asarray(ctx.zabrodskii.w, dtype=float)
     w_ok = w.size == 0 or float(np.median(w)) < 1
-    passed = largest < TUNNELLING_MAX_ACTIVATION_EV and w_ok
+    passed = largest < spec.max_activation_eV and w_ok
     return Check(name, passed, largest, expected,
                  f"largest apparent activation energy {1e3 * largest:.3g} meV over "
                  f"{len(ctx.activation)} biases")
 
 
-def straight_plot_check(plot_id: str, minimum_r_squared: float) -> CheckRule:
-    """The plot is straight: median R^2 over its lines >= ``minimum_r_squared`` [CP]."""
-    name, expected = f"{plot_id}_straight", f"median R^2 >= {minimum_r_squared:g}"
-
-    def rule(ctx: _Context) -> Check:
-        lines = ctx.lines.get(plot_id, ())
-        if not lines:
-            return _unknown(name, expected, f"no {plot_id} line could be drawn")
-        r2 = float(np.median([line.r_squared for line in lines]))
-        return Check(name, r2 >= minimum_r_squared, r2, expected,
-                     f"median R^2 = {r2:.6g} over {len(lines)} lines")
-    return rule
+def straight_plot_check(spec: StraightPlot, ctx: _Context) -> Check:
+    """The plot is straight: median R^2 over its lines >= ``spec.minimum_r_squared`` [CP]."""
+    name, expected = f"{spec.plot}_straight", f"median R^2 >= {spec.minimum_r_squared:g}"
+    lines = ctx.lines.get(spec.plot, ())
+    if not lines:
+        return _unknown(name, expected, f"no {spec.plot} line could be drawn")
+    r2 = float(np.median([line.r_squared for line in lines]))
+    return Check(name, r2 >= spec.minimum_r_squared, r2, expected,
+                 f"median R^2 = {r2:.6g} over {len(lines)} lines")
 
 
-def quantity_range_check(plot_id: str, keys: Sequence[str], low: float, high: float,
-                         name: str) -> CheckRule:
-    """The median of the first available quantity among ``keys`` lies in [low, high]."""
-    expected = f"{low:g} <= value <= {high:g}"
-
-    def rule(ctx: _Context) -> Check:
-        lines = ctx.lines.get(plot_id, ())
-        key = next((k for k in keys if any(k in line.quantities for line in lines)), None)
-        if key is None:
-            return _unknown(name, expected, f"{plot_id} gives none of {', '.join(keys)} "
-                            "(device values missing?)")
-        values = ctx.quantity(plot_id, key)
-        if values.size == 0:
-            return Check(name, False, None, expected, f"no finite {key} from the {plot_id}")
-        value = float(np.median(values))
-        passed = low <= value <= high
-        return Check(name, passed, value, expected, f"median {key} = {value:.4g}")
-    return rule
+def quantity_range_check(spec: QuantityInRange, ctx: _Context) -> Check:
+    """The median of the first available quantity among ``spec.quantities`` is in range."""
+    name, expected = spec.name, f"{spec.low:g} <= value <= {spec.high:g}"
+    lines = ctx.lines.get(spec.plot, ())
+    key = next((k for k in spec.quantities if any(k in line.quantities for line in lines)), None)
+    if key is None:
+        return _unknown(name, expected, f"{spec.plot} gives none of {', '.join(spec.quantities)} "
+                        "(device values missing?)")
+    values = ctx.quantity(spec.plot, key)
+    if values.size == 0:
+        return Check(name, False, None, expected, f"no finite {key} from the {spec.plot}")
+    value = float(np.median(values))
+    passed = spec.low <= value <= spec.high
+    return Check(name, passed, value, expected, f"median {key} = {value:.4g}")
 
 
-def tunnelling_regime_check(regime: str) -> CheckRule:
+def tunnelling_regime_check(spec: TunnellingRegime, ctx: _Context) -> Check:
     """Direct vs Fowler-Nordheim regime from d ln I/d ln V at the lowest biases.
 
     ln(I/V^2) vs 1/V has its minimum (the transition voltage, Beebe et al. 2006) where
@@ -1067,97 +1034,85 @@ def tunnelling_regime_check(regime: str) -> CheckRule:
     ``regime="direct"`` passes when the data start below the transition voltage;
     ``regime="fowler_nordheim"`` when they start above it (the FN plot falls throughout).
     """
+    regime = spec.regime
     name = f"{regime}_tunnelling_regime"
     expected = "d ln I/d ln V < 2 at the lowest bias" if regime == "direct" else (
         "d ln I/d ln V > 2 at the lowest bias (no transition voltage inside the data)")
-
-    def rule(ctx: _Context) -> Check:
-        if not ctx.low_bias_exponents:
-            return _unknown(name, expected, "needs >= 3 distinct biases at a temperature")
-        exponents = np.array(list(ctx.low_bias_exponents.values()))
-        median = float(np.median(exponents))
-        below = bool(np.all(exponents < 2))
-        passed = below if regime == "direct" else bool(np.all(exponents > 2))
-        found = [v for t in ctx.transitions for v in (t.positive_V, t.negative_V) if v is not None]
-        detail = f"low-bias d ln I/d ln V = {median:.3g} (median over temperatures)"
-        if found:
-            detail += f"; transition voltage {np.median(found):.3g} V lies inside the data"
-        return Check(name, passed, median, expected, detail)
-    return rule
+    if not ctx.low_bias_exponents:
+        return _unknown(name, expected, "needs >= 3 distinct biases at a temperature")
+    exponents = np.array(list(ctx.low_bias_exponents.values()))
+    median = float(np.median(exponents))
+    below = bool(np.all(exponents < 2))
+    passed = below if regime == "direct" else bool(np.all(exponents > 2))
+    found = [v for t in ctx.transitions for v in (t.positive_V, t.negative_V) if v is not None]
+    detail = f"low-bias d ln I/d ln V = {median:.3g} (median over temperatures)"
+    if found:
+        detail += f"; transition voltage {np.median(found):.3g} V lies inside the data"
+    return Check(name, passed, median, expected, detail)
 
 
-def positive_quantity_check(plot_id: str, key: str, reason: str) -> CheckRule:
-    """The median of an interpreted quantity is positive (``reason`` says why it must be)."""
+def positive_quantity_check(spec: PositiveQuantity, ctx: _Context) -> Check:
+    """The median of an interpreted quantity is positive (``spec.reason`` says why it must be)."""
+    key = spec.quantity
     name, expected = f"{key}_positive", f"{key} > 0"
-
-    def rule(ctx: _Context) -> Check:
-        values = ctx.quantity(plot_id, key)
-        if values.size == 0:
-            return _unknown(name, expected, f"no finite {key} from the {plot_id}")
-        value = float(np.median(values))
-        return Check(name, value > 0, value, expected, f"median {key} = {value:.3g}; {reason}")
-    return rule
+    values = ctx.quantity(spec.plot, key)
+    if values.size == 0:
+        return _unknown(name, expected, f"no finite {key} from the {spec.plot}")
+    value = float(np.median(values))
+    return Check(name, value > 0, value, expected, f"median {key} = {value:.3g}; {spec.reason}")
 
 
-def hopping_exponent(mechanism: Mechanism) -> float | None:
-    """The exponent p of ln G = const - (T0/T)^p of a hopping mechanism.
-
-    Read from ``mechanism.options["exponent"]`` when declared, else from the Mott
-    ``dimension`` option (p = 1/(D+1), Mott 1969), else from :data:`HOPPING_LAWS`.
-    """
-    if "exponent" in mechanism.options:
-        return float(mechanism.options["exponent"])
-    if mechanism.id == "mott_vrh" and "dimension" in mechanism.options:
-        return 1.0 / (int(mechanism.options["dimension"]) + 1)
-    return HOPPING_LAWS.get(mechanism.id)
+def hopping_laws(mechanisms: Sequence[Mechanism]) -> dict[str, float]:
+    """Exponent p of every declared hopping law, keyed by mechanism id (declaration order)."""
+    return {m.id: spec.exponent for m in mechanisms for spec in m.checks
+            if isinstance(spec, HoppingLaw)}
 
 
-def zabrodskii_law_check(ctx: _Context) -> Check:
+def zabrodskii_law_check(spec: HoppingLaw, ctx: _Context) -> Check:
     """Zabrodskii exponent p agrees with the mechanism's law (Zabrodskii & Zinov'eva 1984).
 
     Passes when the mechanism's p is the nearest of the hopping laws to the measured p and
     within max(ZABRODSKII_P_TOL, 2 standard errors) of it.
     """
-    p_law = hopping_exponent(ctx.mechanism)
+    p_law = spec.exponent
     name = "zabrodskii_exponent"
     expected = f"p = {p_law:.3g}, nearest law and within max({ZABRODSKII_P_TOL:g}, 2 sd)"
     z = ctx.zabrodskii
-    if z.exponent_p is None or p_law is None:
+    if z.exponent_p is None:
         return _unknown(name, expected, z.detail)
-    return Check(name, _law_supported(z.exponent_p, z.exponent_p_err, p_law), z.exponent_p,
-                 expected, z.detail)
+    return Check(name, _law_supported(z.exponent_p, z.exponent_p_err, p_law, ctx.laws),
+                 z.exponent_p, expected, z.detail)
 
 
-def _law_supported(p: float, p_err: float | None, p_law: float) -> bool:
-    candidates = np.array(sorted(set(HOPPING_LAWS.values()) | {p_law}))
+def _law_supported(p: float, p_err: float | None, p_law: float,
+                   laws: Mapping[str, float]) -> bool:
+    candidates = np.array(sorted(set(laws.values()) | {p_law}))
     nearest = float(candidates[np.argmin(np.abs(candidates - p))])
     tolerance = max(ZABRODSKII_P_TOL, 2 * p_err) if p_err is not None else ZABRODSKII_P_TOL
     return nearest == p_law and abs(p - p_law) <= tolerance
 
 
-def hop_energy_check(plot_id: str, hop_energy: Callable[[float, float], float],
-                     source: str) -> CheckRule:
+def hop_energy_check(spec: HopEnergyExceedsKT, ctx: _Context) -> Check:
     """Variable-range self-consistency: hop energy W >= kT at the highest temperature [CP]."""
     name, expected = "hop_energy_exceeds_kT", "W/kT >= 1 at the highest temperature"
-
-    def rule(ctx: _Context) -> Check:
-        t0 = ctx.quantity(plot_id, "characteristic_temperature_K")
-        if t0.size == 0:
-            return _unknown(name, expected, f"no finite T0 from the {plot_id}")
-        t_max = float(ctx.data.temperatures.max())
-        ratio = hop_energy(float(np.median(t0)), t_max) / (BOLTZMANN_EV * t_max)
-        return Check(name, ratio >= 1, ratio, expected,
-                     f"W/kT = {ratio:.3g} at {t_max:g} K ({source})")
-    return rule
+    t0 = ctx.quantity(spec.plot, "characteristic_temperature_K")
+    if t0.size == 0:
+        return _unknown(name, expected, f"no finite T0 from the {spec.plot}")
+    t_max = float(ctx.data.temperatures.max())
+    ratio = spec.hop_energy(float(np.median(t0)), t_max) / (BOLTZMANN_EV * t_max)
+    return Check(name, ratio >= 1, ratio, expected,
+                 f"W/kT = {ratio:.3g} at {t_max:g} K ({spec.source})")
 
 
-def ohmic_check(ctx: _Context) -> Check:
+def ohmic_check(spec: Ohmic, ctx: _Context) -> Check:
     """Variable-range hopping as declared is ohmic: d ln I/d ln V within 1 +/- 0.1 [CP]."""
-    name, expected = "ohmic", "0.9 <= d ln I/d ln V <= 1.1 at every temperature"
+    name = "ohmic"
+    expected = (f"{1 - spec.tolerance:g} <= d ln I/d ln V <= {1 + spec.tolerance:g} "
+                "at every temperature")
     if not ctx.log_log_slopes:
         return _unknown(name, expected, "needs >= 3 distinct biases at a temperature")
     slopes = np.array(list(ctx.log_log_slopes.values()))
-    passed = bool(np.all(np.abs(slopes - 1) <= 0.1))
+    passed = bool(np.all(np.abs(slopes - 1) <= spec.tolerance))
     return Check(name, passed, float(np.median(slopes)), expected,
                  f"log-log I-V slope {slopes.min():.3g} to {slopes.max():.3g}")
 
@@ -1165,10 +1120,11 @@ def ohmic_check(ctx: _Context) -> Check:
 def declared_range_checks(ctx: _Context) -> list[Check]:
     """Every interpreted quantity named like a declared parameter lies in its declared range.
 
-    Quantities listed in :data:`RANGE_TESTED_ELSEWHERE` have their own checks and are skipped.
+    Parameters whose range a declared check already tests (its ``tested_parameters``) are
+    skipped.
     """
     checks = []
-    skip = RANGE_TESTED_ELSEWHERE.get(ctx.mechanism.id, frozenset()) | {"dielectric_constant"}
+    skip = {name for spec in ctx.mechanism.checks for name in spec.tested_parameters}
     for parameter in ctx.mechanism.parameters:
         if parameter.name in skip:
             continue
@@ -1191,77 +1147,39 @@ def declared_range_checks(ctx: _Context) -> list[Check]:
     return checks
 
 
-def _mott_hop_energy(t0: float, t: float) -> float:
-    return float(mott_hopping_energy_eV(t0, t))
-
-
-def _es_hop_energy(t0: float, t: float) -> float:
-    return float(es_hopping_energy_eV(t0, t))
-
-
-#: Mechanism-specific consistency checks, keyed by mechanism id. Each rule names the plot
-#: ids and quantity keys it reads from the catalogue declarations. (Candidates to move into
-#: the declarations themselves.) Every mechanism also gets :func:`declared_range_checks`.
-MECHANISM_CHECKS: dict[str, tuple[CheckRule, ...]] = {
-    "direct_tunnelling": (
-        temperature_independent_check,
-        tunnelling_regime_check("direct"),
-        positive_quantity_check(
-            "low_bias_conductance_plot", "cubic_coefficient_per_V2",
-            "the conductance of a tunnel barrier rises with bias (Simmons 1963; Brinkman, "
-            "Dynes & Rowell 1970)"),
-    ),
-    "fowler_nordheim": (
-        temperature_independent_check,
-        straight_plot_check("fowler_nordheim_plot", FN_MIN_R_SQUARED),
-        quantity_range_check("fowler_nordheim_plot",
-                             ("barrier_height_eV", "barrier_height_assuming_unit_mass_eV"),
-                             *FN_BARRIER_RANGE_EV, name="fowler_nordheim_barrier_in_range"),
-        tunnelling_regime_check("fowler_nordheim"),
-    ),
-    "schottky_emission": (
-        thermally_activated_check,
-        dielectric_range_check("schottky_plot"),
-        dielectric_optical_check("schottky_plot"),
-        slope_times_temperature_check("schottky_plot"),
-        zero_field_barrier_check("richardson_plot", "effective_barrier_eV", "barrier_height_eV"),
-        richardson_constant_check("richardson_plot"),
-        field_lowering_dielectric_check("richardson_plot", "effective_barrier_eV",
-                                        "schottky_plot", SCHOTTKY_BETA_EV_SQRT_M_PER_V),
-    ),
-    "poole_frenkel": (
-        thermally_activated_check,
-        dielectric_range_check("poole_frenkel_plot"),
-        dielectric_optical_check("poole_frenkel_plot"),
-        slope_times_temperature_check("poole_frenkel_plot"),
-        zero_field_barrier_check("poole_frenkel_arrhenius_plot", "activation_energy_eV",
-                                 "trap_depth_eV"),
-        field_lowering_dielectric_check("poole_frenkel_arrhenius_plot", "activation_energy_eV",
-                                        "poole_frenkel_plot", POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V),
-    ),
-    "nearest_neighbour_hopping": (
-        thermally_activated_check,
-        zabrodskii_law_check,
-    ),
-    "mott_vrh": (
-        thermally_activated_check,
-        zabrodskii_law_check,
-        ohmic_check,
-        hop_energy_check("mott_vrh_plot", _mott_hop_energy, "W = kT (T0/T)^(1/4)/4, Mott 1969"),
-    ),
-    "es_vrh": (
-        thermally_activated_check,
-        zabrodskii_law_check,
-        ohmic_check,
-        hop_energy_check("es_vrh_plot", _es_hop_energy,
-                         "W = kT (T_ES/T)^(1/2)/2, Efros & Shklovskii 1975"),
-    ),
+#: The rule that evaluates each declared check type (mechid.catalogue.checks).
+CHECK_RULES: dict[type[CheckSpec], Callable[[Any, _Context], Check]] = {
+    ThermallyActivated: thermally_activated_check,
+    NearlyTemperatureIndependent: temperature_independent_check,
+    TunnellingRegime: tunnelling_regime_check,
+    PositiveQuantity: positive_quantity_check,
+    StraightPlot: straight_plot_check,
+    QuantityInRange: quantity_range_check,
+    DielectricRange: dielectric_range_check,
+    DielectricVsOptical: dielectric_optical_check,
+    SlopeTimesTemperature: slope_times_temperature_check,
+    ZeroFieldBarrier: zero_field_barrier_check,
+    RichardsonConstant: richardson_constant_check,
+    FieldLoweringDielectric: field_lowering_dielectric_check,
+    HoppingLaw: zabrodskii_law_check,
+    Ohmic: ohmic_check,
+    HopEnergyExceedsKT: hop_energy_check,
 }
 
-#: Declared parameters whose range is already tested by a mechanism-specific check.
-RANGE_TESTED_ELSEWHERE: dict[str, frozenset[str]] = {
-    "fowler_nordheim": frozenset({"barrier_height_eV"}),
-}
+
+def evaluate_check(spec: CheckSpec, ctx: _Context) -> Check:
+    """Evaluate one declared check with the rule registered for its type.
+
+    Raises
+    ------
+    TypeError
+        When no rule is registered for the spec's type (add one to :data:`CHECK_RULES`).
+    """
+    rule = CHECK_RULES.get(type(spec))
+    if rule is None:
+        raise TypeError(f"no screening rule for the check spec {type(spec).__name__}; "
+                        "register one in mechid.screening.checks.CHECK_RULES")
+    return rule(spec, ctx)
 
 
 # --------------------------------------------------------------------------------------------
@@ -1370,7 +1288,7 @@ def _analyse_mechanism(mechanism: Mechanism, data: _Prepared, device: Device,
         lines[plot.id] = plot_lines_
         notes.extend(plot_notes)
     ctx = _Context(mechanism=mechanism, lines=lines, device=device, data=data, **shared)
-    checks = [rule(ctx) for rule in MECHANISM_CHECKS.get(mechanism.id, ())]
+    checks = [evaluate_check(spec, ctx) for spec in mechanism.checks]
     checks.extend(declared_range_checks(ctx))
     straightness = mechanism_straightness(lines)
     return MechanismLinearisation(
@@ -1387,7 +1305,7 @@ def _analyse_mechanism(mechanism: Mechanism, data: _Prepared, device: Device,
 
 
 def linearise(series: SeriesLike, device: Device | None = None, *,
-              mechanisms: Sequence[Mechanism] = MECHANISMS,
+              mechanisms: Sequence[Mechanism] | None = None,
               n_biases: int = 4) -> LinearisationResult:
     """Straightened-plot analysis of an I-V-T series for every catalogued mechanism.
 
@@ -1401,7 +1319,8 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
         Thickness, area, effective mass and optical dielectric constant used to read
         physical quantities from the lines; without them fewer quantities and checks.
     mechanisms : sequence of Mechanism, optional
-        Defaults to the whole catalogue.
+        Defaults to the whole catalogue (:data:`mechid.catalogue.MECHANISMS` at call time).
+        The Zabrodskii analysis' candidate laws are those the whole catalogue declares.
     n_biases : int, optional
         Number of common biases for Arrhenius-like plots (spread over the common range).
 
@@ -1418,11 +1337,15 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
     evaluated have ``passed=None``.
     """
     device = Device() if device is None else device
+    registered = catalogue.registered_mechanisms()
+    mechanisms = registered if mechanisms is None else tuple(mechanisms)
+    laws = hopping_laws(registered)
     # The fits are tiny: BLAS threads only add overhead (about 7x on 2 cores).
     with np.errstate(all="ignore"), threadpool_limits(limits=1):
         data = _prepare(series, n_biases)
-        zabrodskii = zabrodskii_analysis(data)
+        zabrodskii = zabrodskii_analysis(data, laws)
         shared = {
+            "laws": laws,
             "zabrodskii": zabrodskii,
             "activation": _activation_energies(data),
             "transitions": transition_voltages(data),

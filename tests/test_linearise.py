@@ -17,16 +17,21 @@ import numpy as np
 import pytest
 from scipy import constants, stats
 
-from mechid.catalogue import get_mechanism
+from mechid.catalogue import MECHANISMS, get_mechanism
 from mechid.catalogue.base import ParameterHints
+from mechid.catalogue.checks import CheckSpec, HoppingLaw
+from mechid.catalogue.hopping import mott_vrh_variant
 from mechid.data import IVSeries
 from mechid.device import Device, device_from_values
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.priors import mechanism_priors
 from mechid.inference.start import hint_vectors
 from mechid.linearise import (
+    CHECK_RULES,
     Check,
     LinearisationResult,
+    evaluate_check,
+    hopping_laws,
     linearise,
     robust_line,
 )
@@ -401,3 +406,31 @@ def test_hinted_values_reach_the_mode_search_screen() -> None:
         hint_vectors(target, ParameterHints("poole_frenkel",
                                             {"poole_frenkel_plot.dielectric_constant": 4.0}),
                      np.random.default_rng(0))
+
+
+# --------------------------------------------------------------------------------------------
+# Checks declared with the mechanism
+# --------------------------------------------------------------------------------------------
+
+
+def test_every_declared_check_has_a_rule_and_unknown_specs_are_refused() -> None:
+    for mechanism in MECHANISMS:
+        assert mechanism.checks, mechanism.id
+        for spec in mechanism.checks:
+            assert type(spec) in CHECK_RULES, (mechanism.id, spec)
+
+    @dataclass(frozen=True)
+    class Unruled(CheckSpec):
+        pass
+
+    with pytest.raises(TypeError, match="Unruled"):
+        evaluate_check(Unruled(), None)  # type: ignore[arg-type]
+
+
+def test_hopping_law_comes_from_the_declaration() -> None:
+    # Mott 2D: p = 1/3 (Mott 1969), declared by the variant itself, not looked up by id.
+    mott_2d = mott_vrh_variant(2)
+    laws = [spec for spec in mott_2d.checks if isinstance(spec, HoppingLaw)]
+    assert [law.exponent for law in laws] == [pytest.approx(1 / 3, rel=1e-15)]
+    assert hopping_laws(MECHANISMS) == {"nearest_neighbour_hopping": 1.0, "mott_vrh": 0.25,
+                                        "es_vrh": 0.5}

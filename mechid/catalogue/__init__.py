@@ -29,8 +29,13 @@ MECHANISMS: tuple[Mechanism, ...] = (
 _BY_ID = {m.id: m for m in MECHANISMS}
 
 
+def registered_mechanisms() -> tuple[Mechanism, ...]:
+    """Every mechanism registered now: :data:`MECHANISMS` plus any temporarily added."""
+    return tuple(_BY_ID.values())
+
+
 def mechanism_ids() -> tuple[str, ...]:
-    """The stable ids of all catalogued mechanisms."""
+    """The stable ids of all registered mechanisms."""
     return tuple(_BY_ID)
 
 
@@ -58,4 +63,5 @@ __all__ = [
     "StraightenedPlot",
     "get_mechanism",
     "mechanism_ids",
+    "registered_mechanisms",
 ]

@@ -22,7 +22,7 @@ from typing import Any, Literal
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from mechid.catalogue.checks import PlotEstimate
+from mechid.catalogue.checks import CheckSpec, PlotEstimate
 from mechid.device import Device
 from mechid.errors import UnknownMechanismError
 
@@ -151,7 +151,9 @@ class Mechanism:
     False for mechanisms written directly as a current (no electrode area involved).
     ``estimates`` lists the parameters its straightened plots determine
     (:class:`~mechid.catalogue.checks.PlotEstimate`): the screening reads them into
-    :class:`ParameterHints`, the fit's starting values.
+    :class:`ParameterHints`, the fit's starting values. ``checks`` lists its consistency
+    checks (:class:`~mechid.catalogue.checks.CheckSpec` subclasses), which the screening
+    evaluates; every mechanism also gets the generic declared-range check.
     """
 
     id: str
@@ -166,9 +168,15 @@ class Mechanism:
     options: Mapping[str, Any] = field(default_factory=dict)
     needs_area: bool = True
     estimates: tuple[PlotEstimate, ...] = ()
+    checks: tuple[CheckSpec, ...] = ()
 
     def __post_init__(self) -> None:
         plot_ids = {plot.id for plot in self.plots}
+        for spec in self.checks:
+            read = [getattr(spec, a) for a in ("plot", "arrhenius_plot", "field_plot")
+                    if hasattr(spec, a)]
+            if any(plot_id not in plot_ids for plot_id in read):
+                raise ValueError(f"{self.id}: {type(spec).__name__} reads an undeclared plot")
         for estimate in self.estimates:
             if estimate.parameter not in self.parameter_names:
                 raise ValueError(f"{self.id}: estimate of unknown parameter {estimate.parameter!r}")

@@ -30,7 +30,13 @@ from mechid.catalogue.base import (
     iv_magnitudes,
     positive_or_nan,
 )
-from mechid.catalogue.checks import PlotEstimate
+from mechid.catalogue.checks import (
+    HopEnergyExceedsKT,
+    HoppingLaw,
+    Ohmic,
+    PlotEstimate,
+    ThermallyActivated,
+)
 from mechid.constants import BOLTZMANN_EV, SCHOTTKY_BETA_EV_SQRT_M_PER_V
 from mechid.device import Device
 
@@ -506,8 +512,19 @@ NEAREST_NEIGHBOUR_HOPPING = Mechanism(
         PlotEstimate("activation_energy_eV", "hopping_arrhenius_plot", zero_bias_power=1.0),
         PlotEstimate("hopping_distance_nm", "hopping_field_plot"),
     ),
+    checks=(ThermallyActivated(), HoppingLaw(exponent=1.0)),
 )
 
+
+
+def _mott_hop_energy(t0: float, t: float) -> float:
+    """Mott hop energy in eV as a plain float (for the hop-energy check)."""
+    return float(mott_hopping_energy_eV(t0, t))
+
+
+def _es_hop_energy(t0: float, t: float) -> float:
+    """Efros-Shklovskii hop energy in eV as a plain float (for the hop-energy check)."""
+    return float(es_hopping_energy_eV(t0, t))
 
 
 def _vrh_estimates(plot_id: str) -> tuple[PlotEstimate, ...]:
@@ -566,6 +583,13 @@ def mott_vrh_variant(dimension: int) -> Mechanism:
         options={"dimension": dimension},
         needs_area=False,
         estimates=_vrh_estimates("mott_vrh_plot"),
+        checks=(
+            ThermallyActivated(),
+            HoppingLaw(exponent=exponent),
+            Ohmic(),
+            HopEnergyExceedsKT("mott_vrh_plot", _mott_hop_energy,
+                               "W = kT (T0/T)^(1/4)/4, Mott 1969"),
+        ),
     )
 
 
@@ -590,4 +614,11 @@ ES_VRH = Mechanism(
     temperature_dependence="stretched exponential: ln(I/V) linear in T^(-1/2)",
     needs_area=False,
     estimates=_vrh_estimates("es_vrh_plot"),
+    checks=(
+        ThermallyActivated(),
+        HoppingLaw(exponent=0.5),
+        Ohmic(),
+        HopEnergyExceedsKT("es_vrh_plot", _es_hop_energy,
+                           "W = kT (T_ES/T)^(1/2)/2, Efros & Shklovskii 1975"),
+    ),
 )
