@@ -25,8 +25,8 @@ from mechid.inference.evidence import FAR_BELOW_MARGIN
 from mechid.inference.fit import MechanismFit
 from mechid.inference.rounds import FitJob, default_workers, fit_in_rounds
 from mechid.inference.tempering import LadderSettings
-from mechid.linearise import LinearisationResult, linearise
 from mechid.results import AnalysisResult, MechanismResult, Verdict
+from mechid.screening import LinearisationResult, linearise
 
 ProgressHook = Callable[[str, int, int], None]
 

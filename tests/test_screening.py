@@ -1,4 +1,4 @@
-"""Straightened-plot analysis (mechid.linearise) on clean simulated I-V-T series.
+"""Straightened-plot analysis (mechid.screening) on clean simulated I-V-T series.
 
 Series are built directly from ``mechanism.current(V, T, params, device)`` of the catalogue
 declarations, on both polarities, in realistic regimes chosen so that each mechanism's own
@@ -11,6 +11,8 @@ from __future__ import annotations
 
 import json
 import math
+import subprocess
+import sys
 from dataclasses import dataclass
 
 import numpy as np
@@ -26,7 +28,7 @@ from mechid.device import Device, device_from_values
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.priors import mechanism_priors
 from mechid.inference.start import hint_vectors
-from mechid.linearise import (
+from mechid.screening import (
     CHECK_RULES,
     Check,
     LinearisationResult,
@@ -35,6 +37,7 @@ from mechid.linearise import (
     linearise,
     robust_line,
 )
+from mechid.screening.biases import common_bias_points, prepare_series
 
 AREA_CM2 = 1e-4
 
@@ -434,3 +437,25 @@ def test_hopping_law_comes_from_the_declaration() -> None:
     assert [law.exponent for law in laws] == [pytest.approx(1 / 3, rel=1e-15)]
     assert hopping_laws(MECHANISMS) == {"nearest_neighbour_hopping": 1.0, "mott_vrh": 0.25,
                                         "es_vrh": 0.5}
+
+
+# --------------------------------------------------------------------------------------------
+# Layering and the shared bias matching
+# --------------------------------------------------------------------------------------------
+
+
+def test_catalogue_does_not_import_the_screening() -> None:
+    code = ("import sys, mechid.catalogue; "
+            "sys.exit(any(m.startswith('mechid.screening') for m in sys.modules))")
+    assert subprocess.run([sys.executable, "-c", code], check=False).returncode == 0
+
+
+def test_report_bias_points_are_the_common_bias_table() -> None:
+    regime = REGIMES["poole_frenkel"]
+    series = _series(regime.mechanism_id, regime.params, regime.temperatures_K,
+                     regime.biases_V, regime.device)
+    data = prepare_series(series, n_biases=4)
+    for bias, currents in zip(data.common_biases_V, data.common_current_A, strict=True):
+        temps, current = common_bias_points(series, float(bias))
+        np.testing.assert_array_equal(temps, data.temperatures)
+        np.testing.assert_array_equal(current, currents)
