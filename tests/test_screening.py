@@ -459,3 +459,48 @@ def test_report_bias_points_are_the_common_bias_table() -> None:
         temps, current = common_bias_points(series, float(bias))
         np.testing.assert_array_equal(temps, data.temperatures)
         np.testing.assert_array_equal(current, currents)
+
+
+# --------------------------------------------------------------------------------------------
+# Hop distance only from the exponential regime of the field plot
+# --------------------------------------------------------------------------------------------
+
+
+def _hopping_series(activation_eV: float, biases_V: np.ndarray) -> tuple[IVSeries, Device]:
+    device = _device(thickness_nm=50.0)
+    params = {"activation_energy_eV": activation_eV, "hopping_distance_nm": 1.0,
+              "prefactor_A_per_cm2": 1e5, "thickness_nm": 50.0}
+    return _series("nearest_neighbour_hopping", params, np.linspace(200, 350, 6), biases_V,
+                   device), device
+
+
+def test_low_field_hopping_leaves_the_hop_distance_undetermined() -> None:
+    # E_a = 0.2 eV, d = 50 nm, V <= 0.05 V: e a E <= 1 nm x 0.05 V/50 nm = 1 meV against
+    # 2 k T >= 34 meV, so e a E/(2 k T) <= 0.03: the ohmic end of J ~ sinh(e a E/(2 k T)) (Mott & Davis 1979). A line through ln I vs V
+    # there read a = 97.6 nm (truth 1 nm), failed the range check and direct tunnelling won.
+    series, device = _hopping_series(0.2, np.linspace(0.005, 0.05, 10))
+    result = linearise(series, device)
+    hopping = result.for_mechanism("nearest_neighbour_hopping")
+    assert not [line for line in hopping.lines if line.plot_id == "hopping_field_plot"]
+    distance = [c for c in hopping.checks if c.name == "hopping_distance_nm_in_declared_range"]
+    assert len(distance) == 1 and distance[0].passed is None
+    assert "undetermined" in distance[0].detail
+    assert "hopping_distance_nm" not in hopping.hints.values
+    assert not [c.name for c in hopping.checks if c.passed is False]
+    assert result.ranking[0] == "nearest_neighbour_hopping"
+
+
+def test_high_field_hopping_reads_the_hop_distance_from_the_exponential_regime() -> None:
+    # e a E/(2 k T) from 0.017 to 14.5 over 0.05-25 V at 200-350 K: only the points with
+    # argument >= 3 belong to the straight line. Independent value: the slope of ln I vs V
+    # there is e a/(2 k T d) up to coth(x) - 1 <= 0.5 %, so a is read to better than 0.5 %.
+    series, device = _hopping_series(0.4, np.geomspace(0.05, 25.0, 30))
+    hopping = linearise(series, device).for_mechanism("nearest_neighbour_hopping")
+    lines = [line for line in hopping.lines if line.plot_id == "hopping_field_plot"]
+    assert len(lines) == 6
+    k_eV = constants.k / constants.e
+    for line in lines:
+        argument_at_lowest = line.x_min * 1.0 / (2 * k_eV * line.group_value * 50.0)
+        assert argument_at_lowest >= 3.0 * 0.99
+        assert line.quantities["hopping_distance_nm"] == pytest.approx(1.0, rel=5e-3)
+    assert hopping.hints.values["hopping_distance_nm"] == pytest.approx(1.0, rel=5e-3)

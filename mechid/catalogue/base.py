@@ -110,6 +110,23 @@ class Parameter:
 
 
 @dataclass(frozen=True)
+class PlotRegime:
+    """Where a straightened plot's straight-line form holds, judged from the line itself.
+
+    Parameters
+    ----------
+    holds : callable
+        ``holds(x, slope) -> bool array``: the points of one line (plot x values) inside the
+        regime, given the slope of the line drawn through them.
+    description : str
+        The condition in words, e.g. ``"e a E/(2 k T) = slope x |V| >= 3"``.
+    """
+
+    holds: Callable[[FloatArray, float], NDArray[np.bool_]]
+    description: str
+
+
+@dataclass(frozen=True)
 class StraightenedPlot:
     """A classical linearisation: a transform under which the mechanism is a straight line.
 
@@ -131,6 +148,11 @@ class StraightenedPlot:
         ``interpret(slope, intercept, group_value, device) -> dict`` of physical quantities
         read from one line (group_value is the temperature in K or the voltage in V); keys
         carry unit suffixes. May return an empty dict when the device lacks a needed value.
+    regime : PlotRegime, optional
+        For a plot straight only in part of its range (``per_temperature`` plots): the
+        screening fits the line, keeps the points where ``regime.holds``, refits until the
+        kept points no longer change, and draws no line (the quantities undetermined) when
+        fewer than four points remain. None: every point belongs to the line.
     """
 
     id: str
@@ -140,6 +162,7 @@ class StraightenedPlot:
     grouping: Literal["per_temperature", "per_voltage"]
     transform: Callable[[FloatArray, FloatArray, FloatArray, Device], tuple[FloatArray, FloatArray]]
     interpret: Callable[[float, float, float, Device], dict[str, float]]
+    regime: PlotRegime | None = None
 
 
 @dataclass(frozen=True)

@@ -26,6 +26,7 @@ from mechid.catalogue.base import (
     FloatArray,
     Mechanism,
     Parameter,
+    PlotRegime,
     StraightenedPlot,
     iv_magnitudes,
     positive_or_nan,
@@ -448,6 +449,23 @@ def _vrh_magnitude(exponent: float) -> Callable[..., FloatArray]:
 # Declarations
 # --------------------------------------------------------------------------------------
 
+#: Smallest sinh argument x = e a E/(2 k T) at which ln I is read as linear in V: there
+#: sinh x = exp(x)/2 (1 - exp(-2x)), and the local slope d ln I/dV = b coth(x) exceeds b by
+#: 2 exp(-2x)/(1 - exp(-2x)) = 0.5 % at x = 3 (our threshold for "e a E >> 2 k T").
+HOPPING_FIELD_MIN_ARGUMENT = 3.0
+
+
+def _exponential_field_regime(voltage_V: FloatArray, slope_per_V: float) -> FloatArray:
+    """Points of the hopping field plot where e a E >> 2 k T (Mott & Davis 1979 sinh law).
+
+    On the straight part the slope of ln I against |V| is b = e a/(2 k T d), so the sinh
+    argument at each point is x = slope |V|; points with x >= HOPPING_FIELD_MIN_ARGUMENT are
+    in the exponential regime. In the ohmic regime (x << 1) a line through ln I vs V has a
+    slope of order 1/|V| and gives x of order 1, so no point qualifies.
+    """
+    return np.asarray(slope_per_V * voltage_V >= HOPPING_FIELD_MIN_ARGUMENT)
+
+
 _CONDUCTANCE_PREFACTOR = Parameter(
     name="prefactor_S", unit="S", symbol="G0",
     description="conductance prefactor (high-temperature limit of I/V)",
@@ -505,6 +523,8 @@ NEAREST_NEIGHBOUR_HOPPING = Mechanism(
             grouping="per_temperature",
             transform=_hopping_field_transform,
             interpret=_hopping_field_interpret,
+            regime=PlotRegime(_exponential_field_regime,
+                              f"e a E/(2 k T) = slope x |V| >= {HOPPING_FIELD_MIN_ARGUMENT:g}"),
         ),
     ),
     temperature_dependence="activated: ln(I/V) linear in 1/T at low field (slope -E_a/k)",

@@ -323,7 +323,9 @@ def declared_range_checks(ctx: CheckContext) -> list[Check]:
     """Every interpreted quantity named like a declared parameter lies in its declared range.
 
     Parameters whose range a declared check already tests (its ``tested_parameters``) are
-    skipped.
+    skipped. A parameter estimated from a plot with a declared regime
+    (:class:`~mechid.catalogue.base.PlotRegime`) that drew no line because no point lay in
+    that regime is reported as undetermined (``passed=None``), not as failing.
     """
     checks = []
     skip = {name for spec in ctx.mechanism.checks for name in spec.tested_parameters}
@@ -334,10 +336,13 @@ def declared_range_checks(ctx: CheckContext) -> list[Check]:
                                 or [np.empty(0)])
         present = any(parameter.name in line.quantities
                       for lines in ctx.lines.values() for line in lines)
-        if not present:
-            continue
         expected = f"{parameter.lower:g} <= {parameter.name} <= {parameter.upper:g}"
         name = f"{parameter.name}_in_declared_range"
+        if not present:
+            outside = _outside_regime(ctx, parameter.name)
+            if outside is not None:
+                checks.append(_unknown(name, expected, outside))
+            continue
         if values.size == 0:
             checks.append(Check(name, False, None, expected,
                                 f"no finite {parameter.name} could be read"))
@@ -347,6 +352,16 @@ def declared_range_checks(ctx: CheckContext) -> list[Check]:
         checks.append(Check(name, passed, value, expected,
                             f"median {parameter.name} = {value:.4g} {parameter.unit}"))
     return checks
+
+
+def _outside_regime(ctx: CheckContext, parameter: str) -> str | None:
+    """Why ``parameter`` is undetermined, when its plot drew no line for want of regime points."""
+    for estimate in ctx.mechanism.estimates:
+        plot = next(p for p in ctx.mechanism.plots if p.id == estimate.plot)
+        if estimate.parameter == parameter and plot.regime is not None and not ctx.lines.get(plot.id):
+            return (f"undetermined: no {plot.id} line, no point lies where the plot is straight "
+                    f"({plot.regime.description})")
+    return None
 
 
 #: The rule that evaluates each declared check type (mechid.catalogue.checks).

@@ -3,8 +3,9 @@
 from __future__ import annotations
 
 import numpy as np
+from numpy.typing import NDArray
 
-from mechid.catalogue.base import FloatArray, StraightenedPlot
+from mechid.catalogue.base import FloatArray, PlotRegime, StraightenedPlot
 from mechid.device import Device
 from mechid.screening.biases import MIN_TEMPERATURES, PreparedSeries
 from mechid.screening.lines import RobustLine, robust_line
@@ -12,6 +13,8 @@ from mechid.screening.records import LineFit
 
 #: Fewest points for a per-temperature line.
 MIN_POINTS_PER_LINE = 4
+#: Most refits while the points of a plot's declared regime change.
+MAX_REGIME_REFITS = 20
 
 
 def _transform(plot: StraightenedPlot, voltage: FloatArray, temperature: FloatArray,
@@ -66,12 +69,44 @@ def _per_temperature_lines(plot: StraightenedPlot, data: PreparedSeries,
         if np.count_nonzero(finite) < MIN_POINTS_PER_LINE:
             notes.append(f"{plot.id} at {t:g} K: fewer than {MIN_POINTS_PER_LINE} usable points")
             continue
-        line = _make_line(plot, "temperature_K", float(t), x[at_t], y[at_t], device)
+        x_t, y_t = x[at_t], y[at_t]
+        if plot.regime is not None:
+            inside = _regime_points(plot.regime, x_t, y_t)
+            if inside is None:
+                notes.append(f"{plot.id} at {t:g} K: fewer than {MIN_POINTS_PER_LINE} points where "
+                             f"the plot is straight ({plot.regime.description}); its "
+                             "quantities are undetermined")
+                continue
+            x_t = np.where(inside, x_t, np.nan)
+        line = _make_line(plot, "temperature_K", float(t), x_t, y_t, device)
         if line is None:
             notes.append(f"{plot.id} at {t:g} K: no spread in x")
         else:
             lines.append(line)
     return lines, notes
+
+
+def _regime_points(regime: PlotRegime, x: FloatArray, y: FloatArray) -> NDArray[np.bool_] | None:
+    """Points of one line inside the plot's declared regime, found self-consistently.
+
+    Fit all finite points, keep those where ``regime.holds(x, slope)``, refit on them and
+    repeat until the kept set is unchanged (at most MAX_REGIME_REFITS times). None when
+    fewer than MIN_POINTS_PER_LINE points are kept.
+    """
+    finite = np.isfinite(x) & np.isfinite(y)
+    kept = finite
+    for _ in range(MAX_REGIME_REFITS):
+        fit = robust_line(x[kept], y[kept])
+        if fit is None:
+            return None
+        with np.errstate(all="ignore"):
+            now = finite & np.asarray(regime.holds(x, fit.slope), dtype=bool)
+        if np.count_nonzero(now) < MIN_POINTS_PER_LINE:
+            return None
+        if np.array_equal(now, kept):
+            break
+        kept = now
+    return kept
 
 
 def _per_voltage_lines(plot: StraightenedPlot, data: PreparedSeries,
