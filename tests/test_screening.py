@@ -476,8 +476,9 @@ def _hopping_series(activation_eV: float, biases_V: np.ndarray) -> tuple[IVSerie
 
 def test_low_field_hopping_leaves_the_hop_distance_undetermined() -> None:
     # E_a = 0.2 eV, d = 50 nm, V <= 0.05 V: e a E <= 1 nm x 0.05 V/50 nm = 1 meV against
-    # 2 k T >= 34 meV, so e a E/(2 k T) <= 0.03: the ohmic end of J ~ sinh(e a E/(2 k T)) (Mott & Davis 1979). A line through ln I vs V
-    # there read a = 97.6 nm (truth 1 nm), failed the range check and direct tunnelling won.
+    # 2 k T >= 34 meV, so e a E/(2 k T) <= 0.03: the ohmic end of J ~ sinh(e a E/(2 k T))
+    # (Mott & Davis 1979). A line through ln I vs V there read a = 97.6 nm (truth 1 nm),
+    # failed the range check and direct tunnelling won.
     series, device = _hopping_series(0.2, np.linspace(0.005, 0.05, 10))
     result = linearise(series, device)
     hopping = result.for_mechanism("nearest_neighbour_hopping")
