@@ -14,7 +14,7 @@ from typing import Any, Literal
 
 import numpy as np
 
-from mechid.catalogue import MECHANISMS, get_mechanism
+from mechid.catalogue import get_mechanism, registered_mechanisms
 from mechid.catalogue.base import Mechanism, ParameterHints
 from mechid.data import IVSeries
 from mechid.device import Device
@@ -198,7 +198,7 @@ def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:
 
 def _selected_mechanisms(settings: AnalysisSettings) -> list[Mechanism]:
     if settings.mechanisms is None:
-        return list(MECHANISMS)
+        return list(registered_mechanisms())
     return [get_mechanism(m) for m in settings.mechanisms]
 
 
