@@ -1,6 +1,6 @@
 """Screening: classical straightened-plot analysis of an I-V-T series (the practitioner's look).
 
-Every mechanism in :data:`mechid.catalogue.MECHANISMS` declares its straightened plots
+Every registered mechanism (:mod:`mechid.catalogue`) declares its straightened plots
 (:class:`~mechid.catalogue.base.StraightenedPlot`): a transform under which the mechanism is a
 straight line and an ``interpret`` that reads physical quantities from slope and intercept.
 This module draws those lines through the data -- one per temperature or one per selected bias

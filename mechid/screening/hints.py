@@ -8,9 +8,7 @@ from collections.abc import Mapping, Sequence
 import numpy as np
 
 from mechid.catalogue.base import Mechanism, ParameterHints
-from mechid.catalogue.checks import (
-    PlotEstimate,
-)
+from mechid.catalogue.checks import PlotEstimate
 from mechid.screening.lines import zero_bias_line
 from mechid.screening.records import LineFit
 

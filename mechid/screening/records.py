@@ -224,11 +224,11 @@ class MechanismLinearisation:
         clipped to [0, STRAIGHTNESS_CAP]; None when no line could be drawn.
     score : float
         Screening score (see :func:`screening_score`); -inf when nothing could be drawn.
-    notes : tuple of str
-        Plots that could not be drawn, with the reason.
     hints : ParameterHints
         Values of the declared parameters the plots determine (the mechanism's
         ``estimates``), keyed by parameter name: the fit's starting values. Not in the JSON.
+    notes : tuple of str
+        Plots that could not be drawn, with the reason.
     """
 
     mechanism_id: str
@@ -238,8 +238,8 @@ class MechanismLinearisation:
     checks: tuple[Check, ...]
     straightness: float | None
     score: float
+    hints: ParameterHints
     notes: tuple[str, ...] = ()
-    hints: ParameterHints = field(default_factory=lambda: ParameterHints(""))
 
     def to_dict(self) -> dict[str, Any]:
         """Plain-JSON form."""

@@ -68,7 +68,7 @@ def _analyse_mechanism(mechanism: Mechanism, data: PreparedSeries, device: Devic
 def linearise(series: SeriesLike, device: Device | None = None, *,
               mechanisms: Sequence[Mechanism] | None = None,
               n_biases: int = 4) -> LinearisationResult:
-    """Straightened-plot analysis of an I-V-T series for every catalogued mechanism.
+    """Straightened-plot analysis of an I-V-T series for every registered mechanism.
 
     Parameters
     ----------
@@ -80,8 +80,9 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
         Thickness, area, effective mass and optical dielectric constant used to read
         physical quantities from the lines; without them fewer quantities and checks.
     mechanisms : sequence of Mechanism, optional
-        Defaults to the whole catalogue (:data:`mechid.catalogue.MECHANISMS` at call time).
-        The Zabrodskii analysis' candidate laws are those the whole catalogue declares.
+        Defaults to every registered mechanism
+        (:func:`mechid.catalogue.registered_mechanisms`, read at call time). The Zabrodskii
+        analysis' candidate laws are those all registered mechanisms declare.
     n_biases : int, optional
         Number of common biases for Arrhenius-like plots (spread over the common range).
 
