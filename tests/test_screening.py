@@ -9,6 +9,7 @@ recomputed there with scipy.constants.
 
 from __future__ import annotations
 
+import dataclasses
 import json
 import math
 import subprocess
@@ -21,7 +22,13 @@ from scipy import constants, stats
 
 from mechid.catalogue import MECHANISMS, get_mechanism
 from mechid.catalogue.base import ParameterHints
-from mechid.catalogue.checks import CheckSpec, HoppingLaw
+from mechid.catalogue.checks import (
+    CheckSpec,
+    HoppingLaw,
+    PlotEstimate,
+    StraightPlot,
+    ZeroFieldBarrier,
+)
 from mechid.catalogue.hopping import mott_vrh_variant
 from mechid.data import IVSeries
 from mechid.device import Device, device_from_values
@@ -505,3 +512,19 @@ def test_high_field_hopping_reads_the_hop_distance_from_the_exponential_regime()
         assert argument_at_lowest >= 3.0 * 0.99
         assert line.quantities["hopping_distance_nm"] == pytest.approx(1.0, rel=5e-3)
     assert hopping.hints.values["hopping_distance_nm"] == pytest.approx(1.0, rel=5e-3)
+
+
+@pytest.mark.parametrize(("declaration", "message"), [
+    ({"estimates": (PlotEstimate("no_such_parameter", "toy_plot"),)}, "unknown parameter"),
+    ({"estimates": (PlotEstimate("activation_energy_eV", "no_such_plot"),)}, "undeclared plot"),
+    ({"checks": (StraightPlot("no_such_plot", 0.99),)}, "undeclared plot"),
+    ({"checks": (ZeroFieldBarrier("toy_plot", "activation_energy_eV", "barrier_eV"),)},
+     "undeclared parameter barrier_eV"),
+])
+def test_declarations_naming_unknown_plots_or_parameters_fail_at_import(
+        declaration: dict, message: str) -> None:
+    hopping = get_mechanism("nearest_neighbour_hopping")
+    plot = dataclasses.replace(hopping.plots[0], id="toy_plot")
+    with pytest.raises(ValueError, match=message):
+        dataclasses.replace(hopping, id="toy", plots=(plot,),
+                            **{"estimates": (), "checks": (), **declaration})

@@ -200,6 +200,12 @@ class Mechanism:
                     if hasattr(spec, a)]
             if any(plot_id not in plot_ids for plot_id in read):
                 raise ValueError(f"{self.id}: {type(spec).__name__} reads an undeclared plot")
+            named = [*spec.tested_parameters, *([spec.parameter] if hasattr(spec, "parameter")
+                                                 and spec.parameter is not None else [])]
+            unknown = [name for name in named if name not in self.parameter_names]
+            if unknown:
+                raise ValueError(f"{self.id}: {type(spec).__name__} names undeclared parameter "
+                                 f"{', '.join(unknown)}")
         for estimate in self.estimates:
             if estimate.parameter not in self.parameter_names:
                 raise ValueError(f"{self.id}: estimate of unknown parameter {estimate.parameter!r}")
