@@ -528,3 +528,10 @@ def test_declarations_naming_unknown_plots_or_parameters_fail_at_import(
     with pytest.raises(ValueError, match=message):
         dataclasses.replace(hopping, id="toy", plots=(plot,),
                             **{"estimates": (), "checks": (), **declaration})
+
+
+def test_a_plot_regime_needs_per_temperature_lines() -> None:
+    field_plot = get_mechanism("nearest_neighbour_hopping").plots[1]
+    assert field_plot.regime is not None
+    with pytest.raises(ValueError, match="per_temperature"):
+        dataclasses.replace(field_plot, grouping="per_voltage")

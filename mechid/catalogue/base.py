@@ -164,6 +164,10 @@ class StraightenedPlot:
     interpret: Callable[[float, float, float, Device], dict[str, float]]
     regime: PlotRegime | None = None
 
+    def __post_init__(self) -> None:
+        if self.regime is not None and self.grouping != "per_temperature":
+            raise ValueError(f"{self.id}: a plot regime is evaluated on per_temperature lines only")
+
 
 @dataclass(frozen=True)
 class Mechanism:
