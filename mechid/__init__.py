@@ -1,7 +1,7 @@
 """mechid: identify the conduction mechanism of thin films and junctions from I-V-T data.
 
-Data flows one way: read and validate (:mod:`mechid.data`) -> linearise
-(:mod:`mechid.linearise`) -> fit and compare (:mod:`mechid.inference`) -> report
+Data flows one way: read and validate (:mod:`mechid.data`) -> screen
+(:mod:`mechid.screening`) -> fit and compare (:mod:`mechid.inference`) -> report
 (:mod:`mechid.report`). Every conduction mechanism is declared once in
 :mod:`mechid.catalogue`.
 """

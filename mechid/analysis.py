@@ -14,8 +14,8 @@ from typing import Any, Literal
 
 import numpy as np
 
-from mechid.catalogue import MECHANISMS, get_mechanism
-from mechid.catalogue.base import Mechanism
+from mechid.catalogue import get_mechanism, registered_mechanisms
+from mechid.catalogue.base import Mechanism, ParameterHints
 from mechid.data import IVSeries
 from mechid.device import Device
 from mechid.errors import MechidError
@@ -32,8 +32,8 @@ from mechid.inference.settings import (
     LadderSettings,
     SearchSettings,
 )
-from mechid.linearise import LinearisationResult, linearise
 from mechid.results import AnalysisResult, MechanismResult, ParameterSummary, Verdict
+from mechid.screening import LinearisationResult, linearise
 
 ProgressHook = Callable[[str, int, int], None]
 
@@ -192,18 +192,16 @@ def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:
 
 def _selected_mechanisms(settings: AnalysisSettings) -> list[Mechanism]:
     if settings.mechanisms is None:
-        return list(MECHANISMS)
+        return list(registered_mechanisms())
     return [get_mechanism(m) for m in settings.mechanisms]
 
 
-def _linearisation_hints(lin: LinearisationResult) -> dict[str, dict[str, float]]:
-    """Parameter values read from the straightened plots, keyed by mechanism id."""
-    hints: dict[str, dict[str, float]] = {}
-    for entry in lin.mechanisms:
-        values = {k: float(v) for k, v in entry.summary.items()
-                  if isinstance(v, int | float) and np.isfinite(v)}
-        hints[entry.mechanism_id] = values
-    return hints
+def _linearisation_hints(lin: LinearisationResult) -> dict[str, ParameterHints]:
+    """Starting values read from the straightened plots, keyed by mechanism id.
+
+    Each entry is keyed by declared parameter name (the mechanism's ``estimates``).
+    """
+    return {entry.mechanism_id: entry.hints for entry in lin.mechanisms}
 
 
 def _ranked_results(fits: dict[str, MechanismFit], settings: AnalysisSettings) -> list[MechanismResult]:

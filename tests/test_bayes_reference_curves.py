@@ -17,7 +17,7 @@ from mechid.analysis import AnalysisSettings, run_analysis_full
 from mechid.data import read_series
 from mechid.device import read_device_toml
 from mechid.errors import MechidWarning
-from mechid.linearise import linearise
+from mechid.screening import linearise
 
 ROOT = Path(__file__).resolve().parents[1] / "reference_curves"
 FOLDERS = sorted(p for p in ROOT.iterdir() if (p / "truth.json").is_file())

@@ -11,7 +11,7 @@ import pytest
 from mechid.catalogue import get_mechanism
 from mechid.data import read_series
 from mechid.device import read_device_toml
-from mechid.linearise import linearise
+from mechid.screening import linearise
 from mechid.simulate import simulate_series
 
 ROOT = Path(__file__).resolve().parents[1] / "reference_curves"

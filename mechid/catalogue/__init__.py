@@ -9,6 +9,9 @@ Each mechanism is declared once, in the module of its family:
 
 from __future__ import annotations
 
+from collections.abc import Iterator
+from contextlib import contextmanager
+
 from mechid.catalogue.base import Mechanism, Parameter, StraightenedPlot
 from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
 from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, NEAREST_NEIGHBOUR_HOPPING
@@ -29,8 +32,39 @@ MECHANISMS: tuple[Mechanism, ...] = (
 _BY_ID = {m.id: m for m in MECHANISMS}
 
 
+def registered_mechanisms() -> tuple[Mechanism, ...]:
+    """Every mechanism registered now: :data:`MECHANISMS` plus any temporarily added."""
+    return tuple(_BY_ID.values())
+
+
+@contextmanager
+def temporarily_registered(*mechanisms: Mechanism) -> Iterator[tuple[Mechanism, ...]]:
+    """Register extra mechanisms for the duration of a ``with`` block.
+
+    Inside the block they are listed, looked up, screened, fitted and reported exactly like
+    the catalogued ones (everything reads the registry through :func:`get_mechanism` and
+    :func:`registered_mechanisms`); on leaving they are removed again. Meant for tests and
+    for trying a mechanism before adding it to :data:`MECHANISMS`. Fits on worker processes
+    (``workers > 1``) start from the built-in catalogue, so fit in-process (``workers=1``).
+
+    Raises
+    ------
+    ValueError
+        When an id is already registered.
+    """
+    taken = [m.id for m in mechanisms if m.id in _BY_ID]
+    if taken or len({m.id for m in mechanisms}) != len(mechanisms):
+        raise ValueError(f"mechanism id already registered: {', '.join(taken) or 'duplicate'}")
+    _BY_ID.update({m.id: m for m in mechanisms})
+    try:
+        yield mechanisms
+    finally:
+        for m in mechanisms:
+            _BY_ID.pop(m.id, None)
+
+
 def mechanism_ids() -> tuple[str, ...]:
-    """The stable ids of all catalogued mechanisms."""
+    """The stable ids of all registered mechanisms."""
     return tuple(_BY_ID)
 
 
@@ -58,4 +92,6 @@ __all__ = [
     "StraightenedPlot",
     "get_mechanism",
     "mechanism_ids",
+    "registered_mechanisms",
+    "temporarily_registered",
 ]

@@ -22,6 +22,7 @@ from typing import Any, Literal
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from mechid.catalogue.checks import CheckSpec, PlotEstimate
 from mechid.device import Device
 from mechid.errors import UnknownMechanismError
 
@@ -109,6 +110,23 @@ class Parameter:
 
 
 @dataclass(frozen=True)
+class PlotRegime:
+    """Where a straightened plot's straight-line form holds, judged from the line itself.
+
+    Parameters
+    ----------
+    holds : callable
+        ``holds(x, slope) -> bool array``: the points of one line (plot x values) inside the
+        regime, given the slope of the line drawn through them.
+    description : str
+        The condition in words, e.g. ``"e a E/(2 k T) = slope x |V| >= 3"``.
+    """
+
+    holds: Callable[[FloatArray, float], NDArray[np.bool_]]
+    description: str
+
+
+@dataclass(frozen=True)
 class StraightenedPlot:
     """A classical linearisation: a transform under which the mechanism is a straight line.
 
@@ -130,6 +148,11 @@ class StraightenedPlot:
         ``interpret(slope, intercept, group_value, device) -> dict`` of physical quantities
         read from one line (group_value is the temperature in K or the voltage in V); keys
         carry unit suffixes. May return an empty dict when the device lacks a needed value.
+    regime : PlotRegime, optional
+        For a plot straight only in part of its range (``per_temperature`` plots): the
+        screening fits the line, keeps the points where ``regime.holds``, refits until the
+        kept points no longer change, and draws no line (the quantities undetermined) when
+        fewer than four points remain. None: every point belongs to the line.
     """
 
     id: str
@@ -139,6 +162,11 @@ class StraightenedPlot:
     grouping: Literal["per_temperature", "per_voltage"]
     transform: Callable[[FloatArray, FloatArray, FloatArray, Device], tuple[FloatArray, FloatArray]]
     interpret: Callable[[float, float, float, Device], dict[str, float]]
+    regime: PlotRegime | None = None
+
+    def __post_init__(self) -> None:
+        if self.regime is not None and self.grouping != "per_temperature":
+            raise ValueError(f"{self.id}: a plot regime is evaluated on per_temperature lines only")
 
 
 @dataclass(frozen=True)
@@ -148,6 +176,11 @@ class Mechanism:
     The current is odd in voltage: ``I(V) = sign(V) * magnitude(|V|)``, so both bias
     polarities are described by one set of parameters (symmetric device). ``needs_area`` is
     False for mechanisms written directly as a current (no electrode area involved).
+    ``estimates`` lists the parameters its straightened plots determine
+    (:class:`~mechid.catalogue.checks.PlotEstimate`): the screening reads them into
+    :class:`ParameterHints`, the fit's starting values. ``checks`` lists its consistency
+    checks (:class:`~mechid.catalogue.checks.CheckSpec` subclasses), which the screening
+    evaluates; every mechanism also gets the generic declared-range check.
     """
 
     id: str
@@ -161,6 +194,27 @@ class Mechanism:
     temperature_dependence: str = ""
     options: Mapping[str, Any] = field(default_factory=dict)
     needs_area: bool = True
+    estimates: tuple[PlotEstimate, ...] = ()
+    checks: tuple[CheckSpec, ...] = ()
+
+    def __post_init__(self) -> None:
+        plot_ids = {plot.id for plot in self.plots}
+        for spec in self.checks:
+            read = [getattr(spec, a) for a in ("plot", "arrhenius_plot", "field_plot")
+                    if hasattr(spec, a)]
+            if any(plot_id not in plot_ids for plot_id in read):
+                raise ValueError(f"{self.id}: {type(spec).__name__} reads an undeclared plot")
+            named = [*spec.tested_parameters, *([spec.parameter] if hasattr(spec, "parameter")
+                                                 and spec.parameter is not None else [])]
+            unknown = [name for name in named if name not in self.parameter_names]
+            if unknown:
+                raise ValueError(f"{self.id}: {type(spec).__name__} names undeclared parameter "
+                                 f"{', '.join(unknown)}")
+        for estimate in self.estimates:
+            if estimate.parameter not in self.parameter_names:
+                raise ValueError(f"{self.id}: estimate of unknown parameter {estimate.parameter!r}")
+            if estimate.plot not in plot_ids:
+                raise ValueError(f"{self.id}: estimate from undeclared plot {estimate.plot!r}")
 
     @property
     def parameter_names(self) -> tuple[str, ...]:
@@ -233,3 +287,26 @@ def _catalogued_mechanism(mechanism_id: str) -> Mechanism:
     from mechid.catalogue import get_mechanism
 
     return get_mechanism(mechanism_id)
+
+
+@dataclass(frozen=True)
+class ParameterHints:
+    """Starting values for one mechanism's fit, keyed by declared parameter name.
+
+    Built by the screening from the mechanism's declared
+    :class:`~mechid.catalogue.checks.PlotEstimate` entries and handed to the mode search
+    (:func:`mechid.inference.start.find_modes`).
+
+    Parameters
+    ----------
+    mechanism_id : str
+        The mechanism these values are for.
+    values : mapping
+        Parameter name -> value in the parameter's unit (finite values only).
+    sources : mapping
+        Parameter name -> where the value was read, e.g. ``"schottky_plot.dielectric_constant"``.
+    """
+
+    mechanism_id: str
+    values: Mapping[str, float] = field(default_factory=dict)
+    sources: Mapping[str, str] = field(default_factory=dict)

@@ -25,6 +25,17 @@ from mechid.catalogue.base import (
     iv_magnitudes,
     positive_or_nan,
 )
+from mechid.catalogue.checks import (
+    CheckSpec,
+    DielectricRange,
+    DielectricVsOptical,
+    FieldLoweringDielectric,
+    PlotEstimate,
+    RichardsonConstant,
+    SlopeTimesTemperature,
+    ThermallyActivated,
+    ZeroFieldBarrier,
+)
 from mechid.constants import (
     BOLTZMANN_EV,
     POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V,
@@ -451,6 +462,29 @@ _THICKNESS = Parameter(
     lower=1.0, upper=1000.0, typical=20.0, device_prior="thickness_nm", sample_in_log=True,
 )
 
+
+
+def _field_lowering_checks(field_plot: str, arrhenius_plot: str, energy: str, barrier: str,
+                           beta_eV: float, extra: tuple[CheckSpec, ...] = ()
+                           ) -> tuple[CheckSpec, ...]:
+    """Checks of a barrier lowered by sqrt(E/eps_r) (Sze & Ng 2007; Frenkel 1938).
+
+    Activated; eps_r from the field slope physical and equal to n^2; slope x T constant;
+    the per-bias activation ``energy`` of the ``arrhenius_plot`` extrapolated to zero field
+    inside the ``barrier`` range; then ``extra``; then the two eps_r estimates agreeing
+    (lowering coefficient ``beta_eV``).
+    """
+    return (
+        ThermallyActivated(),
+        DielectricRange(field_plot),
+        DielectricVsOptical(field_plot),
+        SlopeTimesTemperature(field_plot),
+        ZeroFieldBarrier(arrhenius_plot, energy, barrier),
+        *extra,
+        FieldLoweringDielectric(arrhenius_plot, energy, field_plot, beta_eV),
+    )
+
+
 SCHOTTKY_EMISSION = Mechanism(
     id="schottky_emission",
     family="emission",
@@ -479,6 +513,15 @@ SCHOTTKY_EMISSION = Mechanism(
     ),
     magnitude=_schottky_current,
     plots=(SCHOTTKY_PLOT, RICHARDSON_PLOT),
+    estimates=(
+        PlotEstimate("dielectric_constant", "schottky_plot"),
+        PlotEstimate("barrier_height_eV", "richardson_plot", "effective_barrier_eV",
+                     zero_bias_power=0.5),
+        PlotEstimate("richardson_constant_ratio", "richardson_plot"),
+    ),
+    checks=_field_lowering_checks(
+        "schottky_plot", "richardson_plot", "effective_barrier_eV", "barrier_height_eV",
+        SCHOTTKY_BETA_EV_SQRT_M_PER_V, extra=(RichardsonConstant("richardson_plot"),)),
     temperature_dependence="strong: activated, ln(I/T^2) linear in 1/T with slope -phi_eff/k",
 )
 
@@ -508,5 +551,14 @@ POOLE_FRENKEL = Mechanism(
     ),
     magnitude=_poole_frenkel_current,
     plots=(POOLE_FRENKEL_PLOT, POOLE_FRENKEL_ARRHENIUS_PLOT),
+    estimates=(
+        PlotEstimate("dielectric_constant", "poole_frenkel_plot"),
+        PlotEstimate("trap_depth_eV", "poole_frenkel_arrhenius_plot", "activation_energy_eV",
+                     zero_bias_power=0.5),
+        PlotEstimate("prefactor_S_per_cm", "poole_frenkel_arrhenius_plot"),
+    ),
+    checks=_field_lowering_checks(
+        "poole_frenkel_plot", "poole_frenkel_arrhenius_plot", "activation_energy_eV",
+        "trap_depth_eV", POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V),
     temperature_dependence="strong: activated, ln(I/V) linear in 1/T with slope -E_a(E)/k",
 )

@@ -26,9 +26,17 @@ from mechid.catalogue.base import (
     FloatArray,
     Mechanism,
     Parameter,
+    PlotRegime,
     StraightenedPlot,
     iv_magnitudes,
     positive_or_nan,
+)
+from mechid.catalogue.checks import (
+    HopEnergyExceedsKT,
+    HoppingLaw,
+    Ohmic,
+    PlotEstimate,
+    ThermallyActivated,
 )
 from mechid.constants import BOLTZMANN_EV, SCHOTTKY_BETA_EV_SQRT_M_PER_V
 from mechid.device import Device
@@ -441,6 +449,23 @@ def _vrh_magnitude(exponent: float) -> Callable[..., FloatArray]:
 # Declarations
 # --------------------------------------------------------------------------------------
 
+#: Smallest sinh argument x = e a E/(2 k T) at which ln I is read as linear in V: there
+#: sinh x = exp(x)/2 (1 - exp(-2x)), and the local slope d ln I/dV = b coth(x) exceeds b by
+#: 2 exp(-2x)/(1 - exp(-2x)) = 0.5 % at x = 3 (our threshold for "e a E >> 2 k T").
+HOPPING_FIELD_MIN_ARGUMENT = 3.0
+
+
+def _exponential_field_regime(voltage_V: FloatArray, slope_per_V: float) -> FloatArray:
+    """Points of the hopping field plot where e a E >> 2 k T (Mott & Davis 1979 sinh law).
+
+    On the straight part the slope of ln I against |V| is b = e a/(2 k T d), so the sinh
+    argument at each point is x = slope |V|; points with x >= HOPPING_FIELD_MIN_ARGUMENT are
+    in the exponential regime. In the ohmic regime (x << 1) a line through ln I vs V has a
+    slope of order 1/|V| and gives x of order 1, so no point qualifies.
+    """
+    return np.asarray(slope_per_V * voltage_V >= HOPPING_FIELD_MIN_ARGUMENT)
+
+
 _CONDUCTANCE_PREFACTOR = Parameter(
     name="prefactor_S", unit="S", symbol="G0",
     description="conductance prefactor (high-temperature limit of I/V)",
@@ -498,10 +523,35 @@ NEAREST_NEIGHBOUR_HOPPING = Mechanism(
             grouping="per_temperature",
             transform=_hopping_field_transform,
             interpret=_hopping_field_interpret,
+            regime=PlotRegime(_exponential_field_regime,
+                              f"e a E/(2 k T) = slope x |V| >= {HOPPING_FIELD_MIN_ARGUMENT:g}"),
         ),
     ),
     temperature_dependence="activated: ln(I/V) linear in 1/T at low field (slope -E_a/k)",
+    estimates=(
+        PlotEstimate("activation_energy_eV", "hopping_arrhenius_plot", zero_bias_power=1.0),
+        PlotEstimate("hopping_distance_nm", "hopping_field_plot"),
+    ),
+    checks=(ThermallyActivated(), HoppingLaw(exponent=1.0)),
 )
+
+
+
+def _mott_hop_energy(t0: float, t: float) -> float:
+    """Mott hop energy in eV as a plain float (for the hop-energy check)."""
+    return float(mott_hopping_energy_eV(t0, t))
+
+
+def _es_hop_energy(t0: float, t: float) -> float:
+    """Efros-Shklovskii hop energy in eV as a plain float (for the hop-energy check)."""
+    return float(es_hopping_energy_eV(t0, t))
+
+
+def _vrh_estimates(plot_id: str) -> tuple[PlotEstimate, ...]:
+    """A variable-range-hopping plot gives T0 (slope) and G0 (intercept)."""
+    return (PlotEstimate("characteristic_temperature_K", plot_id),
+            PlotEstimate("prefactor_S", plot_id))
+
 
 _MOTT_EXPONENTS = {1: (0.5, "1/2"), 2: (1.0 / 3.0, "1/3"), 3: (0.25, "1/4")}
 
@@ -552,6 +602,14 @@ def mott_vrh_variant(dimension: int) -> Mechanism:
         temperature_dependence=f"stretched exponential: ln(I/V) linear in T^(-{text})",
         options={"dimension": dimension},
         needs_area=False,
+        estimates=_vrh_estimates("mott_vrh_plot"),
+        checks=(
+            ThermallyActivated(),
+            HoppingLaw(exponent=exponent),
+            Ohmic(),
+            HopEnergyExceedsKT("mott_vrh_plot", _mott_hop_energy,
+                               "W = kT (T0/T)^(1/4)/4, Mott 1969"),
+        ),
     )
 
 
@@ -575,4 +633,12 @@ ES_VRH = Mechanism(
     plots=(_vrh_plot("es_vrh_plot", "Efros-Shklovskii plot (ln(I/V) against T^-1/2)", 0.5, "1/2"),),
     temperature_dependence="stretched exponential: ln(I/V) linear in T^(-1/2)",
     needs_area=False,
+    estimates=_vrh_estimates("es_vrh_plot"),
+    checks=(
+        ThermallyActivated(),
+        HoppingLaw(exponent=0.5),
+        Ohmic(),
+        HopEnergyExceedsKT("es_vrh_plot", _es_hop_energy,
+                           "W = kT (T_ES/T)^(1/2)/2, Efros & Shklovskii 1975"),
+    ),
 )

@@ -28,6 +28,14 @@ from mechid.catalogue.base import (
     StraightenedPlot,
     iv_magnitudes,
 )
+from mechid.catalogue.checks import (
+    NearlyTemperatureIndependent,
+    PlotEstimate,
+    PositiveQuantity,
+    QuantityInRange,
+    StraightPlot,
+    TunnellingRegime,
+)
 from mechid.constants import (
     BOLTZMANN_EV,
     ELECTRON_MASS,
@@ -651,6 +659,14 @@ DIRECT_TUNNELLING = Mechanism(
     parameters=(_barrier(0.1, 2.0), _thickness(0.3, 20.0, 2.0), _MASS),
     magnitude=_direct_tunnelling_current,
     plots=(LOW_BIAS_CONDUCTANCE_PLOT,),
+    checks=(
+        NearlyTemperatureIndependent(),
+        TunnellingRegime("direct"),
+        PositiveQuantity(
+            "low_bias_conductance_plot", "cubic_coefficient_per_V2",
+            "the conductance of a tunnel barrier rises with bias (Simmons 1963; Brinkman, "
+            "Dynes & Rowell 1970)"),
+    ),
     temperature_dependence="nearly none: rises a few per cent from 0 to 300 K (x/sin x factor)",
 )
 
@@ -671,5 +687,18 @@ FOWLER_NORDHEIM = Mechanism(
     parameters=(_barrier(0.5, 3.0), _thickness(1.0, 100.0, 8.0), _MASS),
     magnitude=_fowler_nordheim_current,
     plots=(FOWLER_NORDHEIM_PLOT,),
+    # Needs the device thickness and effective mass (else the plot gives only a barrier
+    # assuming m* = m0, which is not this parameter).
+    estimates=(PlotEstimate("barrier_height_eV", "fowler_nordheim_plot"),),
+    checks=(
+        NearlyTemperatureIndependent(),
+        # Smallest R^2 counted as straight and the barrier range [common practice].
+        StraightPlot("fowler_nordheim_plot", 0.99),
+        QuantityInRange("fowler_nordheim_plot",
+                        ("barrier_height_eV", "barrier_height_assuming_unit_mass_eV"),
+                        0.5, 5.0, name="fowler_nordheim_barrier_in_range",
+                        parameter="barrier_height_eV"),
+        TunnellingRegime("fowler_nordheim"),
+    ),
     temperature_dependence="weak: rises slowly with temperature (pi c kT/sin(pi c kT) factor)",
 )

@@ -4,13 +4,13 @@ from __future__ import annotations
 
 import math
 import warnings
-from collections.abc import Callable, Mapping
+from collections.abc import Callable
 from dataclasses import dataclass, replace
 
 import numpy as np
 from numpy.typing import NDArray
 
-from mechid.catalogue.base import Mechanism
+from mechid.catalogue.base import Mechanism, ParameterHints
 from mechid.device import Device
 from mechid.errors import ConvergenceWarning
 from mechid.inference.adequacy import AdequacyCheck, check_adequacy
@@ -72,7 +72,7 @@ def fit_mechanism(
     device: Device,
     settings: LadderSettings,
     rng: np.random.Generator,
-    hints: Mapping[str, float] | None = None,
+    hints: ParameterHints | None = None,
     progress: Callable[[int, int], None] | None = None,
     *,
     search: SearchSettings,
@@ -97,8 +97,8 @@ def fit_mechanism(
         Tempered-ladder settings.
     rng : numpy.random.Generator
         The one source of randomness of this fit.
-    hints : mapping, optional
-        Starting values from the linearisation tests.
+    hints : ParameterHints, optional
+        Starting values from the straightened plots, keyed by parameter name.
     progress : callable, optional
         ``progress(done, total)`` during sampling.
     search : SearchSettings

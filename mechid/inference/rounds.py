@@ -21,7 +21,7 @@ import multiprocessing
 import os
 import queue as queue_module
 import warnings
-from collections.abc import Callable, Iterable, Mapping, Sequence
+from collections.abc import Callable, Iterable, Sequence
 from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
 from dataclasses import dataclass
 from typing import Any
@@ -30,6 +30,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from mechid.catalogue import get_mechanism
+from mechid.catalogue.base import ParameterHints
 from mechid.device import Device
 from mechid.inference.fit import MechanismFit, fit_mechanism
 from mechid.inference.likelihood import set_likelihood_threads
@@ -47,7 +48,7 @@ class FitJob:
 
     mechanism_id: str
     rng: np.random.Generator
-    hints: Mapping[str, float] | None = None
+    hints: ParameterHints | None = None
 
 
 @dataclass(frozen=True)

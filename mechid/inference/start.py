@@ -11,13 +11,13 @@ solutions of similar posterior height.
 
 from __future__ import annotations
 
-from collections.abc import Mapping
 from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
 from scipy import optimize
 
+from mechid.catalogue.base import ParameterHints
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.settings import SearchSettings
 
@@ -37,12 +37,24 @@ class Mode:
     log_posterior: float
 
 
-def hint_vectors(target: MechanismTarget, hints: Mapping[str, float], rng: np.random.Generator,
+def hint_vectors(target: MechanismTarget, hints: ParameterHints, rng: np.random.Generator,
                  n: int = 64) -> NDArray:
-    """Prior draws with the hinted parameters set to their hinted values (where in range)."""
+    """Prior draws with the hinted parameters set to their hinted values (where in range).
+
+    Raises
+    ------
+    ValueError
+        When the hints are for another mechanism or name a parameter it does not declare
+        (a hand-off keyed by anything but parameter names would otherwise be ignored).
+    """
+    mechanism = target.mechanism
+    unknown = sorted(set(hints.values) - set(mechanism.parameter_names))
+    if hints.mechanism_id != mechanism.id or unknown:
+        raise ValueError(f"hints for {hints.mechanism_id!r} (parameters {unknown or 'known'}) "
+                         f"do not fit {mechanism.id!r} ({', '.join(mechanism.parameter_names)})")
     draws = target.sample_prior(rng, n)
     for column, prior in enumerate(target.free):
-        value = hints.get(prior.name)
+        value = hints.values.get(prior.name)
         if value is None or not np.isfinite(value) or not (prior.lower <= value <= prior.upper):
             continue
         draws[:, column] = prior.to_internal(value)
@@ -66,7 +78,7 @@ def _diverse(points: NDArray, scores: NDArray, span: NDArray, count: int) -> NDA
 def find_modes(
     target: MechanismTarget,
     rng: np.random.Generator,
-    hints: Mapping[str, float] | None = None,
+    hints: ParameterHints | None = None,
     *,
     search: SearchSettings,
 ) -> list[Mode]:
@@ -78,14 +90,15 @@ def find_modes(
         Posterior to maximise.
     rng : numpy.random.Generator
         Source of the screening draws.
-    hints : mapping, optional
-        Parameter values suggested by the linearisation tests (physical units).
+    hints : ParameterHints, optional
+        Parameter values read from the straightened plots, keyed by parameter name
+        (physical units); 64 prior draws with these values set join the screen.
     search : SearchSettings
         ``n_screen`` prior draws are screened in vectorised batches, then ``n_polish``
         diverse good candidates are polished (the best screened point is always one).
     """
     candidates = [target.sample_prior(rng, search.n_screen)]
-    if hints:
+    if hints is not None and hints.values:
         candidates.append(hint_vectors(target, hints, rng))
     points = np.vstack(candidates)
     scores = np.concatenate([target.log_posterior(chunk) for chunk in np.array_split(points, 8)])
@@ -165,7 +178,7 @@ def _merge_basins(target: MechanismTarget, modes: list[Mode]) -> list[Mode]:
 def find_map(
     target: MechanismTarget,
     rng: np.random.Generator,
-    hints: Mapping[str, float] | None = None,
+    hints: ParameterHints | None = None,
     *,
     search: SearchSettings,
 ) -> NDArray:

@@ -49,6 +49,7 @@ from mechid.inference.predictive import PosteriorPredictive, thin_draws
 
 if TYPE_CHECKING:
     from mechid.report import ReportRun
+from mechid.screening.biases import common_bias_points
 
 logger = logging.getLogger(__name__)
 
@@ -62,8 +63,8 @@ HTML_DPI = 150
 FILE_DPI = 300
 #: Posterior draws shown in a corner plot (evenly thinned; enough for 95 % contours).
 CORNER_DRAWS = 2500
-#: Relative |V| mismatch accepted when matching a common bias (as in mechid.linearise).
-BIAS_MATCH_RTOL = 0.05
+#: Grid points per (temperature, polarity) branch of the model curves.
+CURVE_POINTS = 70
 
 #: One consistent style for every figure (fonts embedded as TrueType in PDFs).
 STYLE: dict[str, Any] = {
@@ -329,28 +330,6 @@ def zabrodskii_figure(linearisation: Mapping[str, Any]) -> ReportFigure | None:
 # --------------------------------------------------------------------------------------------
 
 
-def _common_bias_points(series: IVSeries, bias_V: float) -> tuple[FloatArray, FloatArray]:
-    """Temperatures and folded current at the measured |V| nearest ``bias_V`` (within 5 %).
-
-    Mirrors the common-bias matching of :mod:`mechid.linearise`: positive folded currents
-    only, repeated points at the same |V| averaged. Temperatures without a match are dropped.
-    """
-    abs_v = np.abs(series.voltage_V)
-    folded = np.sign(series.voltage_V) * series.current_A
-    usable = (abs_v > 0) & (folded > 0)
-    temps_out, current_out = [], []
-    for t in series.temperatures:
-        at_t = usable & (series.temperature_K == t)
-        if not at_t.any():
-            continue
-        v, i = abs_v[at_t], folded[at_t]
-        nearest = v[np.argmin(np.abs(v - bias_V))]
-        if abs(nearest - bias_V) <= BIAS_MATCH_RTOL * bias_V:
-            temps_out.append(float(t))
-            current_out.append(float(i[v == nearest].mean()))
-    return np.array(temps_out), np.array(current_out)
-
-
 def _draw_plot_panel(ax: Any, plot: StraightenedPlot, lines: Sequence[Mapping[str, Any]],
                      series: IVSeries, device: Device) -> None:
     """Scatter the transformed data of one straightened plot and draw its fitted lines."""
@@ -378,7 +357,7 @@ def _draw_plot_panel(ax: Any, plot: StraightenedPlot, lines: Sequence[Mapping[st
         colours = _series_colours(len(lines))
         for line, colour in zip(lines, colours, strict=True):
             bias = float(line["group_value"])
-            temps, current = _common_bias_points(series, bias)
+            temps, current = common_bias_points(series, bias)
             with np.errstate(all="ignore"):
                 x, y = plot.transform(np.full(temps.shape, bias), temps, current, device)
             x = np.broadcast_to(np.asarray(x, dtype=float), temps.shape)

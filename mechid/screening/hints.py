@@ -1,0 +1,43 @@
+"""The hand-off to the fit: declared parameter values read from the straightened plots."""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping, Sequence
+
+import numpy as np
+
+from mechid.catalogue.base import Mechanism, ParameterHints
+from mechid.catalogue.checks import PlotEstimate
+from mechid.screening.lines import zero_bias_line
+from mechid.screening.records import LineFit
+
+
+def parameter_hints(mechanism: Mechanism,
+                    lines: Mapping[str, Sequence[LineFit]]) -> ParameterHints:
+    """Starting values of the parameters the mechanism's plots determine.
+
+    Evaluates every declared :class:`~mechid.catalogue.checks.PlotEstimate`: the median of
+    the quantity over the plot's lines, or its extrapolation to zero bias
+    (:func:`zero_bias_line`). Values that are not finite are left out; whether a value lies
+    inside the prior is for the mode search to decide.
+    """
+    values: dict[str, float] = {}
+    sources: dict[str, str] = {}
+    for estimate in mechanism.estimates:
+        value = _estimate_value(estimate, lines.get(estimate.plot, ()))
+        if value is not None and math.isfinite(value):
+            values[estimate.parameter] = value
+            sources[estimate.parameter] = (f"{estimate.plot}.{estimate.key}"
+                                           + ("" if estimate.zero_bias_power is None
+                                              else " at zero bias"))
+    return ParameterHints(mechanism.id, values, sources)
+
+
+def _estimate_value(estimate: PlotEstimate, plot_lines: Sequence[LineFit]) -> float | None:
+    if estimate.zero_bias_power is not None:
+        fit = zero_bias_line(plot_lines, estimate.key, estimate.zero_bias_power)
+        return None if fit is None else fit[0]
+    values = np.array([line.quantities.get(estimate.key, np.nan) for line in plot_lines])
+    values = values[np.isfinite(values)]
+    return float(np.median(values)) if values.size else None
