@@ -25,6 +25,7 @@ from mechid.catalogue.base import (
     iv_magnitudes,
     positive_or_nan,
 )
+from mechid.catalogue.validity import ValidityCondition
 from mechid.constants import (
     BOLTZMANN_EV,
     POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V,
@@ -145,12 +146,12 @@ def schottky_current_density_A_per_cm2(
 
         J = A^* T^2 \\exp\\Big(-\\frac{\\varphi_B - \\beta_S\\sqrt{E/\\varepsilon_r}}{kT}\\Big)
 
-    Where the lowering exceeds the barrier (outside the formula's range: no barrier left)
-    the effective barrier is held at zero, so the density saturates at ``A* T^2`` instead
-    of overflowing.
+    The formula needs a barrier: where the lowering exceeds ``phi_B`` there is nothing left
+    to emit over and the expression has no meaning. It is returned bare (no clipping); the
+    declaration :data:`SCHOTTKY_EMISSION` refuses those points (``barrier_not_removed``).
     """
     lowering = schottky_barrier_lowering_eV(field_V_per_m, dielectric_constant)
-    effective = np.maximum(np.asarray(barrier_height_eV, dtype=float) - lowering, 0.0)
+    effective = np.asarray(barrier_height_eV, dtype=float) - lowering
     return richardson_dushman_current_density_A_per_cm2(
         temperature_K, effective, richardson_constant_ratio
     )
@@ -192,12 +193,13 @@ def poole_frenkel_current_density_A_per_cm2(
         J = \\sigma_0 E \\exp\\Big(-\\frac{\\varphi_T - \\beta_{PF}\\sqrt{E/\\varepsilon_r}}{kT}
         \\Big),\\qquad \\beta_{PF} = 2\\beta_S
 
-    Where the lowering exceeds the trap depth (trap fully ionised, formula out of range)
-    the effective depth is held at zero: the density saturates at ``sigma0 E``.
+    Where the lowering exceeds the trap depth the trap no longer binds its electron and the
+    expression has no meaning. It is returned bare (no clipping); the declaration
+    :data:`POOLE_FRENKEL` refuses those points (``trap_not_emptied``).
     """
     field = np.asarray(field_V_per_m, dtype=float)
     lowering = poole_frenkel_barrier_lowering_eV(field, dielectric_constant)
-    effective = np.maximum(np.asarray(trap_depth_eV, dtype=float) - lowering, 0.0)
+    effective = np.asarray(trap_depth_eV, dtype=float) - lowering
     kT = BOLTZMANN_EV * np.asarray(temperature_K, dtype=float)
     conductivity = np.asarray(prefactor_S_per_cm, dtype=float) * np.exp(-effective / kT)
     return conductivity * field * _V_PER_M_TO_V_PER_CM
@@ -436,6 +438,62 @@ POOLE_FRENKEL_ARRHENIUS_PLOT = StraightenedPlot(
 
 
 # --------------------------------------------------------------------------------------
+# Validity domains
+# --------------------------------------------------------------------------------------
+
+
+def _schottky_lowering_fraction(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    barrier_height_eV: FloatArray, dielectric_constant: FloatArray,
+    richardson_constant_ratio: FloatArray, thickness_nm: FloatArray,
+) -> FloatArray:
+    """Share of the barrier removed by the image force at ``E = V/d``."""
+    field = voltage_V / (thickness_nm * _NM_TO_M)
+    return schottky_barrier_lowering_eV(field, dielectric_constant) / barrier_height_eV
+
+
+def _poole_frenkel_lowering_fraction(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    trap_depth_eV: FloatArray, dielectric_constant: FloatArray,
+    prefactor_S_per_cm: FloatArray, thickness_nm: FloatArray,
+) -> FloatArray:
+    """Share of the trap depth removed by the field at ``E = V/d``."""
+    field = voltage_V / (thickness_nm * _NM_TO_M)
+    return poole_frenkel_barrier_lowering_eV(field, dielectric_constant) / trap_depth_eV
+
+
+#: Schottky emission holds while the image-force lowering leaves a barrier.
+SCHOTTKY_EMISSION_VALIDITY = (
+    ValidityCondition(
+        id="barrier_not_removed",
+        quantity="beta_S sqrt(E/eps_r)/phi_B (share of the barrier removed by the field)",
+        limit=1.0,
+        bound="upper",
+        reason=(
+            "Schottky emission is thermionic emission over the lowered barrier (Sze & Ng 2007); "
+            "once the lowering exceeds the barrier there is no barrier left"
+        ),
+        evaluate=_schottky_lowering_fraction,
+    ),
+)
+
+#: Poole-Frenkel emission holds while the lowered trap still binds its electron.
+POOLE_FRENKEL_VALIDITY = (
+    ValidityCondition(
+        id="trap_not_emptied",
+        quantity="beta_PF sqrt(E/eps_r)/phi_T (share of the trap depth removed by the field)",
+        limit=1.0,
+        bound="upper",
+        reason=(
+            "Poole-Frenkel emission is thermal emission over the field-lowered Coulomb barrier "
+            "of a trap (Frenkel 1938); once the lowering exceeds the depth the trap is empty"
+        ),
+        evaluate=_poole_frenkel_lowering_fraction,
+    ),
+)
+
+
+# --------------------------------------------------------------------------------------
 # Declarations
 # --------------------------------------------------------------------------------------
 
@@ -480,6 +538,7 @@ SCHOTTKY_EMISSION = Mechanism(
     magnitude=_schottky_current,
     plots=(SCHOTTKY_PLOT, RICHARDSON_PLOT),
     temperature_dependence="strong: activated, ln(I/T^2) linear in 1/T with slope -phi_eff/k",
+    validity=SCHOTTKY_EMISSION_VALIDITY,
 )
 
 POOLE_FRENKEL = Mechanism(
@@ -509,4 +568,5 @@ POOLE_FRENKEL = Mechanism(
     magnitude=_poole_frenkel_current,
     plots=(POOLE_FRENKEL_PLOT, POOLE_FRENKEL_ARRHENIUS_PLOT),
     temperature_dependence="strong: activated, ln(I/V) linear in 1/T with slope -E_a(E)/k",
+    validity=POOLE_FRENKEL_VALIDITY,
 )

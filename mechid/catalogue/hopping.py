@@ -30,6 +30,7 @@ from mechid.catalogue.base import (
     iv_magnitudes,
     positive_or_nan,
 )
+from mechid.catalogue.validity import ValidityCondition
 from mechid.constants import BOLTZMANN_EV, SCHOTTKY_BETA_EV_SQRT_M_PER_V
 from mechid.device import Device
 
@@ -107,14 +108,15 @@ def nearest_neighbour_current_density_A_per_cm2(
           = \\frac{J_0}{2}\\Big[e^{-(E_a - eaE/2)/kT} - e^{-(E_a + eaE/2)/kT}\\Big].
 
     The second form is evaluated, as ``(J0/2) exp(-u) (-expm1(-eaE/kT))`` with ``u`` the
-    forward barrier in kT, which cannot overflow. Where the field removes the forward
-    barrier (``eaE/2 > E_a``, outside the model) the forward barrier is held at zero, so
-    the density saturates near ``J0/2`` instead of growing without bound.
+    forward barrier in kT. The model needs a forward barrier: where the field removes it
+    (``eaE/2 > E_a``) hops are no longer activated and the expression has no meaning. It is
+    returned bare (no clipping); the declaration :data:`NEAREST_NEIGHBOUR_HOPPING` refuses
+    those points (``forward_barrier_left``).
     """
     t = np.asarray(temperature_K, dtype=float)
     kT = BOLTZMANN_EV * t
     half_gain = hopping_field_argument(field_V_per_m, hopping_distance_nm, t)
-    forward_barrier = np.maximum(np.asarray(activation_energy_eV, dtype=float) / kT - half_gain, 0)
+    forward_barrier = np.asarray(activation_energy_eV, dtype=float) / kT - half_gain
     net_fraction = -np.expm1(-2.0 * half_gain)
     return 0.5 * np.asarray(prefactor_A_per_cm2, dtype=float) * np.exp(-forward_barrier) * (
         net_fraction
@@ -438,6 +440,36 @@ def _vrh_magnitude(exponent: float) -> Callable[..., FloatArray]:
 
 
 # --------------------------------------------------------------------------------------
+# Validity domain
+# --------------------------------------------------------------------------------------
+
+
+def _hop_energy_fraction(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    activation_energy_eV: FloatArray, hopping_distance_nm: FloatArray,
+    prefactor_A_per_cm2: FloatArray, thickness_nm: FloatArray,
+) -> FloatArray:
+    """``(e a E/2)/E_a``: share of the hop barrier removed by the field at ``E = V/d``."""
+    return hopping_distance_nm * voltage_V / (2 * thickness_nm * activation_energy_eV)
+
+
+#: Field-assisted hopping holds while a forward hop is still activated.
+NEAREST_NEIGHBOUR_VALIDITY = (
+    ValidityCondition(
+        id="forward_barrier_left",
+        quantity="e a E/(2 E_a) (share of the hop barrier removed by the field)",
+        limit=1.0,
+        bound="upper",
+        reason=(
+            "field-assisted hopping lowers the forward hop barrier by e a E/2 (Mott & Davis "
+            "1979); once that exceeds E_a the hops are no longer thermally activated"
+        ),
+        evaluate=_hop_energy_fraction,
+    ),
+)
+
+
+# --------------------------------------------------------------------------------------
 # Declarations
 # --------------------------------------------------------------------------------------
 
@@ -501,6 +533,7 @@ NEAREST_NEIGHBOUR_HOPPING = Mechanism(
         ),
     ),
     temperature_dependence="activated: ln(I/V) linear in 1/T at low field (slope -E_a/k)",
+    validity=NEAREST_NEIGHBOUR_VALIDITY,
 )
 
 _MOTT_EXPONENTS = {1: (0.5, "1/2"), 2: (1.0 / 3.0, "1/3"), 3: (0.25, "1/4")}
