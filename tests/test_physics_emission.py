@@ -23,6 +23,7 @@ from mechid.catalogue.emission import (
     richardson_dushman_current_density_A_per_cm2,
     schottky_barrier_lowering_eV,
     schottky_current_density_A_per_cm2,
+    schottky_mim_current_density_A_per_cm2,
 )
 from mechid.constants import (
     POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V,
@@ -97,6 +98,35 @@ def test_poole_frenkel_density():
     assert j == pytest.approx(1.68811e-4, rel=1e-5)
     e_a = 1.0 - poole_frenkel_barrier_lowering_eV(FIELD_1MV_PER_CM, 4.0)
     assert e_a == pytest.approx(0.620531, rel=1e-6)
+
+
+def test_schottky_mim_current_passes_through_zero():
+    # Sze & Ng 2007 / Simmons 1965: J = A* T^2 exp(-(phi_B - dphi)/kT) [1 - exp(-eV/kT)].
+    # Near zero bias J/V -> A* T^2 exp(-phi_B/kT)/kT: physics-references §3 [C] gives the
+    # Richardson-Dushman density 1.71708e-10 A/cm^2 at phi_B = 1 eV, 300 K (A* = A0), and
+    # kT = 0.0258520 eV from scipy.constants. The old one-sided form stayed at 1.7e-10 as
+    # V -> 0+ and jumped sign at 0 V.
+    kT = constants.k * 300.0 / constants.e
+    v = np.array([1e-12, 1e-10])
+    j = schottky_mim_current_density_A_per_cm2(v, 300.0, 1.0, 4.0, 1.0, 20.0)
+    assert j / v == pytest.approx(np.full(2, 1.71708e-10 / kT), rel=1e-4)
+    params = {"barrier_height_eV": 1.0, "dielectric_constant": 4.0,
+              "richardson_constant_ratio": 1.0, "thickness_nm": 20.0}
+    i = SCHOTTKY_EMISSION.current(np.array([-1e-9, 0.0, 1e-9]), np.full(3, 300.0), params, DEVICE)
+    assert i[1] == 0.0 and i[2] == -i[0]
+    assert i[2] == pytest.approx(1.71708e-10 / kT * 1e-9 * AREA_CM2, rel=1e-4)
+
+
+def test_schottky_mim_current_equals_one_sided_form_when_eV_much_larger_than_kT():
+    # physics-references §3 [C]: phi_B = 1.0, eps_r = 4, 1 MV/cm, 300 K -> 2.64354e-7 A/cm^2;
+    # with d = 20 nm that field is 2 V, eV/kT = 77: the reverse flux is exp(-77) of the forward.
+    j = schottky_mim_current_density_A_per_cm2(2.0, 300.0, 1.0, 4.0, 1.0, 20.0)
+    assert j == pytest.approx(2.64354e-7, rel=1e-5)
+    # at eV = kT the bracket is 1 - 1/e (independent arithmetic)
+    kT = constants.k * 300.0 / constants.e
+    ratio = schottky_mim_current_density_A_per_cm2(kT, 300.0, 1.0, 4.0, 1.0, 20.0) / (
+        schottky_current_density_A_per_cm2(kT / 20e-9, 300.0, 1.0, 4.0, 1.0))
+    assert ratio == pytest.approx(1 - np.exp(-1.0), rel=1e-12)
 
 
 def test_emission_formulas_are_not_clipped_where_the_lowering_exceeds_the_barrier():

@@ -4,7 +4,9 @@ Every formula the two declarations use is a public function of this module:
 
 * :func:`schottky_barrier_lowering_eV`, :func:`poole_frenkel_barrier_lowering_eV`
 * :func:`richardson_dushman_current_density_A_per_cm2`
-* :func:`schottky_current_density_A_per_cm2`, :func:`poole_frenkel_current_density_A_per_cm2`
+* :func:`schottky_current_density_A_per_cm2` (one interface),
+  :func:`schottky_mim_current_density_A_per_cm2` (net current through the film),
+  :func:`poole_frenkel_current_density_A_per_cm2`
 * :func:`field_slope_sqrt_m_per_V`, :func:`dielectric_constant_from_field_slope` -- the
   slope of ln J against sqrt(E) and its inversion to the (optical) dielectric constant
 
@@ -157,6 +159,57 @@ def schottky_current_density_A_per_cm2(
     )
 
 
+def schottky_mim_current_density_A_per_cm2(
+    voltage_V: ArrayLike,
+    temperature_K: ArrayLike,
+    barrier_height_eV: ArrayLike,
+    dielectric_constant: ArrayLike,
+    richardson_constant_ratio: ArrayLike,
+    thickness_nm: ArrayLike,
+) -> FloatArray:
+    """Net Schottky emission through a symmetric metal-insulator-metal film.
+
+    Parameters
+    ----------
+    voltage_V : array_like
+        Bias magnitude in V (>= 0); the field is ``E = V/d``.
+    temperature_K : array_like
+        Temperature in K.
+    barrier_height_eV, dielectric_constant, richardson_constant_ratio : array_like
+        As in :func:`schottky_current_density_A_per_cm2`.
+    thickness_nm : array_like
+        Film thickness ``d`` in nm.
+
+    Returns
+    -------
+    ndarray
+        Current density in A/cm^2; zero at zero bias and linear in V there.
+
+    Notes
+    -----
+    Both electrodes emit over the same field-lowered barrier; electrons from the biased-down
+    electrode must in addition climb ``eV``, so the net current is the forward flux times
+    ``1 - exp(-eV/kT)`` (the thermionic-emission balance of Sze & Ng, Physics of
+    Semiconductor Devices, 3rd ed. 2007, metal-semiconductor contacts, written for a
+    symmetric MIM structure as in Simmons, Phys. Rev. Lett. 15, 967 (1965), from memory):
+
+    .. math::
+
+        J = A^* T^2 \\exp\\Big(-\\frac{\\varphi_B - \\beta_S\\sqrt{E/\\varepsilon_r}}{kT}\\Big)
+            \\Big[1 - \\exp\\Big(-\\frac{eV}{kT}\\Big)\\Big]
+
+    For ``eV >> kT`` it is the one-sided formula; without the bracket the current would jump
+    from ``-A* T^2 exp(-phi_B/kT)`` to ``+A* T^2 exp(-phi_B/kT)`` at zero bias.
+    """
+    v = np.asarray(voltage_V, dtype=float)
+    field = v / (np.asarray(thickness_nm, dtype=float) * _NM_TO_M)
+    kT = BOLTZMANN_EV * np.asarray(temperature_K, dtype=float)
+    one_sided = schottky_current_density_A_per_cm2(
+        field, temperature_K, barrier_height_eV, dielectric_constant, richardson_constant_ratio
+    )
+    return one_sided * -np.expm1(-v / kT)
+
+
 def poole_frenkel_current_density_A_per_cm2(
     field_V_per_m: ArrayLike,
     temperature_K: ArrayLike,
@@ -269,10 +322,10 @@ def _schottky_current(
     richardson_constant_ratio: FloatArray,
     thickness_nm: FloatArray,
 ) -> FloatArray:
-    """|I| in A of Schottky emission with E = |V|/d."""
-    field = voltage_V / (thickness_nm * _NM_TO_M)
-    density = schottky_current_density_A_per_cm2(
-        field, temperature_K, barrier_height_eV, dielectric_constant, richardson_constant_ratio
+    """|I| in A of Schottky emission through the film (MIM form, E = |V|/d)."""
+    density = schottky_mim_current_density_A_per_cm2(
+        voltage_V, temperature_K, barrier_height_eV, dielectric_constant,
+        richardson_constant_ratio, thickness_nm,
     )
     return density * device.require_area()
 
@@ -514,12 +567,13 @@ SCHOTTKY_EMISSION = Mechanism(
     family="emission",
     name="Schottky emission",
     formula=(
-        "J = A0 (A*/A0) T^2 exp(-(phi_B - beta_S sqrt(E/eps_r))/kT);  E = V/d,"
+        "J = A0 (A*/A0) T^2 exp(-(phi_B - beta_S sqrt(E/eps_r))/kT) [1 - exp(-eV/kT)];  E = V/d,"
         "  beta_S = sqrt(e^3/(4 pi eps0)),  A0 = 4 pi m0 k^2 e/h^3 = 120.17 A cm^-2 K^-2"
     ),
     source=(
         "Richardson-Dushman emission with Schottky image-force lowering; Sze & Ng, "
-        "Physics of Semiconductor Devices, 3rd ed. (Wiley, 2007)"
+        "Physics of Semiconductor Devices, 3rd ed. (Wiley, 2007); net current of a symmetric "
+        "MIM film: Simmons, Phys. Rev. Lett. 15, 967 (1965)"
     ),
     parameters=(
         Parameter(
