@@ -78,7 +78,9 @@ def poole_frenkel_barrier_lowering_eV(
     -------
     ndarray
         ``sqrt(e^3 E/(pi eps0 eps_r))`` in eV, twice the Schottky lowering (Frenkel,
-        Phys. Rev. 54, 647 (1938); from memory).
+        Phys. Rev. 54, 647 (1938)). Checked: a textbook chapter on the Poole-Frenkel effect
+        gives ``beta_PF = (e^3/(pi eps eps0))^1/2``, 4.40e-4 eV (cm/V)^1/2 at eps = 3 (this
+        function: 4.3817e-4, within the 1 % the textbook rounds to).
     """
     ratio = np.asarray(field_V_per_m, dtype=float) / np.asarray(dielectric_constant, dtype=float)
     return POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V * np.sqrt(ratio)
@@ -239,7 +241,9 @@ def poole_frenkel_current_density_A_per_cm2(
 
     Notes
     -----
-    Frenkel, Phys. Rev. 54, 647 (1938) (from memory); Sze & Ng 2007:
+    Frenkel, Phys. Rev. 54, 647 (1938); Sze & Ng 2007 (equation numbers not checked; the
+    form ``J ∝ E exp(beta_PF sqrt(E)/kT)``, read on the ln(J/E) against sqrt(E) plot, is the
+    one reviewed by Schroeder, J. Appl. Phys. 117, 215103 (2015), abstract checked):
 
     .. math::
 

@@ -100,7 +100,8 @@ def nearest_neighbour_current_density_A_per_cm2(
     Notes
     -----
     Mott & Davis, Electronic Processes in Non-Crystalline Materials, 2nd ed. (Oxford, 1979)
-    (from memory): forward hops face ``E_a - eaE/2``, backward hops ``E_a + eaE/2``, so
+    (from memory: no source could be checked for the prefactor convention): forward hops face
+    ``E_a - eaE/2``, backward hops ``E_a + eaE/2``, so
 
     .. math::
 
@@ -177,7 +178,9 @@ def mott_characteristic_temperature_K(
     Returns
     -------
     ndarray
-        ``T0`` in K (Mott, Phil. Mag. 19, 835 (1969); from memory).
+        ``T0`` in K (Mott, Phil. Mag. 19, 835 (1969); the form ``18/(k N(E_F) alpha^3)``
+        with ``alpha = xi`` checked against a secondary reproduction of Mott's law, the
+        paper itself not consulted).
     """
     volume_cm3 = (np.asarray(localisation_length_nm, dtype=float) * _NM_TO_CM) ** 3
     density = np.asarray(density_of_states_per_eV_cm3, dtype=float)
@@ -198,7 +201,8 @@ def mott_hopping_distance_nm(
     temperature_K: ArrayLike,
     localisation_length_nm: ArrayLike,
 ) -> FloatArray:
-    """Mean Mott hop length ``R = (3/8) xi (T0/T)^(1/4)`` in nm (Mott 1969; from memory)."""
+    """Mean Mott hop length ``R = (3/8) xi (T0/T)^(1/4)`` in nm (Mott 1969; from memory:
+    no source for the 3/8 could be checked)."""
     ratio = _temperature_ratio(characteristic_temperature_K, temperature_K)
     return 0.375 * np.asarray(localisation_length_nm, dtype=float) * ratio**0.25
 
@@ -206,7 +210,8 @@ def mott_hopping_distance_nm(
 def mott_hopping_energy_eV(
     characteristic_temperature_K: ArrayLike, temperature_K: ArrayLike
 ) -> FloatArray:
-    """Mott hop energy ``W = (1/4) kT (T0/T)^(1/4)`` in eV (Mott 1969; from memory)."""
+    """Mott hop energy ``W = (1/4) kT (T0/T)^(1/4)`` in eV (Mott 1969; from memory: no
+    source for the 1/4 could be checked)."""
     t = np.asarray(temperature_K, dtype=float)
     ratio = np.asarray(characteristic_temperature_K, dtype=float) / t
     return 0.25 * BOLTZMANN_EV * t * ratio**0.25
@@ -220,7 +225,9 @@ def efros_shklovskii_characteristic_temperature_K(
     Parameters
     ----------
     beta : float
-        Numerical constant, about 2.8 in 3D and 6.2 in 2D (from memory).
+        Numerical constant, about 2.8 in 3D and 6.2 in 2D (from memory; the law
+        ``exp(-(T_ES/T)^(1/2))`` itself is confirmed by Shklovskii's own summaries, the
+        constants are not).
     dielectric_constant : array_like
         Relative permittivity ``kappa`` of the host.
     localisation_length_nm : array_like
@@ -273,7 +280,9 @@ def reduced_activation_energy(
     -------
     ndarray
         ``w = p (T0/T)^p``, so ``ln w`` is linear in ``ln T`` with slope ``-p`` (Zabrodskii &
-        Zinov'eva, Sov. Phys. JETP 59, 425 (1984); from memory). A prefactor
+        Zinov'eva, Sov. Phys. JETP 59, 425 (1984), citation details from memory; the
+        expression itself follows from differentiating ``ln sigma`` and is checked in the
+        tests). A prefactor
         ``sigma0 ∝ T^m`` would add ``m``.
     """
     ratio = np.asarray(characteristic_temperature_K, dtype=float) / np.asarray(

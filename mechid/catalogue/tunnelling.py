@@ -417,8 +417,11 @@ def fowler_nordheim_current_density_A_per_m2(
 
     Notes
     -----
-    Lenzlinger & Snow, J. Appl. Phys. 40, 278 (1969) (from memory), pinned here with the
-    ``m0/m*`` prefactor (some reviews drop it):
+    Lenzlinger & Snow, J. Appl. Phys. 40, 278 (1969) (attribution and equation number from
+    memory), pinned here with the ``m0/m*`` prefactor, as the MOS form is usually reproduced
+    (prefactor ``q^3 m0/(8 pi h m_ox phi_B)``, whose ``m0/m_ox`` factor was checked on a
+    secondary reproduction; some reviews drop it). Validity: a triangular barrier,
+    ``eV > phi`` (the declaration refuses lower biases):
 
     .. math::
 
