@@ -136,3 +136,27 @@ def test_emission_and_hopping_refused_where_the_field_removes_the_barrier(mechan
     i = mechanism.current(v, np.full(2, 300.0), params, DEVICE)
     assert np.isfinite(i[0]) and i[0] > 0
     assert np.isnan(i[1])
+
+
+def test_a_mechanism_whose_formula_holds_nowhere_is_not_fitted_and_says_why():
+    # FN-like data at 6-10 V: every direct-tunnelling draw has phi0 <= 5 eV < eV, outside
+    # Simmons' intermediate range. The fit refuses it before sampling; the rounds leave it
+    # out with a warning naming the condition.
+    from mechid.catalogue.validity import FormulaNotApplicableError
+    from mechid.errors import MechidWarning
+    from mechid.inference.fit import fit_mechanism
+    from mechid.inference.rounds import FitJob, fit_in_rounds
+    from mechid.inference.tempering import LadderSettings
+
+    device = Device(area_cm2=1e-4)
+    v = np.array([-10.0, -8.0, -6.0, 6.0, 8.0, 10.0])
+    t = np.full(6, 300.0)
+    params = {"barrier_height_eV": 3.0, "thickness_nm": 6.0, "effective_mass_ratio": 0.45}
+    i = FOWLER_NORDHEIM.current(v, np.full(6, 77.0), params, device)
+    with pytest.raises(FormulaNotApplicableError, match=r"eV/phi0 .* <= 1"):
+        fit_mechanism(DIRECT_TUNNELLING, v, t, i, device, LadderSettings(),
+                      np.random.default_rng(1))
+    with pytest.warns(MechidWarning, match="direct_tunnelling was not fitted"):
+        fits = fit_in_rounds([FitJob("direct_tunnelling", np.random.default_rng(1))], v, t, i,
+                             device, LadderSettings(), {})
+    assert fits == {}
