@@ -320,6 +320,14 @@ def test_forbes_barrier_functions():
     assert forbes_v(0.0) == 1.0 and forbes_t(0.0) == 1.0
 
 
+def test_forbes_functions_only_on_the_schottky_nordheim_range():
+    # Forbes 2006: the approximations are stated for 0 <= f <= 1; at f = 1 the field removes
+    # the barrier, where the exact v(1) = 0 (Murphy & Good 1956). Outside: NaN, not a value.
+    assert forbes_v(1.0) == pytest.approx(0.0, abs=1e-15)
+    assert np.all(np.isnan(forbes_v(np.array([-0.1, 1.2]))))
+    assert np.all(np.isnan(forbes_t(np.array([-0.1, 1.2]))))
+
+
 def test_forbes_v_close_to_exact_schottky_nordheim_integral():
     # physics-references §2 [C]: exact v(f) by numerical integration 0.859439 / 0.581317 /
     # 0.169987 at f = 0.1 / 0.3555 / 0.8; Forbes 2006 stated accuracy ~0.3 %
