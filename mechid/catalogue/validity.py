@@ -79,9 +79,9 @@ class ValidityCondition:
         return q <= self.limit if self.bound == "upper" else q >= self.limit
 
     def describe(self) -> str:
-        """``"<quantity> <= <limit>"`` in plain text."""
+        """``"<symbol> <= <limit>"`` in plain text (the quantity without its explanation)."""
         sign = "<=" if self.bound == "upper" else ">="
-        return f"{self.quantity} {sign} {self.limit:g}"
+        return f"{self.quantity.split(' (')[0]} {sign} {self.limit:g}"
 
 
 def condition_quantities(
