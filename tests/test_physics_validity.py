@@ -160,3 +160,13 @@ def test_a_mechanism_whose_formula_holds_nowhere_is_not_fitted_and_says_why():
         fits = fit_in_rounds([FitJob("direct_tunnelling", np.random.default_rng(1))], v, t, i,
                              device, LadderSettings(), {})
     assert fits == {}
+
+
+def test_simulating_outside_the_domain_says_which_condition_fails():
+    # FN at 5 V and 300 K in an 8 nm film: pi c kT = 1.63 (computed above independently).
+    from mechid.errors import MechidError
+    from mechid.simulate import simulate_series
+
+    params = {"barrier_height_eV": 3.0, "thickness_nm": 8.0, "effective_mass_ratio": 0.5}
+    with pytest.raises(MechidError, match=r"pi c kT .* = 1\.63 at 5 V, 300 K .*pi c kT <= 1"):
+        simulate_series(FOWLER_NORDHEIM, params, [77.0, 300.0], [5.0, 10.0], DEVICE)
