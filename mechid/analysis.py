@@ -160,7 +160,8 @@ def run_analysis_full(
             device, settings.ladder(), settings.search(),
             workers=settings.workers or default_workers(), progress=progress,
         )
-        fits = {m.id: fitted[m.id] for m in mechanisms}
+        # A mechanism whose formula holds nowhere on the data is absent (a warning says why).
+        fits = {m.id: fitted[m.id] for m in mechanisms if m.id in fitted}
     results = _ranked_results(fits, settings)
     verdict = _verdict(results) if results else None
     result = AnalysisResult(

@@ -13,6 +13,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from mechid.catalogue.base import Mechanism
+from mechid.catalogue.validity import validity_violations
 from mechid.data import TEMPERATURE_RANGE_K
 from mechid.device import Device
 from mechid.errors import MechidError
@@ -84,7 +85,7 @@ def simulate_series(
     t_grid, v_grid = (a.ravel() for a in np.meshgrid(temperatures, voltages, indexing="ij"))
     clean = mechanism.current(v_grid, t_grid, params, device)
     if not np.all(np.isfinite(clean)):
-        raise MechidError(f"{mechanism.id} is not finite at some requested points; check the parameters")
+        raise MechidError(_not_finite_message(mechanism, params, v_grid, t_grid, device))
     with np.errstate(over="ignore"):
         sd = noise_sd(clean, noise_relative, noise_floor_A)
     if not np.all(np.isfinite(sd)):
@@ -96,6 +97,23 @@ def simulate_series(
     else:
         noisy = clean.copy()
     return SimulatedSeries(t_grid, v_grid, noisy, clean)
+
+
+def _not_finite_message(mechanism: Mechanism, params: Mapping[str, float], voltage_V: NDArray,
+                        temperature_K: NDArray, device: Device) -> str:
+    """Which validity condition the parameters break at the requested points, if any."""
+    one_set = {name: np.array([value]) for name, value in params.items()}
+    found = validity_violations(mechanism, voltage_V, temperature_K, one_set, device)
+    if not found:
+        return f"{mechanism.id} is not finite at some requested points; check the parameters"
+    reasons = "; ".join(
+        f"{v.quantity} = {v.extreme_value:.3g} at {v.at_voltage_V:g} V, {v.at_temperature_K:g} K "
+        f"({v.fraction_of_points:.0%} of the points), but the formula holds only for "
+        f"{v.requirement}: {v.reason}"
+        for v in found
+    )
+    return (f"{mechanism.id} is outside its formula's validity at some requested points "
+            f"(change the parameters or the bias/temperature grid): {reasons}")
 
 
 def _check_ranges(mechanism: Mechanism, params: Mapping[str, float]) -> None:

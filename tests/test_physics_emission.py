@@ -23,6 +23,7 @@ from mechid.catalogue.emission import (
     richardson_dushman_current_density_A_per_cm2,
     schottky_barrier_lowering_eV,
     schottky_current_density_A_per_cm2,
+    schottky_mim_current_density_A_per_cm2,
 )
 from mechid.constants import (
     POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V,
@@ -99,15 +100,45 @@ def test_poole_frenkel_density():
     assert e_a == pytest.approx(0.620531, rel=1e-6)
 
 
-def test_emission_saturates_when_lowering_exceeds_barrier():
-    # Outside the formulas' range (no barrier left) the effective barrier is held at zero:
-    # the density becomes A* T^2 (Schottky) or sigma0 E (PF), finite and continuous.
-    field = np.array([1e7, 1e12, 1e14])
-    j_s = schottky_current_density_A_per_cm2(field, 1.0, 0.3, 1.0, 2.0)
-    assert j_s[1:] == pytest.approx(np.full(2, 2.0 * RICHARDSON_A_CM2_K2), rel=1e-12)
-    j_pf = poole_frenkel_current_density_A_per_cm2(field, 1.0, 0.3, 1.0, 5.0)
-    assert j_pf[1:] == pytest.approx(5.0 * field[1:] * 1e-2, rel=1e-12)
-    assert np.all(np.isfinite(j_s)) and np.all(np.isfinite(j_pf))
+def test_schottky_mim_current_passes_through_zero():
+    # Sze & Ng 2007 / Simmons 1965: J = A* T^2 exp(-(phi_B - dphi)/kT) [1 - exp(-eV/kT)].
+    # Near zero bias J/V -> A* T^2 exp(-phi_B/kT)/kT: physics-references §3 [C] gives the
+    # Richardson-Dushman density 1.71708e-10 A/cm^2 at phi_B = 1 eV, 300 K (A* = A0), and
+    # kT = 0.0258520 eV from scipy.constants. The old one-sided form stayed at 1.7e-10 as
+    # V -> 0+ and jumped sign at 0 V.
+    kT = constants.k * 300.0 / constants.e
+    v = np.array([1e-12, 1e-10])
+    j = schottky_mim_current_density_A_per_cm2(v, 300.0, 1.0, 4.0, 1.0, 20.0)
+    assert j / v == pytest.approx(np.full(2, 1.71708e-10 / kT), rel=1e-4)
+    params = {"barrier_height_eV": 1.0, "dielectric_constant": 4.0,
+              "richardson_constant_ratio": 1.0, "thickness_nm": 20.0}
+    i = SCHOTTKY_EMISSION.current(np.array([-1e-9, 0.0, 1e-9]), np.full(3, 300.0), params, DEVICE)
+    assert i[1] == 0.0 and i[2] == -i[0]
+    assert i[2] == pytest.approx(1.71708e-10 / kT * 1e-9 * AREA_CM2, rel=1e-4)
+
+
+def test_schottky_mim_current_equals_one_sided_form_when_eV_much_larger_than_kT():
+    # physics-references §3 [C]: phi_B = 1.0, eps_r = 4, 1 MV/cm, 300 K -> 2.64354e-7 A/cm^2;
+    # with d = 20 nm that field is 2 V, eV/kT = 77: the reverse flux is exp(-77) of the forward.
+    j = schottky_mim_current_density_A_per_cm2(2.0, 300.0, 1.0, 4.0, 1.0, 20.0)
+    assert j == pytest.approx(2.64354e-7, rel=1e-5)
+    # at eV = kT the bracket is 1 - 1/e (independent arithmetic)
+    kT = constants.k * 300.0 / constants.e
+    ratio = schottky_mim_current_density_A_per_cm2(kT, 300.0, 1.0, 4.0, 1.0, 20.0) / (
+        schottky_current_density_A_per_cm2(kT / 20e-9, 300.0, 1.0, 4.0, 1.0))
+    assert ratio == pytest.approx(1 - np.exp(-1.0), rel=1e-12)
+
+
+def test_emission_formulas_are_not_clipped_where_the_lowering_exceeds_the_barrier():
+    # Old code held the effective barrier at zero (J = A* T^2, sigma0 E). The bare formulas
+    # now continue as published; the declarations refuse those points (test_physics_validity).
+    field = np.array([1e10])  # lowering 0.38 eV x 10 = 3.8 eV at eps_r = 1 >> 0.3 eV
+    lowering = schottky_barrier_lowering_eV(field, 1.0)
+    kT = constants.k * 300.0 / constants.e
+    j_s = schottky_current_density_A_per_cm2(field, 300.0, 0.3, 1.0, 2.0)
+    assert j_s == pytest.approx(2.0 * RICHARDSON_A_CM2_K2 * 300.0**2
+                                * np.exp((lowering - 0.3) / kT), rel=1e-9)
+    assert j_s > 2.0 * RICHARDSON_A_CM2_K2 * 300.0**2
 
 
 # ---- slopes and their inversion ----------------------------------------------------------
@@ -130,11 +161,15 @@ def test_poole_frenkel_slope_and_inversion():
 
 
 def test_poole_frenkel_versus_schottky_factor_four_ambiguity():
-    # physics-references §4: the same slope read as PF instead of Schottky gives exactly 4 eps_r
-    slope = np.array([3e-4, 7.339251e-4, 2e-3])
-    eps_s = dielectric_constant_from_field_slope(slope, 300.0, SCHOTTKY_BETA_EV_SQRT_M_PER_V)
-    eps_pf = dielectric_constant_from_field_slope(slope, 300.0, POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V)
-    assert eps_pf / eps_s == pytest.approx(np.full(3, 4.0), rel=1e-14)
+    # physics-references §3/§4 [C], 300 K: the PF slope of eps_r = 4 (1.467850e-3 (m/V)^1/2)
+    # read as a Schottky slope gives eps_r = 1; the Schottky slope of eps_r = 4
+    # (7.339251e-4) read as PF gives 16.
+    eps = dielectric_constant_from_field_slope(np.array([1.467850e-3, 7.339251e-4]), 300.0,
+                                               SCHOTTKY_BETA_EV_SQRT_M_PER_V)
+    assert eps == pytest.approx([1.0, 4.0], rel=2e-6)
+    eps = dielectric_constant_from_field_slope(np.array([1.467850e-3, 7.339251e-4]), 300.0,
+                                               POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V)
+    assert eps == pytest.approx([4.0, 16.0], rel=2e-6)
 
 
 def test_non_positive_slope_gives_nan_permittivity():
@@ -150,19 +185,39 @@ def _fit(plot, v, t, i):
     return np.polyfit(x, y, 1)
 
 
+def _schottky_current_written_here(v, t, phi, eps, ratio, d_nm):
+    """Independent Schottky MIM current in A from scipy.constants (Sze & Ng 2007)."""
+    e, k, eps0 = constants.e, constants.k, constants.epsilon_0
+    a0 = 4 * np.pi * constants.m_e * k**2 * e / constants.h**3 * 1e-4  # A cm^-2 K^-2
+    field = v / (d_nm * 1e-9)
+    lowering = np.sqrt(e * field / (4 * np.pi * eps0 * eps))  # eV
+    kT = k * t / e
+    return (ratio * a0 * t**2 * np.exp(-(phi - lowering) / kT) * (1 - np.exp(-v / kT))
+            * AREA_CM2)
+
+
+def _poole_frenkel_current_written_here(v, t, phi, eps, sigma0, d_nm):
+    """Independent Poole-Frenkel current in A from scipy.constants (Frenkel 1938)."""
+    e, k, eps0 = constants.e, constants.k, constants.epsilon_0
+    field = v / (d_nm * 1e-9)
+    lowering = np.sqrt(e * field / (np.pi * eps0 * eps))  # eV
+    return sigma0 * field * 1e-2 * np.exp(-(phi - lowering) / (k * t / e)) * AREA_CM2
+
+
 def test_schottky_plot_recovers_permittivity_at_every_temperature():
     # Sze & Ng 2007: ln(I/T^2) vs sqrt(V) has slope beta_S/(kT sqrt(eps_r d)); S*T constant
     params = {"barrier_height_eV": 1.0, "dielectric_constant": 4.0,
               "richardson_constant_ratio": 0.3, "thickness_nm": THICKNESS_NM}
+    # The data are the published formula written in this test, not mechid's model.
     v = np.linspace(0.5, 6.0, 12)
-    slope_times_t = []
     for temperature in (250.0, 300.0, 350.0):
         t = np.full_like(v, temperature)
-        slope, intercept = _fit(SCHOTTKY_PLOT, v, t, SCHOTTKY_EMISSION.current(v, t, params, DEVICE))
+        i = _schottky_current_written_here(v, t, 1.0, 4.0, 0.3, THICKNESS_NM)
+        np.testing.assert_allclose(SCHOTTKY_EMISSION.current(v, t, params, DEVICE), i,
+                                   rtol=1e-12)
+        slope, intercept = _fit(SCHOTTKY_PLOT, v, t, i)
         found = SCHOTTKY_PLOT.interpret(slope, intercept, temperature, DEVICE)
-        assert found["dielectric_constant"] == pytest.approx(4.0, rel=1e-8)
-        slope_times_t.append(slope * temperature)
-    assert slope_times_t == pytest.approx([slope_times_t[0]] * 3, rel=1e-8)
+        assert found["dielectric_constant"] == pytest.approx(4.0, rel=1e-6)
 
 
 def test_richardson_plot_recovers_effective_barrier_and_richardson_constant():
@@ -171,7 +226,9 @@ def test_richardson_plot_recovers_effective_barrier_and_richardson_constant():
               "richardson_constant_ratio": 0.3, "thickness_nm": THICKNESS_NM}
     t = np.linspace(250.0, 400.0, 10)
     v = np.full_like(t, 2.0)
-    slope, intercept = _fit(RICHARDSON_PLOT, v, t, SCHOTTKY_EMISSION.current(v, t, params, DEVICE))
+    i = _schottky_current_written_here(v, t, 1.0, 4.0, 0.3, THICKNESS_NM)
+    np.testing.assert_allclose(SCHOTTKY_EMISSION.current(v, t, params, DEVICE), i, rtol=1e-12)
+    slope, intercept = _fit(RICHARDSON_PLOT, v, t, i)
     found = RICHARDSON_PLOT.interpret(slope, intercept, 2.0, DEVICE)
     field = 2.0 / (THICKNESS_NM * 1e-9)
     expected = 1.0 - schottky_barrier_lowering_eV(field, 4.0)
@@ -186,7 +243,9 @@ def test_poole_frenkel_plots_recover_permittivity_activation_energy_and_prefacto
               "prefactor_S_per_cm": SIGMA0_S_PER_CM, "thickness_nm": THICKNESS_NM}
     v = np.linspace(0.5, 6.0, 12)
     t = np.full_like(v, 300.0)
-    slope, intercept = _fit(POOLE_FRENKEL_PLOT, v, t, POOLE_FRENKEL.current(v, t, params, DEVICE))
+    i = _poole_frenkel_current_written_here(v, t, 1.0, 4.0, SIGMA0_S_PER_CM, THICKNESS_NM)
+    np.testing.assert_allclose(POOLE_FRENKEL.current(v, t, params, DEVICE), i, rtol=1e-12)
+    slope, intercept = _fit(POOLE_FRENKEL_PLOT, v, t, i)
     found = POOLE_FRENKEL_PLOT.interpret(slope, intercept, 300.0, DEVICE)
     assert found["dielectric_constant"] == pytest.approx(4.0, rel=1e-8)
     # the same data read through the Schottky interpretation: eps_r / 4 (factor-4 ambiguity)
@@ -195,7 +254,7 @@ def test_poole_frenkel_plots_recover_permittivity_activation_energy_and_prefacto
 
     t = np.linspace(250.0, 400.0, 10)
     v = np.full_like(t, 2.0)
-    i = POOLE_FRENKEL.current(v, t, params, DEVICE)
+    i = _poole_frenkel_current_written_here(v, t, 1.0, 4.0, SIGMA0_S_PER_CM, THICKNESS_NM)
     slope, intercept = _fit(POOLE_FRENKEL_ARRHENIUS_PLOT, v, t, i)
     found = POOLE_FRENKEL_ARRHENIUS_PLOT.interpret(slope, intercept, 2.0, DEVICE)
     field = 2.0 / (THICKNESS_NM * 1e-9)

@@ -23,6 +23,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from mechid.catalogue.checks import CheckSpec, PlotEstimate
+from mechid.catalogue.validity import ValidityCondition, within_validity
 from mechid.device import Device
 from mechid.errors import UnknownMechanismError
 
@@ -181,6 +182,9 @@ class Mechanism:
     :class:`ParameterHints`, the fit's starting values. ``checks`` lists its consistency
     checks (:class:`~mechid.catalogue.checks.CheckSpec` subclasses), which the screening
     evaluates; every mechanism also gets the generic declared-range check.
+    ``validity`` lists the conditions under which the formula holds
+    (:class:`~mechid.catalogue.validity.ValidityCondition`); :meth:`current` returns NaN
+    wherever one fails, so a fit refuses those draws.
     """
 
     id: str
@@ -196,6 +200,7 @@ class Mechanism:
     needs_area: bool = True
     estimates: tuple[PlotEstimate, ...] = ()
     checks: tuple[CheckSpec, ...] = ()
+    validity: tuple[ValidityCondition, ...] = ()
 
     def __post_init__(self) -> None:
         plot_ids = {plot.id for plot in self.plots}
@@ -247,6 +252,8 @@ class Mechanism:
         temperature_K: ArrayLike,
         params: Mapping[str, ArrayLike],
         device: Device,
+        *,
+        enforce_validity: bool = True,
     ) -> FloatArray:
         """Current in A at the given biases and temperatures (broadcast with ``params``).
 
@@ -259,11 +266,14 @@ class Mechanism:
             data (use shape ``(m, 1)`` to evaluate ``m`` parameter sets at once).
         device : Device
             Supplies the electrode area for mechanisms written as a current density.
+        enforce_validity : bool, optional
+            True (default, what fits use): NaN wherever a declared validity condition fails.
+            False: the bare formula, wherever it can be evaluated (diagnostics only).
 
         Returns
         -------
         ndarray
-            Current in A; zero at zero bias; NaN where the formula is outside its domain.
+            Current in A; zero at zero bias; NaN outside the formula's validity domain.
         """
         missing = [n for n in self.parameter_names if n not in params]
         extra = [n for n in params if n not in self.parameter_names]
@@ -277,8 +287,11 @@ class Mechanism:
         t = np.asarray(temperature_K, dtype=float)
         values = {k: np.asarray(val, dtype=float) for k, val in params.items()}
         v_abs = np.abs(v)
+        biased = np.where(v_abs > 0, v_abs, np.nan)
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            mag = self.magnitude(np.where(v_abs > 0, v_abs, np.nan), t, device, **values)
+            mag = self.magnitude(biased, t, device, **values)
+        if enforce_validity and self.validity:
+            mag = np.where(within_validity(self.validity, biased, t, device, values), mag, np.nan)
         return np.where(v_abs > 0, np.sign(v) * mag, 0.0)
 
 

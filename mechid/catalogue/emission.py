@@ -4,7 +4,9 @@ Every formula the two declarations use is a public function of this module:
 
 * :func:`schottky_barrier_lowering_eV`, :func:`poole_frenkel_barrier_lowering_eV`
 * :func:`richardson_dushman_current_density_A_per_cm2`
-* :func:`schottky_current_density_A_per_cm2`, :func:`poole_frenkel_current_density_A_per_cm2`
+* :func:`schottky_current_density_A_per_cm2` (one interface),
+  :func:`schottky_mim_current_density_A_per_cm2` (net current through the film),
+  :func:`poole_frenkel_current_density_A_per_cm2`
 * :func:`field_slope_sqrt_m_per_V`, :func:`dielectric_constant_from_field_slope` -- the
   slope of ln J against sqrt(E) and its inversion to the (optical) dielectric constant
 
@@ -36,6 +38,7 @@ from mechid.catalogue.checks import (
     ThermallyActivated,
     ZeroFieldBarrier,
 )
+from mechid.catalogue.validity import ValidityCondition
 from mechid.constants import (
     BOLTZMANN_EV,
     POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V,
@@ -86,7 +89,9 @@ def poole_frenkel_barrier_lowering_eV(
     -------
     ndarray
         ``sqrt(e^3 E/(pi eps0 eps_r))`` in eV, twice the Schottky lowering (Frenkel,
-        Phys. Rev. 54, 647 (1938); from memory).
+        Phys. Rev. 54, 647 (1938)). Checked: a textbook chapter on the Poole-Frenkel effect
+        gives ``beta_PF = (e^3/(pi eps eps0))^1/2``, 4.40e-4 eV (cm/V)^1/2 at eps = 3 (this
+        function: 4.3817e-4, within the 1 % the textbook rounds to).
     """
     ratio = np.asarray(field_V_per_m, dtype=float) / np.asarray(dielectric_constant, dtype=float)
     return POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V * np.sqrt(ratio)
@@ -156,15 +161,66 @@ def schottky_current_density_A_per_cm2(
 
         J = A^* T^2 \\exp\\Big(-\\frac{\\varphi_B - \\beta_S\\sqrt{E/\\varepsilon_r}}{kT}\\Big)
 
-    Where the lowering exceeds the barrier (outside the formula's range: no barrier left)
-    the effective barrier is held at zero, so the density saturates at ``A* T^2`` instead
-    of overflowing.
+    The formula needs a barrier: where the lowering exceeds ``phi_B`` there is nothing left
+    to emit over and the expression has no meaning. It is returned bare (no clipping); the
+    declaration :data:`SCHOTTKY_EMISSION` refuses those points (``barrier_not_removed``).
     """
     lowering = schottky_barrier_lowering_eV(field_V_per_m, dielectric_constant)
-    effective = np.maximum(np.asarray(barrier_height_eV, dtype=float) - lowering, 0.0)
+    effective = np.asarray(barrier_height_eV, dtype=float) - lowering
     return richardson_dushman_current_density_A_per_cm2(
         temperature_K, effective, richardson_constant_ratio
     )
+
+
+def schottky_mim_current_density_A_per_cm2(
+    voltage_V: ArrayLike,
+    temperature_K: ArrayLike,
+    barrier_height_eV: ArrayLike,
+    dielectric_constant: ArrayLike,
+    richardson_constant_ratio: ArrayLike,
+    thickness_nm: ArrayLike,
+) -> FloatArray:
+    """Net Schottky emission through a symmetric metal-insulator-metal film.
+
+    Parameters
+    ----------
+    voltage_V : array_like
+        Bias magnitude in V (>= 0); the field is ``E = V/d``.
+    temperature_K : array_like
+        Temperature in K.
+    barrier_height_eV, dielectric_constant, richardson_constant_ratio : array_like
+        As in :func:`schottky_current_density_A_per_cm2`.
+    thickness_nm : array_like
+        Film thickness ``d`` in nm.
+
+    Returns
+    -------
+    ndarray
+        Current density in A/cm^2; zero at zero bias and linear in V there.
+
+    Notes
+    -----
+    Both electrodes emit over the same field-lowered barrier; electrons from the biased-down
+    electrode must in addition climb ``eV``, so the net current is the forward flux times
+    ``1 - exp(-eV/kT)`` (the thermionic-emission balance of Sze & Ng, Physics of
+    Semiconductor Devices, 3rd ed. 2007, metal-semiconductor contacts, written for a
+    symmetric MIM structure as in Simmons, Phys. Rev. Lett. 15, 967 (1965), from memory):
+
+    .. math::
+
+        J = A^* T^2 \\exp\\Big(-\\frac{\\varphi_B - \\beta_S\\sqrt{E/\\varepsilon_r}}{kT}\\Big)
+            \\Big[1 - \\exp\\Big(-\\frac{eV}{kT}\\Big)\\Big]
+
+    For ``eV >> kT`` it is the one-sided formula; without the bracket the current would jump
+    from ``-A* T^2 exp(-phi_B/kT)`` to ``+A* T^2 exp(-phi_B/kT)`` at zero bias.
+    """
+    v = np.asarray(voltage_V, dtype=float)
+    field = v / (np.asarray(thickness_nm, dtype=float) * _NM_TO_M)
+    kT = BOLTZMANN_EV * np.asarray(temperature_K, dtype=float)
+    one_sided = schottky_current_density_A_per_cm2(
+        field, temperature_K, barrier_height_eV, dielectric_constant, richardson_constant_ratio
+    )
+    return one_sided * -np.expm1(-v / kT)
 
 
 def poole_frenkel_current_density_A_per_cm2(
@@ -196,19 +252,22 @@ def poole_frenkel_current_density_A_per_cm2(
 
     Notes
     -----
-    Frenkel, Phys. Rev. 54, 647 (1938) (from memory); Sze & Ng 2007:
+    Frenkel, Phys. Rev. 54, 647 (1938); Sze & Ng 2007 (equation numbers not checked; the
+    form ``J ∝ E exp(beta_PF sqrt(E)/kT)``, read on the ln(J/E) against sqrt(E) plot, is the
+    one reviewed by Schroeder, J. Appl. Phys. 117, 215103 (2015), abstract checked):
 
     .. math::
 
         J = \\sigma_0 E \\exp\\Big(-\\frac{\\varphi_T - \\beta_{PF}\\sqrt{E/\\varepsilon_r}}{kT}
         \\Big),\\qquad \\beta_{PF} = 2\\beta_S
 
-    Where the lowering exceeds the trap depth (trap fully ionised, formula out of range)
-    the effective depth is held at zero: the density saturates at ``sigma0 E``.
+    Where the lowering exceeds the trap depth the trap no longer binds its electron and the
+    expression has no meaning. It is returned bare (no clipping); the declaration
+    :data:`POOLE_FRENKEL` refuses those points (``trap_not_emptied``).
     """
     field = np.asarray(field_V_per_m, dtype=float)
     lowering = poole_frenkel_barrier_lowering_eV(field, dielectric_constant)
-    effective = np.maximum(np.asarray(trap_depth_eV, dtype=float) - lowering, 0.0)
+    effective = np.asarray(trap_depth_eV, dtype=float) - lowering
     kT = BOLTZMANN_EV * np.asarray(temperature_K, dtype=float)
     conductivity = np.asarray(prefactor_S_per_cm, dtype=float) * np.exp(-effective / kT)
     return conductivity * field * _V_PER_M_TO_V_PER_CM
@@ -278,10 +337,10 @@ def _schottky_current(
     richardson_constant_ratio: FloatArray,
     thickness_nm: FloatArray,
 ) -> FloatArray:
-    """|I| in A of Schottky emission with E = |V|/d."""
-    field = voltage_V / (thickness_nm * _NM_TO_M)
-    density = schottky_current_density_A_per_cm2(
-        field, temperature_K, barrier_height_eV, dielectric_constant, richardson_constant_ratio
+    """|I| in A of Schottky emission through the film (MIM form, E = |V|/d)."""
+    density = schottky_mim_current_density_A_per_cm2(
+        voltage_V, temperature_K, barrier_height_eV, dielectric_constant,
+        richardson_constant_ratio, thickness_nm,
     )
     return density * device.require_area()
 
@@ -447,6 +506,62 @@ POOLE_FRENKEL_ARRHENIUS_PLOT = StraightenedPlot(
 
 
 # --------------------------------------------------------------------------------------
+# Validity domains
+# --------------------------------------------------------------------------------------
+
+
+def _schottky_lowering_fraction(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    barrier_height_eV: FloatArray, dielectric_constant: FloatArray,
+    richardson_constant_ratio: FloatArray, thickness_nm: FloatArray,
+) -> FloatArray:
+    """Share of the barrier removed by the image force at ``E = V/d``."""
+    field = voltage_V / (thickness_nm * _NM_TO_M)
+    return schottky_barrier_lowering_eV(field, dielectric_constant) / barrier_height_eV
+
+
+def _poole_frenkel_lowering_fraction(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    trap_depth_eV: FloatArray, dielectric_constant: FloatArray,
+    prefactor_S_per_cm: FloatArray, thickness_nm: FloatArray,
+) -> FloatArray:
+    """Share of the trap depth removed by the field at ``E = V/d``."""
+    field = voltage_V / (thickness_nm * _NM_TO_M)
+    return poole_frenkel_barrier_lowering_eV(field, dielectric_constant) / trap_depth_eV
+
+
+#: Schottky emission holds while the image-force lowering leaves a barrier.
+SCHOTTKY_EMISSION_VALIDITY = (
+    ValidityCondition(
+        id="barrier_not_removed",
+        quantity="beta_S sqrt(E/eps_r)/phi_B (share of the barrier removed by the field)",
+        limit=1.0,
+        bound="upper",
+        reason=(
+            "Schottky emission is thermionic emission over the lowered barrier (Sze & Ng 2007); "
+            "once the lowering exceeds the barrier there is no barrier left"
+        ),
+        evaluate=_schottky_lowering_fraction,
+    ),
+)
+
+#: Poole-Frenkel emission holds while the lowered trap still binds its electron.
+POOLE_FRENKEL_VALIDITY = (
+    ValidityCondition(
+        id="trap_not_emptied",
+        quantity="beta_PF sqrt(E/eps_r)/phi_T (share of the trap depth removed by the field)",
+        limit=1.0,
+        bound="upper",
+        reason=(
+            "Poole-Frenkel emission is thermal emission over the field-lowered Coulomb barrier "
+            "of a trap (Frenkel 1938); once the lowering exceeds the depth the trap is empty"
+        ),
+        evaluate=_poole_frenkel_lowering_fraction,
+    ),
+)
+
+
+# --------------------------------------------------------------------------------------
 # Declarations
 # --------------------------------------------------------------------------------------
 
@@ -490,12 +605,13 @@ SCHOTTKY_EMISSION = Mechanism(
     family="emission",
     name="Schottky emission",
     formula=(
-        "J = A0 (A*/A0) T^2 exp(-(phi_B - beta_S sqrt(E/eps_r))/kT);  E = V/d,"
+        "J = A0 (A*/A0) T^2 exp(-(phi_B - beta_S sqrt(E/eps_r))/kT) [1 - exp(-eV/kT)];  E = V/d,"
         "  beta_S = sqrt(e^3/(4 pi eps0)),  A0 = 4 pi m0 k^2 e/h^3 = 120.17 A cm^-2 K^-2"
     ),
     source=(
         "Richardson-Dushman emission with Schottky image-force lowering; Sze & Ng, "
-        "Physics of Semiconductor Devices, 3rd ed. (Wiley, 2007)"
+        "Physics of Semiconductor Devices, 3rd ed. (Wiley, 2007); net current of a symmetric "
+        "MIM film: Simmons, Phys. Rev. Lett. 15, 967 (1965)"
     ),
     parameters=(
         Parameter(
@@ -523,6 +639,7 @@ SCHOTTKY_EMISSION = Mechanism(
         "schottky_plot", "richardson_plot", "effective_barrier_eV", "barrier_height_eV",
         SCHOTTKY_BETA_EV_SQRT_M_PER_V, extra=(RichardsonConstant("richardson_plot"),)),
     temperature_dependence="strong: activated, ln(I/T^2) linear in 1/T with slope -phi_eff/k",
+    validity=SCHOTTKY_EMISSION_VALIDITY,
 )
 
 POOLE_FRENKEL = Mechanism(
@@ -561,4 +678,5 @@ POOLE_FRENKEL = Mechanism(
         "poole_frenkel_plot", "poole_frenkel_arrhenius_plot", "activation_energy_eV",
         "trap_depth_eV", POOLE_FRENKEL_BETA_EV_SQRT_M_PER_V),
     temperature_dependence="strong: activated, ln(I/V) linear in 1/T with slope -E_a(E)/k",
+    validity=POOLE_FRENKEL_VALIDITY,
 )

@@ -38,6 +38,7 @@ from mechid.catalogue.checks import (
     PlotEstimate,
     ThermallyActivated,
 )
+from mechid.catalogue.validity import ValidityCondition
 from mechid.constants import BOLTZMANN_EV, SCHOTTKY_BETA_EV_SQRT_M_PER_V
 from mechid.device import Device
 
@@ -107,7 +108,8 @@ def nearest_neighbour_current_density_A_per_cm2(
     Notes
     -----
     Mott & Davis, Electronic Processes in Non-Crystalline Materials, 2nd ed. (Oxford, 1979)
-    (from memory): forward hops face ``E_a - eaE/2``, backward hops ``E_a + eaE/2``, so
+    (from memory: no source could be checked for the prefactor convention): forward hops face
+    ``E_a - eaE/2``, backward hops ``E_a + eaE/2``, so
 
     .. math::
 
@@ -115,14 +117,15 @@ def nearest_neighbour_current_density_A_per_cm2(
           = \\frac{J_0}{2}\\Big[e^{-(E_a - eaE/2)/kT} - e^{-(E_a + eaE/2)/kT}\\Big].
 
     The second form is evaluated, as ``(J0/2) exp(-u) (-expm1(-eaE/kT))`` with ``u`` the
-    forward barrier in kT, which cannot overflow. Where the field removes the forward
-    barrier (``eaE/2 > E_a``, outside the model) the forward barrier is held at zero, so
-    the density saturates near ``J0/2`` instead of growing without bound.
+    forward barrier in kT. The model needs a forward barrier: where the field removes it
+    (``eaE/2 > E_a``) hops are no longer activated and the expression has no meaning. It is
+    returned bare (no clipping); the declaration :data:`NEAREST_NEIGHBOUR_HOPPING` refuses
+    those points (``forward_barrier_left``).
     """
     t = np.asarray(temperature_K, dtype=float)
     kT = BOLTZMANN_EV * t
     half_gain = hopping_field_argument(field_V_per_m, hopping_distance_nm, t)
-    forward_barrier = np.maximum(np.asarray(activation_energy_eV, dtype=float) / kT - half_gain, 0)
+    forward_barrier = np.asarray(activation_energy_eV, dtype=float) / kT - half_gain
     net_fraction = -np.expm1(-2.0 * half_gain)
     return 0.5 * np.asarray(prefactor_A_per_cm2, dtype=float) * np.exp(-forward_barrier) * (
         net_fraction
@@ -183,7 +186,9 @@ def mott_characteristic_temperature_K(
     Returns
     -------
     ndarray
-        ``T0`` in K (Mott, Phil. Mag. 19, 835 (1969); from memory).
+        ``T0`` in K (Mott, Phil. Mag. 19, 835 (1969); the form ``18/(k N(E_F) alpha^3)``
+        with ``alpha = xi`` checked against a secondary reproduction of Mott's law, the
+        paper itself not consulted).
     """
     volume_cm3 = (np.asarray(localisation_length_nm, dtype=float) * _NM_TO_CM) ** 3
     density = np.asarray(density_of_states_per_eV_cm3, dtype=float)
@@ -204,7 +209,8 @@ def mott_hopping_distance_nm(
     temperature_K: ArrayLike,
     localisation_length_nm: ArrayLike,
 ) -> FloatArray:
-    """Mean Mott hop length ``R = (3/8) xi (T0/T)^(1/4)`` in nm (Mott 1969; from memory)."""
+    """Mean Mott hop length ``R = (3/8) xi (T0/T)^(1/4)`` in nm (Mott 1969; from memory:
+    no source for the 3/8 could be checked)."""
     ratio = _temperature_ratio(characteristic_temperature_K, temperature_K)
     return 0.375 * np.asarray(localisation_length_nm, dtype=float) * ratio**0.25
 
@@ -212,7 +218,8 @@ def mott_hopping_distance_nm(
 def mott_hopping_energy_eV(
     characteristic_temperature_K: ArrayLike, temperature_K: ArrayLike
 ) -> FloatArray:
-    """Mott hop energy ``W = (1/4) kT (T0/T)^(1/4)`` in eV (Mott 1969; from memory)."""
+    """Mott hop energy ``W = (1/4) kT (T0/T)^(1/4)`` in eV (Mott 1969; from memory: no
+    source for the 1/4 could be checked)."""
     t = np.asarray(temperature_K, dtype=float)
     ratio = np.asarray(characteristic_temperature_K, dtype=float) / t
     return 0.25 * BOLTZMANN_EV * t * ratio**0.25
@@ -226,7 +233,9 @@ def efros_shklovskii_characteristic_temperature_K(
     Parameters
     ----------
     beta : float
-        Numerical constant, about 2.8 in 3D and 6.2 in 2D (from memory).
+        Numerical constant, about 2.8 in 3D and 6.2 in 2D (from memory; the law
+        ``exp(-(T_ES/T)^(1/2))`` itself is confirmed by Shklovskii's own summaries, the
+        constants are not).
     dielectric_constant : array_like
         Relative permittivity ``kappa`` of the host.
     localisation_length_nm : array_like
@@ -279,7 +288,9 @@ def reduced_activation_energy(
     -------
     ndarray
         ``w = p (T0/T)^p``, so ``ln w`` is linear in ``ln T`` with slope ``-p`` (Zabrodskii &
-        Zinov'eva, Sov. Phys. JETP 59, 425 (1984); from memory). A prefactor
+        Zinov'eva, Sov. Phys. JETP 59, 425 (1984), citation details from memory; the
+        expression itself follows from differentiating ``ln sigma`` and is checked in the
+        tests). A prefactor
         ``sigma0 ∝ T^m`` would add ``m``.
     """
     ratio = np.asarray(characteristic_temperature_K, dtype=float) / np.asarray(
@@ -446,6 +457,36 @@ def _vrh_magnitude(exponent: float) -> Callable[..., FloatArray]:
 
 
 # --------------------------------------------------------------------------------------
+# Validity domain
+# --------------------------------------------------------------------------------------
+
+
+def _hop_energy_fraction(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    activation_energy_eV: FloatArray, hopping_distance_nm: FloatArray,
+    prefactor_A_per_cm2: FloatArray, thickness_nm: FloatArray,
+) -> FloatArray:
+    """``(e a E/2)/E_a``: share of the hop barrier removed by the field at ``E = V/d``."""
+    return hopping_distance_nm * voltage_V / (2 * thickness_nm * activation_energy_eV)
+
+
+#: Field-assisted hopping holds while a forward hop is still activated.
+NEAREST_NEIGHBOUR_VALIDITY = (
+    ValidityCondition(
+        id="forward_barrier_left",
+        quantity="e a E/(2 E_a) (share of the hop barrier removed by the field)",
+        limit=1.0,
+        bound="upper",
+        reason=(
+            "field-assisted hopping lowers the forward hop barrier by e a E/2 (Mott & Davis "
+            "1979); once that exceeds E_a the hops are no longer thermally activated"
+        ),
+        evaluate=_hop_energy_fraction,
+    ),
+)
+
+
+# --------------------------------------------------------------------------------------
 # Declarations
 # --------------------------------------------------------------------------------------
 
@@ -533,6 +574,7 @@ NEAREST_NEIGHBOUR_HOPPING = Mechanism(
         PlotEstimate("hopping_distance_nm", "hopping_field_plot"),
     ),
     checks=(ThermallyActivated(), HoppingLaw(exponent=1.0)),
+    validity=NEAREST_NEIGHBOUR_VALIDITY,
 )
 
 

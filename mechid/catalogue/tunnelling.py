@@ -36,6 +36,7 @@ from mechid.catalogue.checks import (
     StraightPlot,
     TunnellingRegime,
 )
+from mechid.catalogue.validity import QuantityFormula, ValidityCondition
 from mechid.constants import (
     BOLTZMANN_EV,
     ELECTRON_MASS,
@@ -48,11 +49,22 @@ from mechid.constants import (
 )
 from mechid.device import Device, Measured
 
-#: Largest argument x of the thermal factor x/sin(x) that is used as is. Above it the
-#: factor is held at its value here (x/sin x = 9.15): the expansion behind both thermal
-#: factors is only valid for x well below pi, and where x approaches pi the tunnel current
-#: is astronomically small or the barrier is far too thick for the formula anyway.
-THERMAL_ARGUMENT_CAP = 0.9 * np.pi
+#: Largest argument x = pi c kT at which the thermal factors x/sin(x) are used (factor 1.19).
+#: Both factors come from expanding the WKB exponent linearly in energy about the Fermi level
+#: and integrating it against the Fermi-Dirac occupation (Murphy & Good 1956, Phys. Rev. 102,
+#: 1464; Simmons 1964, J. Appl. Phys. 35, 2655). The integral diverges at x = pi. The mean
+#: energy of the tunnelling electrons, -x cot(x)/c relative to E_F (derived from the same
+#: integral), rises from 1/c below E_F at T = 0 to 0.64/c at x = 1 and to E_F at x = pi/2,
+#: where the expansion about E_F no longer describes the electrons carrying the current. The
+#: factor is therefore trusted only while it is a correction: x <= 1 (common practice).
+THERMAL_ARGUMENT_LIMIT = 1.0
+
+#: Smallest Simmons exponent A sqrt(phibar) at which the intermediate-voltage formula is used.
+#: Simmons' closed form keeps the leading order in 1/(A sqrt(phibar)): its low-bias limit
+#: carries the factor 1 - 2/(A sqrt(phi0)) against the ohmic formula, so at 4 that correction
+#: is one half; below about 2.1 the bracket turns non-monotonic in V and then negative
+#: (measured here; our threshold, chosen so the correction stays a correction).
+SIMMONS_MIN_EXPONENT = 4.0
 
 _A_PER_M2_TO_A_PER_CM2 = 1e-4
 _PER_NM2_TO_PER_M2 = 1e18
@@ -61,7 +73,7 @@ _SCHOTTKY_CONSTANT_EV_NM = SCHOTTKY_BETA_EV_SQRT_M_PER_V**2 * 1e9
 
 
 def thermal_smearing_factor(x: ArrayLike) -> FloatArray:
-    """Thermal factor ``x / sin(x)`` of tunnelling currents, held constant above the cap.
+    """Thermal factor ``x / sin(x)`` of tunnelling currents; NaN at and beyond its pole.
 
     Parameters
     ----------
@@ -72,17 +84,21 @@ def thermal_smearing_factor(x: ArrayLike) -> FloatArray:
     Returns
     -------
     ndarray
-        ``x/sin(x)`` (1 at x = 0) for ``x <= THERMAL_ARGUMENT_CAP``, and the value at the cap
-        above it, so a fit over all biases and temperatures never meets the pole at ``x = pi``.
+        ``x/sin(x)`` (1 at x = 0) for ``0 <= x < pi``, where the Fermi-Dirac integral behind
+        it converges; NaN elsewhere. The formula is trusted only up to
+        :data:`THERMAL_ARGUMENT_LIMIT` (x <= 1); the mechanism declarations refuse larger x
+        through their ``thermal_factor_argument`` validity condition.
 
     Notes
     -----
-    The factor comes from integrating the Fermi-Dirac occupation against a transmission
-    that decays as ``exp(-c E)`` below the Fermi level (Murphy & Good 1956, Phys. Rev. 102,
-    1464; Simmons 1964, J. Appl. Phys. 35, 2655). It is valid only for ``x`` well below pi.
+    The factor is the exact value of ``int exp(c e) f(e) de / int_{-inf}^0 exp(c e) de`` for a
+    transmission decaying as ``exp(c e)`` around the Fermi level and the Fermi-Dirac
+    occupation ``f`` (Murphy & Good 1956, Phys. Rev. 102, 1464; Simmons 1964, J. Appl. Phys.
+    35, 2655).
     """
-    held = np.minimum(np.asarray(x, dtype=float), THERMAL_ARGUMENT_CAP)
-    return 1.0 / np.sinc(held / np.pi)  # np.sinc(y) = sin(pi y)/(pi y)
+    x = np.asarray(x, dtype=float)
+    inside = (x >= 0) & (x < np.pi)
+    return np.where(inside, 1.0 / np.sinc(np.where(inside, x, 0.0) / np.pi), np.nan)
 
 
 # --------------------------------------------------------------------------------------
@@ -93,7 +109,7 @@ def thermal_smearing_factor(x: ArrayLike) -> FloatArray:
 def simmons_mean_barrier(
     voltage_V: ArrayLike, barrier_height_eV: ArrayLike, thickness_nm: ArrayLike
 ) -> tuple[FloatArray, FloatArray]:
-    """Mean barrier height and effective width of a biased rectangular barrier.
+    """Mean barrier height and width of a biased rectangular barrier, intermediate range.
 
     Parameters
     ----------
@@ -107,21 +123,16 @@ def simmons_mean_barrier(
     Returns
     -------
     mean_barrier_eV, width_nm : ndarray
-        For ``eV < phi0``: ``phibar = phi0 - eV/2`` and ``ds = s``; for ``eV >= phi0`` the
-        barrier is triangular over ``ds = s phi0/(eV)`` with ``phibar = phi0/2``. Both are
-        continuous at ``eV = phi0``.
-
-    Notes
-    -----
-    Simmons, J. Appl. Phys. 34, 1793 (1963), rectangular barrier without image force,
-    beta = 1 (from memory; equation numbers not re-checked).
+        ``phibar = phi0 - eV/2`` and ``ds = s``: the trapezoid of a rectangular barrier
+        tilted by the bias, valid for ``eV < phi0`` (Simmons, J. Appl. Phys. 34, 1793 (1963),
+        rectangular barrier without image force, intermediate-voltage range, beta = 1).
+        Above ``eV = phi0`` the barrier is triangular: see
+        :func:`simmons_high_voltage_current_density_A_per_m2`.
     """
     v = np.asarray(voltage_V, dtype=float)
     phi0 = np.asarray(barrier_height_eV, dtype=float)
     s = np.asarray(thickness_nm, dtype=float)
-    mean_barrier = phi0 - 0.5 * np.minimum(v, phi0)
-    width = s * phi0 / np.maximum(v, phi0)
-    return mean_barrier, width
+    return phi0 - 0.5 * v, s + 0.0 * v
 
 
 def simmons_decay_coefficient(width_nm: ArrayLike, effective_mass_ratio: ArrayLike) -> FloatArray:
@@ -158,7 +169,7 @@ def simmons_current_density_A_per_m2(
     Parameters
     ----------
     voltage_V : array_like
-        Bias magnitude in V (> 0).
+        Bias magnitude in V (> 0), intermediate range ``eV < phi0``.
     barrier_height_eV : array_like
         Barrier height ``phi0`` in eV.
     thickness_nm : array_like
@@ -169,36 +180,94 @@ def simmons_current_density_A_per_m2(
     Returns
     -------
     ndarray
-        Current density in A/m^2, never negative (see Notes).
+        Current density in A/m^2, the bare formula (no clipping): it is monotonic and
+        positive only inside the validity domain of :data:`DIRECT_TUNNELLING`
+        (``eV <= phi0`` and ``A sqrt(phibar) >= SIMMONS_MIN_EXPONENT``).
 
     Notes
     -----
-    Simmons, J. Appl. Phys. 34, 1793 (1963), general formula with beta = 1:
+    Simmons, J. Appl. Phys. 34, 1793 (1963), rectangular barrier, intermediate-voltage range
+    ``0 <= eV < phi0``, beta = 1:
 
     .. math::
 
-        J = \\frac{e}{2\\pi h\\,\\Delta s^2}\\Big[\\bar\\varphi\\, e^{-A\\sqrt{\\bar\\varphi}}
+        J = \\frac{e}{2\\pi h\\,s^2}\\Big[\\bar\\varphi\\, e^{-A\\sqrt{\\bar\\varphi}}
             - (\\bar\\varphi + eV)\\, e^{-A\\sqrt{\\bar\\varphi + eV}}\\Big],
-        \\qquad A = \\frac{4\\pi\\,\\Delta s\\sqrt{2 m^*}}{h}
+        \\qquad A = \\frac{4\\pi\\,s\\sqrt{2 m^*}}{h},\\quad
+        \\bar\\varphi = \\varphi_0 - \\frac{eV}{2}
 
-    with ``phibar`` and ``Delta s`` from :func:`simmons_mean_barrier`. The bracket is
-    evaluated as ``phibar exp(-A sqrt(phibar)) * (-expm1(log1p(eV/phibar) - A d))`` with
-    ``d = sqrt(phibar+eV) - sqrt(phibar)`` so tiny biases keep full precision. Where the
-    reverse term exceeds the forward one (an almost transparent barrier, roughly
-    ``A sqrt(phibar) < 2``, where Simmons' expansion has broken down) the bracket changes
-    sign; the density is then set to zero, which is continuous and finite.
+    (equation numbers not checked: the form was confirmed against a secondary reproduction
+    of Simmons' intermediate-voltage formula and against the physics sheet's independent
+    evaluation, 4.39032 A/m^2 at phi0 = 2 eV, s = 2 nm, 0.5 V). The bracket is evaluated as
+    ``phibar exp(-A sqrt(phibar)) * (-expm1(log1p(eV/phibar) - A d))`` with
+    ``d = sqrt(phibar+eV) - sqrt(phibar)`` so tiny biases keep full precision. The formula
+    needs an opaque barrier, ``A sqrt(phibar) >> 1``: below about 2.1 the bracket is not
+    monotonic in V and turns negative, which is why the declaration refuses
+    ``A sqrt(phibar) < SIMMONS_MIN_EXPONENT`` instead of clipping.
     """
     v = np.asarray(voltage_V, dtype=float)
     mean_barrier, width_nm = simmons_mean_barrier(v, barrier_height_eV, thickness_nm)
     decay = simmons_decay_coefficient(width_nm, effective_mass_ratio)
     root_low = np.sqrt(mean_barrier)
     root_high = np.sqrt(mean_barrier + v)
-    # e/(2 pi h ds^2) times e (energies converted from eV to J): A m^-2 eV^-1.
+    # e/(2 pi h s^2) times e (energies converted from eV to J): A m^-2 eV^-1.
     prefactor = ELEMENTARY_CHARGE**2 / (2 * np.pi * PLANCK * (width_nm * 1e-9) ** 2)
     forward = mean_barrier * np.exp(-decay * root_low)
     reverse_over_forward = np.log1p(v / mean_barrier) - decay * v / (root_high + root_low)
-    net_fraction = np.maximum(-np.expm1(reverse_over_forward), 0.0)
-    return prefactor * forward * net_fraction
+    return prefactor * forward * -np.expm1(reverse_over_forward)
+
+
+def simmons_high_voltage_current_density_A_per_m2(
+    voltage_V: ArrayLike,
+    barrier_height_eV: ArrayLike,
+    thickness_nm: ArrayLike,
+    effective_mass_ratio: ArrayLike,
+) -> FloatArray:
+    """Simmons' published high-voltage (``eV > phi0``) current density, T = 0.
+
+    Parameters
+    ----------
+    voltage_V : array_like
+        Bias magnitude in V, ``eV > phi0``.
+    barrier_height_eV, thickness_nm, effective_mass_ratio : array_like
+        As in :func:`simmons_current_density_A_per_m2`.
+
+    Returns
+    -------
+    ndarray
+        Current density in A/m^2 (both terms kept).
+
+    Notes
+    -----
+    Simmons, J. Appl. Phys. 34, 1793 (1963), rectangular barrier, ``V > phi0/e``, field
+    ``F = V/s``:
+
+    .. math::
+
+        J = \\frac{2.2\\,e^3 F^2}{8\\pi h \\varphi_0}\\Big[
+            e^{-\\frac{8\\pi\\sqrt{2m^*}\\,\\varphi_0^{3/2}}{2.96\\,h e F}}
+            - \\Big(1 + \\frac{2eV}{\\varphi_0}\\Big)
+            e^{-\\frac{8\\pi\\sqrt{2m^*}\\,\\varphi_0^{3/2}}{2.96\\,h e F}
+               \\sqrt{1 + 2eV/\\varphi_0}}\\Big]
+
+    The numbers 2.2 and 2.96 come from Simmons' correction factor beta = 23/24 for the
+    triangular barrier (beta confirmed on a secondary reproduction; the two constants are
+    quoted from memory). They are not the beta = 1 values of the intermediate formula
+    continued to ``eV = phi0`` (2 and 2 sqrt 2 = 2.83), so the two forms do not join: at
+    ``eV = phi0`` this one is larger by ``1.1 exp(A sqrt(phi0/2) (1 - 2.83/2.96))`` (measured
+    here at phi0 = 2 eV, m* = 0.5: 1.5 for s = 1 nm, 2.1 for 2 nm, 5.5 for 5 nm). The
+    direct-tunnelling declaration therefore does not switch to it; it refuses ``eV > phi0``
+    (the high-field data are the Fowler-Nordheim mechanism's domain), so no sampler crosses
+    the seam.
+    """
+    v = np.asarray(voltage_V, dtype=float)
+    phi0 = np.asarray(barrier_height_eV, dtype=float)
+    field = v / np.asarray(thickness_nm, dtype=float)  # V/nm
+    # 8 pi sqrt(2 m*) phi0^1.5/(2.96 h e F) = (3/2.96) b sqrt(m*) phi0^1.5/F (b: FN constant)
+    exponent = 3.0 / 2.96 * fowler_nordheim_slope_V_per_nm(phi0, effective_mass_ratio) / field
+    ratio = 1.0 + 2.0 * v / phi0
+    prefactor = 2.2 * FN_A_A_EV_PER_V2 / phi0 * field**2 * _PER_NM2_TO_PER_M2
+    return prefactor * (np.exp(-exponent) - ratio * np.exp(-exponent * np.sqrt(ratio)))
 
 
 def simmons_low_bias_current_density_A_per_m2(
@@ -253,7 +322,9 @@ def simmons_thermal_coefficient(
     -------
     ndarray
         ``B`` in 1/eV, with ``phibar`` and ``A`` at the given bias (Simmons 1964,
-        J. Appl. Phys. 35, 2655; from memory).
+        J. Appl. Phys. 35, 2655; the form of B quoted from memory and confirmed by the
+        physics sheet's independent check, B = 7.24525 1/eV at phi0 = 2 eV, s = 2 nm,
+        m* = m0: the derivative of the WKB exponent A sqrt(phi) with respect to energy).
     """
     mean_barrier, width_nm = simmons_mean_barrier(voltage_V, barrier_height_eV, thickness_nm)
     return simmons_decay_coefficient(width_nm, effective_mass_ratio) / (2 * np.sqrt(mean_barrier))
@@ -278,8 +349,8 @@ def simmons_thermal_factor(
     Returns
     -------
     ndarray
-        The factor, held at its ``x = 0.9 pi`` value beyond that (see
-        :func:`thermal_smearing_factor`). Simmons, J. Appl. Phys. 35, 2655 (1964).
+        The factor (Simmons, J. Appl. Phys. 35, 2655 (1964)); NaN from its pole at
+        ``x = pi`` on (see :func:`thermal_smearing_factor`). Trusted for ``x <= 1`` only.
     """
     coefficient = simmons_thermal_coefficient(
         voltage_V, barrier_height_eV, thickness_nm, effective_mass_ratio
@@ -355,8 +426,11 @@ def fowler_nordheim_current_density_A_per_m2(
 
     Notes
     -----
-    Lenzlinger & Snow, J. Appl. Phys. 40, 278 (1969) (from memory), pinned here with the
-    ``m0/m*`` prefactor (some reviews drop it):
+    Lenzlinger & Snow, J. Appl. Phys. 40, 278 (1969) (attribution and equation number from
+    memory), pinned here with the ``m0/m*`` prefactor, as the MOS form is usually reproduced
+    (prefactor ``q^3 m0/(8 pi h m_ox phi_B)``, whose ``m0/m_ox`` factor was checked on a
+    secondary reproduction; some reviews drop it). Validity: a triangular barrier,
+    ``eV > phi`` (the declaration refuses lower biases):
 
     .. math::
 
@@ -396,7 +470,12 @@ def murphy_good_thermal_coefficient(
     Returns
     -------
     ndarray
-        ``c = 1/d_F`` in 1/eV (Murphy & Good, Phys. Rev. 102, 1464 (1956); from memory).
+        ``c = 1/d_F`` in 1/eV: the decay width of the elementary barrier is
+        ``d_F = 2F/(3 b sqrt(phi))`` = 0.09759678 eV at phi = 1 eV, F = 1 V/nm (Forbes'
+        decay width, reproduced in the "Field electron emission" article, its eq. 14, checked),
+        scaled by ``sqrt(m*/m0)`` for the tunnelling mass and by ``t(f)`` for the image-rounded
+        barrier (Murphy & Good, Phys. Rev. 102, 1464 (1956), whose thermal factor
+        ``pi c kT/sin(pi c kT)`` uses it).
     """
     phi = np.asarray(barrier_height_eV, dtype=float)
     return (
@@ -428,8 +507,8 @@ def murphy_good_thermal_factor(
     Returns
     -------
     ndarray
-        The factor, held at its ``pi c kT = 0.9 pi`` value beyond that (see
-        :func:`thermal_smearing_factor`).
+        The factor; NaN from its pole at ``pi c kT = pi`` on (see
+        :func:`thermal_smearing_factor`). Trusted for ``pi c kT <= 1`` only.
     """
     c = murphy_good_thermal_coefficient(
         field_V_per_nm, barrier_height_eV, effective_mass_ratio, t_value
@@ -459,19 +538,29 @@ def schottky_nordheim_parameter(
     return _SCHOTTKY_CONSTANT_EV_NM * np.asarray(field_V_per_nm, dtype=float) / phi**2
 
 
+def _scaled_field_in_range(f: ArrayLike) -> FloatArray:
+    """``f`` as floats, NaN outside the Schottky-Nordheim range ``0 <= f <= 1``."""
+    f = np.asarray(f, dtype=float)
+    return np.where((f >= 0) & (f <= 1), f, np.nan)
+
+
 def forbes_v(f: ArrayLike) -> FloatArray:
     """Forbes' approximation ``v(f) = 1 - f + (f/6) ln f`` of the SN barrier function.
 
-    Forbes, Appl. Phys. Lett. 89, 113122 (2006); stated accuracy about 0.3 % for 0 <= f <= 1.
+    Forbes, Appl. Phys. Lett. 89, 113122 (2006); stated accuracy about 0.3 % for 0 <= f <= 1,
+    the range of the Schottky-Nordheim barrier (f = 1 removes it): NaN outside that range.
     ``v(0) = 1``.
     """
-    f = np.asarray(f, dtype=float)
+    f = _scaled_field_in_range(f)
     return 1.0 - f + xlogy(f, f) / 6.0
 
 
 def forbes_t(f: ArrayLike) -> FloatArray:
-    """Forbes' approximation ``t(f) = 1 + f/9 - (f/18) ln f`` (Forbes 2006). ``t(0) = 1``."""
-    f = np.asarray(f, dtype=float)
+    """Forbes' approximation ``t(f) = 1 + f/9 - (f/18) ln f`` (Forbes 2006). ``t(0) = 1``.
+
+    Defined for 0 <= f <= 1 like :func:`forbes_v`; NaN outside.
+    """
+    f = _scaled_field_in_range(f)
     return 1.0 + f / 9.0 - xlogy(f, f) / 18.0
 
 
@@ -614,6 +703,113 @@ LOW_BIAS_CONDUCTANCE_PLOT = StraightenedPlot(
 
 
 # --------------------------------------------------------------------------------------
+# Validity domains
+# --------------------------------------------------------------------------------------
+
+
+def _bias_over_barrier(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    barrier_height_eV: FloatArray, thickness_nm: FloatArray, effective_mass_ratio: FloatArray,
+) -> FloatArray:
+    """``eV/phi``: below 1 the tilted barrier is a trapezoid, above 1 a triangle."""
+    return voltage_V / barrier_height_eV
+
+
+def _simmons_exponent(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    barrier_height_eV: FloatArray, thickness_nm: FloatArray, effective_mass_ratio: FloatArray,
+) -> FloatArray:
+    """Simmons' exponent ``A sqrt(phibar)`` at the bias."""
+    mean_barrier, width_nm = simmons_mean_barrier(voltage_V, barrier_height_eV, thickness_nm)
+    return simmons_decay_coefficient(width_nm, effective_mass_ratio) * np.sqrt(mean_barrier)
+
+
+def _simmons_thermal_argument(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    barrier_height_eV: FloatArray, thickness_nm: FloatArray, effective_mass_ratio: FloatArray,
+) -> FloatArray:
+    """``pi B kT`` of the Simmons (1964) factor."""
+    coefficient = simmons_thermal_coefficient(
+        voltage_V, barrier_height_eV, thickness_nm, effective_mass_ratio
+    )
+    return np.pi * coefficient * BOLTZMANN_EV * temperature_K
+
+
+def _fowler_nordheim_thermal_argument(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    barrier_height_eV: FloatArray, thickness_nm: FloatArray, effective_mass_ratio: FloatArray,
+) -> FloatArray:
+    """``pi c kT`` of the Murphy-Good (1956) factor at the field ``V/d``."""
+    c = murphy_good_thermal_coefficient(
+        voltage_V / thickness_nm, barrier_height_eV, effective_mass_ratio
+    )
+    return np.pi * c * BOLTZMANN_EV * temperature_K
+
+
+def _thermal_argument_condition(evaluate: QuantityFormula, source: str) -> ValidityCondition:
+    """The ``pi c kT <= 1`` condition of a tunnelling thermal factor (see THERMAL_ARGUMENT_LIMIT)."""
+    return ValidityCondition(
+        id="thermal_factor_argument",
+        quantity="pi c kT (argument of the thermal factor x/sin x)",
+        limit=THERMAL_ARGUMENT_LIMIT,
+        bound="upper",
+        reason=(
+            f"the thermal factor ({source}) expands the tunnelling exponent about the Fermi "
+            "level and holds only while it is a small correction (x/sin x <= 1.19); beyond it "
+            "the current is carried by hot electrons the formula does not describe"
+        ),
+        evaluate=evaluate,
+    )
+
+
+#: Where Simmons' intermediate-voltage formula with the Simmons (1964) factor holds.
+DIRECT_TUNNELLING_VALIDITY = (
+    ValidityCondition(
+        id="bias_below_barrier",
+        quantity="eV/phi0 (bias over barrier height)",
+        limit=1.0,
+        bound="upper",
+        reason=(
+            "Simmons' intermediate-voltage formula (1963) holds for eV < phi0; above it the "
+            "barrier is triangular and his high-voltage form, which does not join this one, "
+            "applies: those data belong to Fowler-Nordheim tunnelling"
+        ),
+        evaluate=_bias_over_barrier,
+    ),
+    ValidityCondition(
+        id="opaque_barrier",
+        quantity="A sqrt(phibar) (Simmons exponent)",
+        limit=SIMMONS_MIN_EXPONENT,
+        bound="lower",
+        reason=(
+            "Simmons' closed form (1963) needs an opaque barrier, A sqrt(phibar) >> 1; for a "
+            "nearly transparent one its two terms cancel and the current is no longer monotonic "
+            "in the bias"
+        ),
+        evaluate=_simmons_exponent,
+    ),
+    _thermal_argument_condition(_simmons_thermal_argument, "Simmons 1964"),
+)
+
+#: Where the triangular-barrier FN formula with the Murphy-Good factor holds.
+FOWLER_NORDHEIM_VALIDITY = (
+    ValidityCondition(
+        id="triangular_barrier",
+        quantity="eV/phi (bias over barrier height)",
+        limit=1.0,
+        bound="lower",
+        reason=(
+            "the Fowler-Nordheim formula assumes a triangular barrier, i.e. a bias above the "
+            "barrier height (Lenzlinger & Snow 1969); below it electrons tunnel through the "
+            "whole film (direct tunnelling)"
+        ),
+        evaluate=_bias_over_barrier,
+    ),
+    _thermal_argument_condition(_fowler_nordheim_thermal_argument, "Murphy & Good 1956"),
+)
+
+
+# --------------------------------------------------------------------------------------
 # Declarations
 # --------------------------------------------------------------------------------------
 
@@ -649,8 +845,8 @@ DIRECT_TUNNELLING = Mechanism(
     formula=(
         "J = e/(2 pi h ds^2) [phibar exp(-A sqrt(phibar))"
         " - (phibar + eV) exp(-A sqrt(phibar + eV))] * x/sin(x);"
-        "  A = 4 pi ds sqrt(2 m*)/h,  x = pi kT A/(2 sqrt(phibar));"
-        "  eV < phi0: phibar = phi0 - eV/2, ds = d;  eV >= phi0: phibar = phi0/2, ds = d phi0/(eV)"
+        "  A = 4 pi d sqrt(2 m*)/h,  x = pi kT A/(2 sqrt(phibar)),  phibar = phi0 - eV/2,  ds = d;"
+        "  valid for eV < phi0, A sqrt(phibar) >= 4, x <= 1"
     ),
     source=(
         "Simmons, J. Appl. Phys. 34, 1793 (1963) (rectangular barrier, no image force); "
@@ -668,6 +864,7 @@ DIRECT_TUNNELLING = Mechanism(
             "Dynes & Rowell 1970)"),
     ),
     temperature_dependence="nearly none: rises a few per cent from 0 to 300 K (x/sin x factor)",
+    validity=DIRECT_TUNNELLING_VALIDITY,
 )
 
 FOWLER_NORDHEIM = Mechanism(
@@ -677,7 +874,7 @@ FOWLER_NORDHEIM = Mechanism(
     formula=(
         "J = (a/phi)(m0/m*) E^2 exp(-b sqrt(m*/m0) phi^(3/2)/E) * x/sin(x);  E = V/d,"
         "  x = pi c kT,  c = (3/2) b sqrt(m*/m0) phi^(1/2)/E,  a = e^3/(8 pi h),"
-        "  b = (8 pi/3) sqrt(2 m0)/(e h)"
+        "  b = (8 pi/3) sqrt(2 m0)/(e h);  valid for eV > phi, x <= 1"
     ),
     source=(
         "Lenzlinger & Snow, J. Appl. Phys. 40, 278 (1969) (with the m0/m* prefactor); "
@@ -701,4 +898,5 @@ FOWLER_NORDHEIM = Mechanism(
         TunnellingRegime("fowler_nordheim"),
     ),
     temperature_dependence="weak: rises slowly with temperature (pi c kT/sin(pi c kT) factor)",
+    validity=FOWLER_NORDHEIM_VALIDITY,
 )

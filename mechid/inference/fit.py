@@ -11,6 +11,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from mechid.catalogue.base import Mechanism, ParameterHints
+from mechid.catalogue.validity import FormulaNotApplicableError, not_applicable_message
 from mechid.device import Device
 from mechid.errors import ConvergenceWarning
 from mechid.inference.adequacy import AdequacyCheck, check_adequacy
@@ -113,6 +114,8 @@ def fit_mechanism(
     priors = mechanism_priors(mechanism, device, current_A)
     target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
     modes = find_modes(target, rng, hints, search=search)
+    if not np.isfinite(modes[0].log_posterior):
+        raise _not_applicable(mechanism, target, device, rng)
     start = modes[0].point
     pilot = pilot_reference(target, [m.point for m in modes], *target.bounds, rng,
                             search=search, log_posteriors=[m.log_posterior for m in modes])
@@ -153,6 +156,15 @@ def _with_pilot(evidence: EvidenceResult, pilot: PilotRun, multimodal: bool) -> 
         n_likelihood_calls=evidence.n_likelihood_calls + pilot.n_likelihood_calls,
         flags=tuple(flags),
     )
+
+
+def _not_applicable(mechanism: Mechanism, target: MechanismTarget, device: Device,
+                    rng: np.random.Generator, n_draws: int = 2000) -> FormulaNotApplicableError:
+    """The error for a mechanism whose validity domain refuses every prior draw on the data."""
+    physical = target.physical_values(target.sample_prior(rng, n_draws))
+    draws = {name: physical[name][:, 0] for name in mechanism.parameter_names}
+    return FormulaNotApplicableError(not_applicable_message(
+        mechanism, target.voltage_V, target.temperature_K, draws, device))
 
 
 def _mechanism_result(

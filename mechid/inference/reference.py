@@ -28,7 +28,7 @@ from many cheap draws and enters log r.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 
 import emcee
@@ -330,6 +330,22 @@ def pilot_reference(
                     int(sum(part[3] for part in parts)))
 
 
+def _pull_invalid_walkers(p0: NDArray, start: NDArray,
+                          log_prob: Callable[[NDArray], NDArray]) -> NDArray:
+    """Move starting walkers with log posterior -inf halfway to the mode, until none is left.
+
+    A mode next to the edge of a formula's validity domain (where the model is refused) puts
+    part of a Gaussian ball outside it; emcee must not start walkers there.
+    """
+    p0 = p0.copy()
+    for _ in range(40):
+        bad = ~np.isfinite(log_prob(p0))
+        if not bad.any():
+            break
+        p0[bad] = start + 0.5 * (p0[bad] - start)
+    return p0
+
+
 def _pilot_component(
     target: Target, start: NDArray, lower: NDArray, upper: NDArray, rng: np.random.Generator,
     n_steps: int, max_steps: int,
@@ -351,6 +367,7 @@ def _pilot_component(
             out[ok] = lp[ok] + target.log_likelihood(theta[ok])
         return np.where(np.isfinite(out), out, -np.inf)
 
+    p0 = _pull_invalid_walkers(p0, start, log_prob)
     sampler = emcee.EnsembleSampler(
         walkers, d, log_prob, vectorize=True,
         # emcee 3.1.6's DESnookerMove does not use a unit vector (measured: posterior variances

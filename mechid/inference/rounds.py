@@ -31,7 +31,9 @@ from numpy.typing import NDArray
 
 from mechid.catalogue import get_mechanism
 from mechid.catalogue.base import ParameterHints
+from mechid.catalogue.validity import FormulaNotApplicableError
 from mechid.device import Device
+from mechid.errors import MechidWarning
 from mechid.inference.fit import MechanismFit, fit_mechanism
 from mechid.inference.likelihood import set_likelihood_threads
 from mechid.inference.settings import LadderSettings, SearchSettings
@@ -105,13 +107,16 @@ def fit_in_rounds(
     else:  # no extensions, so no far-below decisions: one round, no waiting between fits
         rounds = [list(jobs)]
     if workers <= 1 or len(jobs) <= 1:
-        return _fit_here(rounds, shared, progress)
-    return _fit_on_workers(rounds, shared, min(workers, ROUND_SIZE), progress)
+        fits = _fit_here(rounds, shared, progress)
+    else:
+        fits = _fit_on_workers(rounds, shared, min(workers, ROUND_SIZE), progress)
+    # A mechanism whose formula holds nowhere on these data is left out (warned in _fit).
+    return {mechanism_id: fit for mechanism_id, fit in fits.items() if fit is not None}
 
 
 def _fit_here(rounds: list[list[FitJob]], shared: _SharedInputs,
-              progress: ProgressHook | None) -> dict[str, MechanismFit]:
-    fits: dict[str, MechanismFit] = {}
+              progress: ProgressHook | None) -> dict[str, MechanismFit | None]:
+    fits: dict[str, MechanismFit | None] = {}
     leader: float | None = None
     for batch in rounds:
         for job in batch:
@@ -122,10 +127,10 @@ def _fit_here(rounds: list[list[FitJob]], shared: _SharedInputs,
 
 
 def _fit_on_workers(rounds: list[list[FitJob]], shared: _SharedInputs, workers: int,
-                    progress: ProgressHook | None) -> dict[str, MechanismFit]:
+                    progress: ProgressHook | None) -> dict[str, MechanismFit | None]:
     context = multiprocessing.get_context(_start_method())
     messages = context.Queue()
-    fits: dict[str, MechanismFit] = {}
+    fits: dict[str, MechanismFit | None] = {}
     leader: float | None = None
     with ProcessPoolExecutor(max_workers=workers, mp_context=context,
                              initializer=_start_worker, initargs=(shared, messages)) as pool:
@@ -162,16 +167,21 @@ def _is_macos() -> bool:
 
 
 def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
-         hook: Callable[[int, int], None] | None) -> MechanismFit:
-    return fit_mechanism(
-        get_mechanism(job.mechanism_id), shared.voltage_V, shared.temperature_K, shared.current_A,
-        shared.device, shared.ladder, job.rng, hints=job.hints, progress=hook,
-        search=shared.search, leader_log_evidence=leader,
-    )
+         hook: Callable[[int, int], None] | None) -> MechanismFit | None:
+    """The fit, or None (with a MechidWarning saying why) when the formula holds nowhere."""
+    try:
+        return fit_mechanism(
+            get_mechanism(job.mechanism_id), shared.voltage_V, shared.temperature_K,
+            shared.current_A, shared.device, shared.ladder, job.rng, hints=job.hints,
+            progress=hook, search=shared.search, leader_log_evidence=leader,
+        )
+    except FormulaNotApplicableError as refused:
+        warnings.warn(str(refused), MechidWarning, stacklevel=2)
+        return None
 
 
-def _best(leader: float | None, fits: Iterable[MechanismFit]) -> float | None:
-    values = [fit.evidence.log_evidence for fit in fits]
+def _best(leader: float | None, fits: Iterable[MechanismFit | None]) -> float | None:
+    values = [fit.evidence.log_evidence for fit in fits if fit is not None]
     values = [v for v in values if np.isfinite(v)]
     if leader is not None:
         values.append(leader)
@@ -212,7 +222,8 @@ def _start_worker(shared: _SharedInputs, messages: Any) -> None:
     _WORKER["messages"] = messages
 
 
-def _fit_in_worker(job: FitJob, leader: float | None) -> tuple[MechanismFit, list[tuple[str, type]]]:
+def _fit_in_worker(job: FitJob, leader: float | None
+                   ) -> tuple[MechanismFit | None, list[tuple[str, type]]]:
     messages = _WORKER["messages"]
     label = f"fitting {job.mechanism_id}"
 

@@ -380,7 +380,7 @@ class TemperedLadder:
         picks = np.empty((n_rungs, n_walkers), dtype=int)
         picks[0] = np.arange(n_walkers)
         for k in range(1, n_rungs):
-            if len(usable) < n_walkers:  # nothing to weigh: plain prior draws (redrawn later)
+            if len(usable) == 0:  # nothing to weigh: plain prior draws (redrawn later)
                 picks[k] = self.rng.choice(len(pool), size=n_walkers, replace=False)
                 continue
             log_weight = self.betas[k] * pool_like[usable]
