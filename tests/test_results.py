@@ -82,7 +82,8 @@ def test_verdict_bayes_factor_is_derived_from_its_logarithm():
                        ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=0.1,
                        strength="strong", resolved=True, fit_adequate=True, sentence="s")
 
-    assert verdict(math.log(20.0)).bayes_factor_vs_runner_up == pytest.approx(20.0, rel=1e-13)  # exp(log 20): a few ulp
+    # exp(log 20): a few ulp
+    assert verdict(math.log(20.0)).bayes_factor_vs_runner_up == pytest.approx(20.0, rel=1e-13)
     assert verdict(800.0).bayes_factor_vs_runner_up == math.inf  # written as null
     assert verdict(-800.0).bayes_factor_vs_runner_up == 0.0
     assert list(to_plain_json(verdict(1.0)))[:5] == [
