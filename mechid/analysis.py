@@ -256,7 +256,8 @@ def _not_fitted_sentence(n_fitted: int, not_fitted: tuple[NotFittedMechanism, ..
     probabilities are among the fitted ones only."""
     if not not_fitted:
         return ""
-    return (f" The probabilities are among the {n_fitted} mechanisms fitted; not fitted "
+    counted = f"{n_fitted} mechanism{'' if n_fitted == 1 else 's'}"
+    return (f" The probabilities are among the {counted} fitted; not fitted "
             "(formula outside its validity on these data): "
             + ", ".join(m.id for m in not_fitted) + ".")
 

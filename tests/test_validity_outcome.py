@@ -11,8 +11,10 @@ independently of mechid, so the data are known to need (or not need) the domain'
 
 from __future__ import annotations
 
+import html
 import io
 import json
+import re
 import warnings
 from pathlib import Path
 
@@ -25,6 +27,7 @@ from mechid.analysis import AnalysisSettings, run_analysis_full
 from mechid.catalogue import DIRECT_TUNNELLING, FOWLER_NORDHEIM, get_mechanism
 from mechid.data import IVSeries, read_series
 from mechid.device import Device, device_from_values, read_device_toml
+from mechid.errors import MechidWarning
 from mechid.inference.domain import DOMAIN_PULL_MARGIN, check_domain
 from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.priors import mechanism_priors
@@ -32,6 +35,7 @@ from mechid.inference.settings import QUICK_SEARCH
 from mechid.inference.start import find_modes
 from mechid.report import build_report_html
 from mechid.report.console import render_console
+from mechid.report.text import fmt
 from mechid.results import to_plain_json
 
 REFERENCE = Path(__file__).resolve().parents[1] / "reference_curves"
@@ -142,7 +146,7 @@ def test_a_mechanism_refused_everywhere_is_listed_as_not_fitted_with_its_reason(
     assert violation.fraction_of_draws == 1.0 and violation.requirement == "eV/phi0 <= 1"
     assert violation.extreme_value >= 10.0 / 5.0 and violation.at_voltage_V == 10.0
     assert result.verdict.n_fitted == 1
-    assert "among the 1 mechanisms fitted" in result.verdict.sentence
+    assert "among the 1 mechanism fitted" in result.verdict.sentence
     data = json.loads(json.dumps(to_plain_json(result), allow_nan=False))
     assert data["not_fitted"][0]["id"] == "direct_tunnelling"
     assert data["not_fitted"][0]["violations"][0]["requirement"] == "eV/phi0 <= 1"
@@ -161,6 +165,35 @@ def test_the_data_pulling_fn_outside_give_a_caution_in_result_console_and_report
     assert "Not fitted: formula outside its validity on these data" in text
     assert "direct_tunnelling: eV/phi0" in text
     assert "the data pull the fit outside" in text
-    html = build_report_html(run)
-    assert "Not fitted: formula outside its validity on these data" in html
-    assert "The data pull outside the formula's validity" in html
+    report = build_report_html(run)
+    assert "Not fitted: formula outside its validity on these data" in report
+    assert "The data pull outside the formula's validity" in report
+    # the numbers the new parts show are the JSON's, formatted as they say
+    data = to_plain_json(run.result)
+    tagged = [(path, spec, html.unescape(text)) for path, spec, text in re.findall(
+        r'<span data-json="([^"]+)" data-fmt="([^"]+)">([^<]*)</span>', report)
+        if path.startswith("not_fitted.") or ".validity." in path]
+    assert {path for path, _, _ in tagged} >= {"not_fitted.0.violations.0.extreme_value",
+                                               "mechanisms.0.validity.gain"}
+    for path, spec, text in tagged:
+        node = data
+        for part in path.split("."):
+            node = node[int(part)] if isinstance(node, list) else node[part]
+        assert text == fmt(node, spec), path
+
+
+def test_when_every_mechanism_asked_for_is_refused_the_outputs_say_so_not_screening_only():
+    # Direct tunnelling alone on 5.5-10 V data: eV/phi0 >= 5.5/5 = 1.1 for its whole prior.
+    device = Device(area_cm2=1e-4)
+    v, t, i = _bare_data(FOWLER_NORDHEIM, FN_TRUTH, FN_TEMPERATURES_K, FN_BIASES_V, device, 3)
+    settings = AnalysisSettings(mechanisms=("direct_tunnelling",), quick=True, workers=1)
+    with pytest.warns(MechidWarning, match="direct_tunnelling was not fitted"):
+        run = run_analysis_full(IVSeries(t, v, i), device, settings, seed=1)
+    assert run.result.mechanisms == () and run.result.verdict is None
+    assert [m.id for m in run.result.not_fitted] == ["direct_tunnelling"]
+    console = Console(record=True, width=200, file=io.StringIO())
+    render_console(run.result, console)
+    text = console.export_text()
+    assert "direct_tunnelling: eV/phi0" in text and "Screening only" not in text
+    report = build_report_html(run)
+    assert "No mechanism was fitted" in report and "Screening only" not in report

@@ -137,15 +137,16 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
         console.print(ranking)
     not_fitted = not_fitted_lines(data)
     if not_fitted:
-        console.print("[bold]Not fitted: formula outside its validity on these data[/bold] "
-                      "(the probabilities above are among the mechanisms fitted)")
+        console.print("[bold]Not fitted: formula outside its validity on these data[/bold]"
+                      + (" (the probabilities above are among the mechanisms fitted)"
+                         if data.get("mechanisms") else ""))
         for line in not_fitted:
             console.print(f"  - {escape(line)}")
     verdict = data.get("verdict")
     if verdict is not None:
         style = "bold" if verdict.get("fit_adequate") and verdict.get("resolved") else "bold yellow"
         console.print(f"[{style}]Verdict:[/{style}] {escape(str(verdict.get('sentence')))}")
-    elif not data.get("mechanisms"):
+    elif not data.get("mechanisms") and not not_fitted:
         best = (data.get("linearisation") or {}).get("best")
         console.print("Screening only (no Bayesian fit): "
                       + (f"the straightened plots favour {escape(str(best))}." if best

@@ -306,6 +306,10 @@ def _screening_verdict(data: Json) -> str:
     best = lin.get("best")
     text = ("Screening only: no Bayesian fit was run, so there is no posterior probability or "
             "Bayes factor. ")
+    if data.get("not_fitted"):
+        text = ("No mechanism was fitted: the formula of every mechanism asked for is outside "
+                "its validity on these data (see the ranking), so there is no posterior "
+                "probability or Bayes factor. ")
     if best:
         text += (f"The straightened plots favour {mechanism_name(best, data)} ({best}); treat "
                  "this as a first look and run the full analysis before quoting it.")
