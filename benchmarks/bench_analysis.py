@@ -25,6 +25,7 @@ from mechid.catalogue import get_mechanism
 from mechid.data import IVSeries, read_series
 from mechid.device import device_from_values, read_device_toml
 from mechid.errors import MechidWarning
+from mechid.inference.domain import check_domain
 from mechid.simulate import simulate_series
 
 ROOT = Path(__file__).resolve().parents[1] / "reference_curves"
@@ -49,6 +50,19 @@ def _report(name: str, run, truth: dict, wall: float) -> None:
         print(f"  {m.id:26s} {m.log_evidence:12.2f} {m.log_evidence_err:6.3f} "
               f"{fit.evidence.log_evidence_bridge:12.2f} {seconds:7.1f} {points / seconds / 1e6:6.1f} "
               f"{'yes' if m.fit_adequate else 'no ':3s}      {','.join(fit.evidence.flags)}")
+    _report_domain_checks(run)
+
+
+def _report_domain_checks(run) -> None:
+    """Cost and outcome of each fit's validity-domain check (repeated here to time it)."""
+    print(f"  {'validity check':26s} {'time s':>7s} {'sets':>6s} {'gain':>9s} pulls")
+    for m in run.result.mechanisms:
+        fit = run.fits[m.id]
+        began = time.perf_counter()
+        check = check_domain(fit.target, [fit.map_internal], np.random.default_rng(0))
+        seconds = time.perf_counter() - began
+        print(f"  {m.id:26s} {seconds:7.2f} {check.n_likelihood_calls:6d} {check.gain:9.1f} "
+              f"{'yes' if m.validity and m.validity.pulls else 'no'}")
 
 
 def typical_series() -> tuple[IVSeries, object]:

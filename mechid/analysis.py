@@ -23,7 +23,7 @@ from mechid.formatting import format_estimate
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
-from mechid.inference.rounds import FitJob, default_workers, fit_in_rounds
+from mechid.inference.rounds import FitJob, default_workers, fit_candidates_in_rounds
 from mechid.inference.settings import (
     FULL_LADDER,
     FULL_SEARCH,
@@ -32,7 +32,13 @@ from mechid.inference.settings import (
     LadderSettings,
     SearchSettings,
 )
-from mechid.results import AnalysisResult, MechanismResult, ParameterSummary, Verdict
+from mechid.results import (
+    AnalysisResult,
+    MechanismResult,
+    NotFittedMechanism,
+    ParameterSummary,
+    Verdict,
+)
 from mechid.screening import LinearisationResult, linearise
 
 ProgressHook = Callable[[str, int, int], None]
@@ -144,6 +150,7 @@ def run_analysis_full(
     lin = linearise(series, device)
     mechanisms = _selected_mechanisms(settings)
     fits: dict[str, MechanismFit] = {}
+    not_fitted: tuple[NotFittedMechanism, ...] = ()
     if not settings.screen_only:
         _check_area(device, mechanisms)
         master = np.random.default_rng(seed)
@@ -155,15 +162,17 @@ def run_analysis_full(
         jobs = sorted((FitJob(m.id, child, hints.get(m.id))
                        for m, child in zip(mechanisms, children, strict=True)),
                       key=lambda job: screening.get(job.mechanism_id, len(screening)))
-        fitted = fit_in_rounds(
+        outcome = fit_candidates_in_rounds(
             jobs, series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
             device, settings.ladder(), settings.search(),
             workers=settings.workers or default_workers(), progress=progress,
         )
-        # A mechanism whose formula holds nowhere on the data is absent (a warning says why).
-        fits = {m.id: fitted[m.id] for m in mechanisms if m.id in fitted}
+        # A mechanism whose formula holds nowhere on the data is listed as not fitted, why.
+        fits = {m.id: outcome.fits[m.id] for m in mechanisms if m.id in outcome.fits}
+        not_fitted = tuple(outcome.not_fitted[m.id] for m in mechanisms
+                           if m.id in outcome.not_fitted)
     results = _ranked_results(fits, settings)
-    verdict = _verdict(results) if results else None
+    verdict = _verdict(results, not_fitted) if results else None
     result = AnalysisResult(
         input={**series.summary(), "polarity": settings.polarity,
                "n_points_fitted": int(mask.sum())},
@@ -175,6 +184,7 @@ def run_analysis_full(
                   "wall_time_s": time.perf_counter() - started},
         cautions=tuple(cautions(series, device, results, verdict)),
         seed=seed,
+        not_fitted=not_fitted,
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
@@ -222,7 +232,8 @@ def _ranked_results(fits: dict[str, MechanismFit], settings: AnalysisSettings) -
     ]
 
 
-def _verdict(results: list[MechanismResult]) -> Verdict:
+def _verdict(results: list[MechanismResult],
+             not_fitted: tuple[NotFittedMechanism, ...] = ()) -> Verdict:
     best = results[0]
     runner = results[1] if len(results) > 1 else None
     ln_b = -runner.ln_bayes_factor_vs_best if runner else float("inf")
@@ -234,8 +245,21 @@ def _verdict(results: list[MechanismResult]) -> Verdict:
         ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=ln_b_err,
         runner_up=runner.id if runner else None, strength=strength, resolved=resolved,
         fit_adequate=best.fit_adequate,
-        sentence=verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved),
+        sentence=verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved)
+        + _not_fitted_sentence(len(results), not_fitted),
+        n_fitted=len(results),
     )
+
+
+def _not_fitted_sentence(n_fitted: int, not_fitted: tuple[NotFittedMechanism, ...]) -> str:
+    """Empty when every mechanism asked for was fitted; else who was left out, and that the
+    probabilities are among the fitted ones only."""
+    if not not_fitted:
+        return ""
+    counted = f"{n_fitted} mechanism{'' if n_fitted == 1 else 's'}"
+    return (f" The probabilities are among the {counted} fitted; not fitted "
+            "(formula outside its validity on these data): "
+            + ", ".join(m.id for m in not_fitted) + ".")
 
 
 def _format_parameter(name: str, summary: ParameterSummary) -> str:
@@ -299,4 +323,10 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
         flags = [flag for flag in r.sampling.flags if flag.caution]
         if flags and (verdict is None or r.id in (verdict.id, verdict.runner_up)):
             notes.append(f"{r.id}: " + "; ".join(flag.meaning for flag in flags))
+    # The leader and runner-up, like the sampler flags: a pull elsewhere does not change the
+    # headline (every fitted mechanism's check is in its JSON entry, "validity").
+    for r in results:
+        if (r.validity is not None and r.validity.pulls
+                and (verdict is None or r.id in (verdict.id, verdict.runner_up))):
+            notes.append(r.validity.caution(r.id))
     return notes

@@ -22,6 +22,7 @@ from mechid import __version__
 from mechid.inference.flags import SamplerFlag
 
 if TYPE_CHECKING:
+    from mechid.catalogue.validity import ValidityViolation
     from mechid.inference.adequacy import AdequacyCheck
     from mechid.inference.evidence import EvidenceResult
     from mechid.inference.priors import Prior
@@ -73,6 +74,72 @@ class SamplingSummary:
 
 
 @dataclass(frozen=True)
+class DomainCheck:
+    """Do the data pull a fit against its formula's validity domain? (the contract's ``"validity"``)
+
+    The fit only uses parameters inside the domain (:mod:`mechid.catalogue.validity`). This
+    record compares the best log posterior found inside it with the best found by a short
+    search of the bare formula (validity not enforced) started from the fit's modes.
+
+    Attributes
+    ----------
+    log_posterior_inside : float
+        Best log posterior among the valid points (the modes and the search's end points).
+    log_posterior_outside : float
+        Best log posterior of the bare formula at a point outside the domain (NaN when the
+        search found none).
+    gain : float
+        ``log_posterior_outside - log_posterior_inside`` (NaN when nothing was outside).
+    margin : float
+        The gain above which the data are said to pull outside (``pulls``).
+    pulls : bool
+        True when ``gain > margin``: the data would need parameters outside the domain.
+    parameters_outside : dict
+        The best point outside the domain, physical units (empty when none).
+    violations : tuple of ValidityViolation
+        The conditions that point breaks, each with the value it needs.
+    n_likelihood_calls : int
+        Parameter sets evaluated by the check.
+    """
+
+    log_posterior_inside: float
+    log_posterior_outside: float
+    gain: float
+    margin: float
+    pulls: bool
+    parameters_outside: dict[str, float]
+    violations: tuple[ValidityViolation, ...]
+    n_likelihood_calls: int
+
+    def caution(self, mechanism_id: str) -> str:
+        """A plain sentence for the cautions: which condition the data pull across, and how far."""
+        needs = "; ".join(
+            f"{v.quantity} = {v.extreme_value:.3g} at {v.at_voltage_V:g} V, "
+            f"{v.at_temperature_K:g} K, where the formula holds only for {v.requirement}"
+            for v in self.violations)
+        return (f"{mechanism_id}: the data pull the fit outside its formula's validity: the "
+                f"bare formula fits {self.gain:.0f} nats (log posterior) better with {needs}; "
+                "the fitted values are the best the formula allows inside its domain, "
+                "not a description of these data")
+
+
+@dataclass(frozen=True)
+class NotFittedMechanism:
+    """A mechanism left out of the comparison: its formula holds nowhere on these data.
+
+    ``violations`` (from :func:`mechid.catalogue.validity.validity_violations` over prior
+    draws) name each failing condition in plain words with the most extreme value the
+    draws needed; ``reason`` is the whole explanation in one sentence.
+    """
+
+    id: str
+    family: str
+    name: str
+    reason: str
+    violations: tuple[ValidityViolation, ...]
+
+
+@dataclass(frozen=True)
 class MechanismResult:
     """Everything learned about one mechanism from the joint fit (built once, never changed).
 
@@ -102,6 +169,7 @@ class MechanismResult:
     correlations: dict[str, Any]
     evidence: EvidenceResult
     sampling: SamplingSummary
+    validity: DomainCheck | None = None
     # Posterior draws in physical units (not serialised into the JSON; see --samples).
     draws: dict[str, NDArray] = field(default_factory=dict, repr=False, compare=False,
                                       metadata=NOT_IN_JSON)
@@ -134,6 +202,9 @@ class Verdict:
     resolved: bool
     fit_adequate: bool
     sentence: str
+    #: How many mechanisms were fitted: the probability is among these (the rest, if any,
+    #: are in ``AnalysisResult.not_fitted``).
+    n_fitted: int | None = None
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "bayes_factor_vs_runner_up",
@@ -154,6 +225,8 @@ class AnalysisResult:
     mechanisms: tuple[MechanismResult, ...]
     verdict: Verdict | None
     cautions: tuple[str, ...]
+    #: Mechanisms asked for but not fitted (formula outside its validity on these data).
+    not_fitted: tuple[NotFittedMechanism, ...] = ()
 
     def mechanism(self, mechanism_id: str) -> MechanismResult:
         """The result for one mechanism id."""

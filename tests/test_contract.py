@@ -114,7 +114,8 @@ def test_document_lists_every_mechanism_key(result):
 
 @pytest.mark.parametrize("path", ["input", "device", "verdict", "linearisation",
                                   "mechanisms/adequacy", "mechanisms/sampling",
-                                  "mechanisms/correlations", "mechanisms/priors"])
+                                  "mechanisms/correlations", "mechanisms/priors",
+                                  "mechanisms/validity"])
 def test_document_lists_the_keys_of_nested_objects(result, path):
     block = _doc_block()
     if path.startswith("mechanisms/"):
@@ -130,6 +131,28 @@ def test_document_lists_the_keys_of_nested_objects(result, path):
         items = value if isinstance(value, list) else [value]
         for item in items:
             assert set(item) <= documented, (path, sorted(set(item) - documented))
+
+
+def test_document_lists_the_keys_of_a_mechanism_not_fitted():
+    # Direct tunnelling on 6-10 V data: every barrier of its prior (<= 5 eV) is below eV, so
+    # the record lists "bias_below_barrier" (the contract run fits no refused mechanism).
+    import numpy as np
+
+    from mechid.catalogue import DIRECT_TUNNELLING
+    from mechid.catalogue.validity import validity_violations
+    from mechid.device import Device
+    from mechid.results import NotFittedMechanism, to_plain_json
+
+    draws = {"barrier_height_eV": np.array([1.0, 4.9]), "thickness_nm": np.array([2.0, 2.0]),
+             "effective_mass_ratio": np.array([0.5, 0.5])}
+    found = validity_violations(DIRECT_TUNNELLING, np.array([6.0, 10.0]), np.full(2, 77.0),
+                                draws, Device(area_cm2=1e-4))
+    entry = to_plain_json(NotFittedMechanism(
+        id="direct_tunnelling", family="tunnelling", name="direct tunnelling", reason="why",
+        violations=found))
+    section = _section(_doc_block(), "not_fitted", "[", indent=2)
+    assert set(entry) | set(entry["violations"][0]) <= _listed(section)
+    assert set(entry["violations"][0]) == _listed(_section(section, "violations", "["))
 
 
 def test_document_lists_linearisation_entry_keys(result):

@@ -239,8 +239,13 @@ class FormulaNotApplicableError(MechidError):
     """A mechanism's formula holds nowhere on the data for any parameter set tried.
 
     Raised by the fit when every prior draw is refused by the validity domain; the message
-    names the conditions that fail (from :func:`validity_violations`).
+    names the conditions that fail, and ``violations`` holds them as records (from
+    :func:`validity_violations`) for the result to list the mechanism as not fitted.
     """
+
+    def __init__(self, message: str, violations: tuple[ValidityViolation, ...] = ()) -> None:
+        super().__init__(message)
+        self.violations = violations
 
 
 def not_applicable_message(
@@ -253,6 +258,12 @@ def not_applicable_message(
     """Why ``mechanism`` cannot describe these data: one sentence per failing condition."""
     n_draws = len(np.ravel(next(iter(draws.values())))) if draws else 0
     found = validity_violations(mechanism, voltage_V, temperature_K, draws, device)
+    return not_applicable_text(mechanism.id, n_draws, found)
+
+
+def not_applicable_text(mechanism_id: str, n_draws: int,
+                        found: tuple[ValidityViolation, ...]) -> str:
+    """The sentence of :func:`not_applicable_message` from violations already computed."""
     reasons = "; ".join(v.message() for v in found) or "its formula is not finite there"
-    return (f"{mechanism.id} was not fitted: none of {n_draws} prior draws is inside its "
+    return (f"{mechanism_id} was not fitted: none of {n_draws} prior draws is inside its "
             f"formula's validity domain on these data. {reasons}")

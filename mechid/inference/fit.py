@@ -11,10 +11,15 @@ import numpy as np
 from numpy.typing import NDArray
 
 from mechid.catalogue.base import Mechanism, ParameterHints
-from mechid.catalogue.validity import FormulaNotApplicableError, not_applicable_message
+from mechid.catalogue.validity import (
+    FormulaNotApplicableError,
+    not_applicable_text,
+    validity_violations,
+)
 from mechid.device import Device
 from mechid.errors import ConvergenceWarning
 from mechid.inference.adequacy import AdequacyCheck, check_adequacy
+from mechid.inference.domain import check_domain
 from mechid.inference.evidence import EvidenceResult, estimate_evidence
 from mechid.inference.flags import FAR_BELOW_MARGIN, SamplerFlag
 from mechid.inference.likelihood import MechanismTarget
@@ -25,6 +30,7 @@ from mechid.inference.settings import LadderSettings, SearchSettings
 from mechid.inference.start import find_modes
 from mechid.inference.tempering import LadderRun
 from mechid.results import (
+    DomainCheck,
     MechanismResult,
     ParameterSummary,
     SamplingSummary,
@@ -132,7 +138,9 @@ def fit_mechanism(
     evidence = _with_pilot(evidence, pilot, multimodal=len(modes) > 1)
     draws = posterior_draws(run)
     adequacy = check_adequacy(target, draws, rng)
-    result = _mechanism_result(mechanism, target, evidence, draws, start, adequacy)
+    # Last use of rng, after the sampling: the fit's numbers do not depend on the check.
+    domain = check_domain(target, [m.point for m in modes], rng)
+    result = _mechanism_result(mechanism, target, evidence, draws, start, adequacy, domain)
     return MechanismFit(target, run, evidence, draws, start, adequacy, result,
                         posterior_predictive(target, draws))
 
@@ -163,8 +171,8 @@ def _not_applicable(mechanism: Mechanism, target: MechanismTarget, device: Devic
     """The error for a mechanism whose validity domain refuses every prior draw on the data."""
     physical = target.physical_values(target.sample_prior(rng, n_draws))
     draws = {name: physical[name][:, 0] for name in mechanism.parameter_names}
-    return FormulaNotApplicableError(not_applicable_message(
-        mechanism, target.voltage_V, target.temperature_K, draws, device))
+    found = validity_violations(mechanism, target.voltage_V, target.temperature_K, draws, device)
+    return FormulaNotApplicableError(not_applicable_text(mechanism.id, n_draws, found), found)
 
 
 def _mechanism_result(
@@ -174,6 +182,7 @@ def _mechanism_result(
     draws: NDArray,
     start: NDArray,
     adequacy: AdequacyCheck,
+    domain: DomainCheck,
 ) -> MechanismResult:
     physical = target.physical_values(draws)
     best = target.physical_values(start[None, :])
@@ -199,6 +208,7 @@ def _mechanism_result(
         correlations=_correlations(target.names, draws),
         evidence=evidence,
         sampling=_sampling_summary(evidence, draws),
+        validity=domain,
         draws=samples,
     )
 

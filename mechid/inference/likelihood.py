@@ -54,6 +54,10 @@ class MechanismTarget:
         Device description (area for density formulas).
     priors : tuple of Prior
         One per mechanism parameter, then the two noise parameters, in that order.
+    enforce_validity : bool, optional
+        True (what fits use): the model is NaN, so the likelihood -inf, outside the
+        formula's validity domain. False: the bare formula (the domain check of
+        :mod:`mechid.inference.domain` only).
     """
 
     mechanism: Mechanism
@@ -62,6 +66,7 @@ class MechanismTarget:
     current_A: NDArray
     device: Device
     priors: tuple[Prior, ...]
+    enforce_validity: bool = True
     free: tuple[Prior, ...] = field(init=False)
 
     def __post_init__(self) -> None:
@@ -124,7 +129,8 @@ class MechanismTarget:
         """|I| at each distinct (|V|, T) pair, shape ``(m, pairs)``, from physical values."""
         physical = {name: values[name] for name in self.mechanism.parameter_names}
         return self.mechanism.current(
-            self._unique_abs_voltage, self._unique_temperature, physical, self.device
+            self._unique_abs_voltage, self._unique_temperature, physical, self.device,
+            enforce_validity=self.enforce_validity,
         )
 
     def model_current(self, theta: NDArray) -> NDArray:

@@ -37,6 +37,7 @@ from mechid.errors import MechidWarning
 from mechid.inference.fit import MechanismFit, fit_mechanism
 from mechid.inference.likelihood import set_likelihood_threads
 from mechid.inference.settings import LadderSettings, SearchSettings
+from mechid.results import NotFittedMechanism
 
 #: Mechanisms fitted per round (the far-below threshold is updated between rounds).
 ROUND_SIZE = 2
@@ -65,12 +66,29 @@ class _SharedInputs:
     search: SearchSettings
 
 
+@dataclass(frozen=True)
+class RoundsOutcome:
+    """The fits by mechanism id, and the mechanisms whose formula holds nowhere on the data."""
+
+    fits: dict[str, MechanismFit]
+    not_fitted: dict[str, NotFittedMechanism]
+
+
+#: What one job gives: its fit, or why it was not fitted.
+_Outcome = MechanismFit | NotFittedMechanism
+
+
 def default_workers() -> int:
     """Worker processes used by default: one per core, at most :data:`ROUND_SIZE`."""
     return max(1, min(ROUND_SIZE, os.cpu_count() or 1))
 
 
-def fit_in_rounds(
+def fit_in_rounds(*args: Any, **kwargs: Any) -> dict[str, MechanismFit]:
+    """The fits of :func:`fit_candidates_in_rounds` (same arguments; the not fitted left out)."""
+    return fit_candidates_in_rounds(*args, **kwargs).fits
+
+
+def fit_candidates_in_rounds(
     jobs: Sequence[FitJob],
     voltage_V: NDArray,
     temperature_K: NDArray,
@@ -80,8 +98,8 @@ def fit_in_rounds(
     search: SearchSettings,
     workers: int = 1,
     progress: ProgressHook | None = None,
-) -> dict[str, MechanismFit]:
-    """Fit every job, ``ROUND_SIZE`` at a time, and return the fits keyed by mechanism id.
+) -> RoundsOutcome:
+    """Fit every job, ``ROUND_SIZE`` at a time; the fits and the mechanisms not fitted.
 
     Parameters
     ----------
@@ -99,6 +117,12 @@ def fit_in_rounds(
         Worker processes; 1 fits in this process. The numbers do not depend on it.
     progress : callable, optional
         ``progress(label, done, total)`` while sampling.
+
+    Returns
+    -------
+    RoundsOutcome
+        The fits keyed by mechanism id, and each mechanism whose formula holds nowhere on
+        these data with the conditions that fail (a MechidWarning says so too).
     """
     shared = _SharedInputs(np.asarray(voltage_V, float), np.asarray(temperature_K, float),
                            np.asarray(current_A, float), device, ladder, search)
@@ -110,13 +134,16 @@ def fit_in_rounds(
         fits = _fit_here(rounds, shared, progress)
     else:
         fits = _fit_on_workers(rounds, shared, min(workers, ROUND_SIZE), progress)
-    # A mechanism whose formula holds nowhere on these data is left out (warned in _fit).
-    return {mechanism_id: fit for mechanism_id, fit in fits.items() if fit is not None}
+    # A mechanism whose formula holds nowhere on these data is not fitted (warned in _fit).
+    return RoundsOutcome(
+        fits={k: fit for k, fit in fits.items() if isinstance(fit, MechanismFit)},
+        not_fitted={k: fit for k, fit in fits.items() if isinstance(fit, NotFittedMechanism)},
+    )
 
 
 def _fit_here(rounds: list[list[FitJob]], shared: _SharedInputs,
-              progress: ProgressHook | None) -> dict[str, MechanismFit | None]:
-    fits: dict[str, MechanismFit | None] = {}
+              progress: ProgressHook | None) -> dict[str, _Outcome]:
+    fits: dict[str, _Outcome] = {}
     leader: float | None = None
     for batch in rounds:
         for job in batch:
@@ -127,10 +154,10 @@ def _fit_here(rounds: list[list[FitJob]], shared: _SharedInputs,
 
 
 def _fit_on_workers(rounds: list[list[FitJob]], shared: _SharedInputs, workers: int,
-                    progress: ProgressHook | None) -> dict[str, MechanismFit | None]:
+                    progress: ProgressHook | None) -> dict[str, _Outcome]:
     context = multiprocessing.get_context(_start_method())
     messages = context.Queue()
-    fits: dict[str, MechanismFit | None] = {}
+    fits: dict[str, _Outcome] = {}
     leader: float | None = None
     with ProcessPoolExecutor(max_workers=workers, mp_context=context,
                              initializer=_start_worker, initargs=(shared, messages)) as pool:
@@ -167,21 +194,23 @@ def _is_macos() -> bool:
 
 
 def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
-         hook: Callable[[int, int], None] | None) -> MechanismFit | None:
-    """The fit, or None (with a MechidWarning saying why) when the formula holds nowhere."""
+         hook: Callable[[int, int], None] | None) -> _Outcome:
+    """The fit, or why not (also as a MechidWarning) when the formula holds nowhere."""
+    mechanism = get_mechanism(job.mechanism_id)
     try:
         return fit_mechanism(
-            get_mechanism(job.mechanism_id), shared.voltage_V, shared.temperature_K,
+            mechanism, shared.voltage_V, shared.temperature_K,
             shared.current_A, shared.device, shared.ladder, job.rng, hints=job.hints,
             progress=hook, search=shared.search, leader_log_evidence=leader,
         )
     except FormulaNotApplicableError as refused:
         warnings.warn(str(refused), MechidWarning, stacklevel=2)
-        return None
+        return NotFittedMechanism(id=mechanism.id, family=mechanism.family, name=mechanism.name,
+                                  reason=str(refused), violations=refused.violations)
 
 
-def _best(leader: float | None, fits: Iterable[MechanismFit | None]) -> float | None:
-    values = [fit.evidence.log_evidence for fit in fits if fit is not None]
+def _best(leader: float | None, fits: Iterable[_Outcome]) -> float | None:
+    values = [fit.evidence.log_evidence for fit in fits if isinstance(fit, MechanismFit)]
     values = [v for v in values if np.isfinite(v)]
     if leader is not None:
         values.append(leader)
@@ -223,7 +252,7 @@ def _start_worker(shared: _SharedInputs, messages: Any) -> None:
 
 
 def _fit_in_worker(job: FitJob, leader: float | None
-                   ) -> tuple[MechanismFit | None, list[tuple[str, type]]]:
+                   ) -> tuple[_Outcome, list[tuple[str, type]]]:
     messages = _WORKER["messages"]
     label = f"fitting {job.mechanism_id}"
 

@@ -3,7 +3,8 @@
 :func:`render_console` prints, in this order: the straightened-plot screening (one row per
 mechanism: key quantities read from the lines, checks passed/failed, screening rank), then,
 when mechanisms were fitted, the evidence ranking (ln Z ± error, probability, ln B against the
-leader, adequacy, key parameters as median [68 %]), the verdict sentence and the cautions.
+leader, adequacy, key parameters as median [68 %]), the mechanisms not fitted because their
+formula holds nowhere on the data, the verdict sentence and the cautions.
 It reads the plain-JSON form of the result, so every number printed equals the JSON.
 """
 
@@ -102,6 +103,19 @@ def ranking_table(data: Mapping[str, Any]) -> Table | None:
     return table
 
 
+def not_fitted_lines(data: Mapping[str, Any]) -> list[str]:
+    """One plain line per mechanism not fitted (formula outside its validity on these data)."""
+    lines = []
+    for entry in data.get("not_fitted") or []:
+        needs = "; ".join(
+            f"{v.get('quantity')} = {fmt(v.get('extreme_value'), '.3g')} at "
+            f"{fmt(v.get('at_voltage_V'), 'g')} V, {fmt(v.get('at_temperature_K'), 'g')} K "
+            f"(holds only for {v.get('requirement')})"
+            for v in entry.get("violations") or [])
+        lines.append(f"{entry.get('id')}: " + (needs or str(entry.get("reason"))))
+    return lines
+
+
 def render_console(result: AnalysisResult | Mapping[str, Any], console: Console) -> None:
     """Print the analysis summary to a rich console.
 
@@ -121,11 +135,18 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
     ranking = ranking_table(data)
     if ranking is not None:
         console.print(ranking)
+    not_fitted = not_fitted_lines(data)
+    if not_fitted:
+        console.print("[bold]Not fitted: formula outside its validity on these data[/bold]"
+                      + (" (the probabilities above are among the mechanisms fitted)"
+                         if data.get("mechanisms") else ""))
+        for line in not_fitted:
+            console.print(f"  - {escape(line)}")
     verdict = data.get("verdict")
     if verdict is not None:
         style = "bold" if verdict.get("fit_adequate") and verdict.get("resolved") else "bold yellow"
         console.print(f"[{style}]Verdict:[/{style}] {escape(str(verdict.get('sentence')))}")
-    elif not data.get("mechanisms"):
+    elif not data.get("mechanisms") and not not_fitted:
         best = (data.get("linearisation") or {}).get("best")
         console.print("Screening only (no Bayesian fit): "
                       + (f"the straightened plots favour {escape(str(best))}." if best

@@ -306,6 +306,10 @@ def _screening_verdict(data: Json) -> str:
     best = lin.get("best")
     text = ("Screening only: no Bayesian fit was run, so there is no posterior probability or "
             "Bayes factor. ")
+    if data.get("not_fitted"):
+        text = ("No mechanism was fitted: the formula of every mechanism asked for is outside "
+                "its validity on these data (see the ranking), so there is no posterior "
+                "probability or Bayes factor. ")
     if best:
         text += (f"The straightened plots favour {mechanism_name(best, data)} ({best}); treat "
                  "this as a first look and run the full analysis before quoting it.")
@@ -358,8 +362,32 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                           "parameters", "case against"], rows, numeric=(1, 2, 3),
                          row_classes=classes))
         out.append(figures.get("comparison_bayes_factors"))
+    out.append(_not_fitted_html(data))
     out.append(_screening_table(data))
     return "".join(out)
+
+
+def _not_fitted_html(data: Json) -> str:
+    """The mechanisms left out because their formula holds nowhere on these data (or "")."""
+    entries = data.get("not_fitted") or []
+    if not entries:
+        return ""
+    items = []
+    for k, entry in enumerate(entries):
+        needs = "; ".join(
+            f"{esc(v.get('quantity'))} = "
+            f"{num(v.get('extreme_value'), '.3g', f'not_fitted.{k}.violations.{j}.extreme_value')}"
+            f" at {esc(fmt(v.get('at_voltage_V'), 'g'))} V, "
+            f"{esc(fmt(v.get('at_temperature_K'), 'g'))} K, where it holds only for "
+            f"{esc(v.get('requirement'))} ({esc(v.get('reason'))})"
+            for j, v in enumerate(entry.get("violations") or []))
+        items.append(f"<li><b>{esc(entry.get('name'))}</b> ({esc(entry.get('id'))}): "
+                     f"{needs or esc(entry.get('reason'))}</li>")
+    return ("<p><b>Not fitted: formula outside its validity on these data:</b> no parameter "
+            "set of its prior keeps the formula within the conditions its source states, so it "
+            "takes no part in the comparison; the probabilities above are among the "
+            f"{len(data.get('mechanisms') or [])} mechanisms fitted.</p>"
+            f"<ul class='cautions'>{''.join(items)}</ul>")
 
 
 def _screening_table(data: Json) -> str:
@@ -509,6 +537,8 @@ def _mechanism_article(data: Json, mechanism_id: str, fitted: tuple[int, Json] |
         k, m = fitted
         out.append(f" · rank {k + 1} · posterior probability "
                    f"{num(m.get('probability'), '.3g', f'mechanisms.{k}.probability')}")
+    elif any(entry.get("id") == mechanism_id for entry in data.get("not_fitted") or []):
+        out.append(" · not fitted: formula outside its validity on these data (see the ranking)")
     else:
         out.append(" · screened only (not fitted in this run)")
     out.append(f"</p></header><code class='formula'>{esc(mechanism.formula)}</code>"
@@ -577,6 +607,7 @@ def _fit_block(data: Json, k: int, m: Json, figures: _Figures) -> str:
     flags = list(sampling.get("flags") or [])
     if flags:
         out.append(f"<p class='meta'>Sampler flags: {esc(', '.join(flags))}.</p>")
+    out.append(_domain_pull_html(m.get("validity") or {}, path))
     out.append(figures.get(f"{m['id']}_joint_fit"))
     reasons = adequacy.get("reasons") or []
     adequacy_rows = [
@@ -598,6 +629,20 @@ def _fit_block(data: Json, k: int, m: Json, figures: _Figures) -> str:
                + _parameter_table(m, path) + "</div></div>")
     out.append(figures.get(f"{m['id']}_posterior"))
     return "".join(out)
+
+
+def _domain_pull_html(validity: Json, path: str) -> str:
+    """A warning when the data pull the fit outside its formula's validity domain (or "")."""
+    if not validity.get("pulls"):
+        return ""
+    needs = "; ".join(f"{esc(v.get('quantity'))} = {esc(fmt(v.get('extreme_value'), '.3g'))} "
+                      f"(holds only for {esc(v.get('requirement'))})"
+                      for v in validity.get("violations") or [])
+    return ("<div class='against'><b>The data pull outside the formula's validity:</b> the "
+            "bare formula fits "
+            f"{num(validity.get('gain'), '.0f', f'{path}.validity.gain')} nats (log posterior) "
+            f"better with {needs}. The values below are the best the formula allows inside its "
+            "domain, not a description of these data.</div>")
 
 
 def _parameter_table(m: Json, path: str) -> str:
