@@ -19,7 +19,8 @@ from mechid.catalogue.base import Mechanism, ParameterHints
 from mechid.data import IVSeries
 from mechid.device import Device
 from mechid.errors import MechidError
-from mechid.formatting import format_estimate
+from mechid.formatting import format_estimate, format_probability
+from mechid.inference.adequacy import MAX_NOISE_RATIO, MIN_PREDICTIVE_P, AdequacyCheck
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
@@ -163,7 +164,7 @@ def run_analysis_full(
         # A mechanism whose formula holds nowhere on the data is absent (a warning says why).
         fits = {m.id: fitted[m.id] for m in mechanisms if m.id in fitted}
     results = _ranked_results(fits, settings)
-    verdict = _verdict(results) if results else None
+    verdict = _verdict(results, settings) if results else None
     result = AnalysisResult(
         input={**series.summary(), "polarity": settings.polarity,
                "n_points_fitted": int(mask.sum())},
@@ -222,20 +223,75 @@ def _ranked_results(fits: dict[str, MechanismFit], settings: AnalysisSettings) -
     ]
 
 
-def _verdict(results: list[MechanismResult]) -> Verdict:
+def _verdict(results: list[MechanismResult], settings: AnalysisSettings) -> Verdict:
     best = results[0]
     runner = results[1] if len(results) > 1 else None
     ln_b = -runner.ln_bayes_factor_vs_best if runner else float("inf")
     ln_b_err = runner.ln_bayes_factor_vs_best_err if runner else 0.0
     strength = kass_raftery_wording(ln_b) if runner else "only one mechanism fitted"
     resolved = runner is None or ln_b > 2 * ln_b_err
+    failing = failing_statistics(best.adequacy)
+    odds = prior_odds_text(settings.prior_odds)
+    headline = (INADEQUATE_HEADLINE if not best.fit_adequate
+                else f"most probable of the {len(results)} mechanisms fitted" if runner
+                else "the only mechanism fitted")
     return Verdict(
         id=best.id, family=best.family, probability=best.probability,
         ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=ln_b_err,
         runner_up=runner.id if runner else None, strength=strength, resolved=resolved,
-        fit_adequate=best.fit_adequate,
-        sentence=verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved),
+        fit_adequate=best.fit_adequate, n_candidates=len(results), prior_odds=odds,
+        headline=headline, failing_statistics=tuple(failing),
+        sentence=verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved,
+                                  n_candidates=len(results), prior_odds=odds),
     )
+
+
+#: The headline of a leader that fails its posterior predictive checks.
+INADEQUATE_HEADLINE = "best of the candidates; none describes the data well"
+
+
+def prior_odds_text(prior_odds: Mapping[str, float] | None) -> str:
+    """``"equal prior odds"`` or ``"the stated prior odds (a: 2, b: 1)"``."""
+    if not prior_odds:
+        return "equal prior odds"
+    return ("the stated prior odds ("
+            + ", ".join(f"{k}: {v:g}" for k, v in prior_odds.items())
+            + "; 1 for any mechanism not named)")
+
+
+def failing_statistics(adequacy: AdequacyCheck) -> list[str]:
+    """Each failed posterior predictive check: its statistic and what it means, in words.
+
+    The thresholds are those of :mod:`mechid.inference.adequacy` (predictive p-values below
+    ``MIN_PREDICTIVE_P``, a fitted-to-model-free noise ratio above ``MAX_NOISE_RATIO``).
+    """
+    failing = []
+    if adequacy.predictive_p_runs < MIN_PREDICTIVE_P:
+        failing.append(
+            f"residual runs: {adequacy.residual_runs} runs of same-sign residuals along the bias "
+            f"axis where about {adequacy.expected_runs:.0f} are expected (predictive "
+            f"{_p_value(adequacy.predictive_p_runs)}), so the model's curve shape is "
+            "systematically off")
+    if adequacy.predictive_p_chi_square < MIN_PREDICTIVE_P:
+        failing.append(
+            f"chi-square predictive {_p_value(adequacy.predictive_p_chi_square)}: the residuals "
+            "are larger than the fitted noise allows")
+    ratio = adequacy.noise_ratio
+    if ratio is not None and ratio > MAX_NOISE_RATIO:
+        failing.append(
+            f"fitted relative noise {adequacy.fitted_relative_noise:.2%} is {ratio:.1f} times the "
+            f"point-to-point scatter of the data ({adequacy.model_free_relative_noise:.2%}), so "
+            "the noise term absorbed a misfit and the reduced chi-square near 1 means nothing")
+    return failing
+
+
+def _p_value(p: float) -> str:
+    """``"p = 0.0043"``; a p-value of 0 (no replicate as extreme) as ``"p < 0.005"``."""
+    return f"p = {p:.2g}" if p > 0 else f"p < {REPLICATE_RESOLUTION:g}"
+
+
+#: Resolution of a predictive p-value from the adequacy check's 200 replicated data sets.
+REPLICATE_RESOLUTION = 1 / 200
 
 
 def _format_parameter(name: str, summary: ParameterSummary) -> str:
@@ -246,22 +302,43 @@ def _format_parameter(name: str, summary: ParameterSummary) -> str:
 
 
 def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b: float,
-                     ln_b_err: float, strength: str, resolved: bool) -> str:
-    """The headline in plain words, with the numbers of the run."""
+                     ln_b_err: float, strength: str, resolved: bool, *, n_candidates: int,
+                     prior_odds: str = "equal prior odds") -> str:
+    """The headline in plain words, with the numbers of the run.
+
+    It names the candidate set and the prior odds the probability is conditional on, shows
+    the probability as a bound near 0 or 1 (:func:`mechid.formatting.format_probability`),
+    and, when the leader fails its posterior predictive checks, says so first, with the
+    failing statistics, and gives no strength word: a Bayes factor between candidates that
+    all fail only orders them.
+    """
     physical = [k for k, s in best.parameters.items()
                 if not k.startswith("noise_") and not s.fixed]
     params = "; ".join(_format_parameter(k, best.parameters[k]) for k in physical)
-    text = (f"{best.name} ({best.id}) is the most probable mechanism, with posterior "
-            f"probability {best.probability:.3g}")
-    if runner is not None:
-        text += (f"; the Bayes factor against the runner-up, {runner.name}, is "
-                 f"ln B = {ln_b:.2f} ± {ln_b_err:.2f} ({strength} on the Kass & Raftery scale"
-                 + ("" if resolved else ", not resolved within the Monte Carlo error") + ")")
+    probability = format_probability(best.probability)
+    candidates = f"the {n_candidates} mechanisms fitted ({prior_odds})"
+    not_resolved = "" if resolved else ", not resolved within the Monte Carlo error"
+    if not best.fit_adequate:
+        text = (f"{INADEQUATE_HEADLINE[0].upper()}{INADEQUATE_HEADLINE[1:]}: among {candidates}, "
+                f"{best.name} ({best.id}) ranks first, but its fit fails the posterior "
+                "predictive checks: " + "; ".join(failing_statistics(best.adequacy)) + ".")
+        if runner is not None:
+            text += (f" Its posterior probability ({probability} among the candidates) and "
+                     f"ln B = {ln_b:.2f} ± {ln_b_err:.2f} against the runner-up, {runner.name}"
+                     f"{not_resolved}, only order candidates that all fail; they do not show "
+                     "that it is the conduction mechanism.")
+        text += f" Parameters of this inadequate fit: {params}." if params else ""
+        return text
+    if runner is None:
+        text = (f"{best.name} ({best.id}) is the only mechanism fitted, so no comparison was "
+                "made")
+    else:
+        text = (f"Among {candidates}, {best.name} ({best.id}) is the most probable, with "
+                f"posterior probability {probability} among the candidates; the Bayes factor "
+                f"against the runner-up, {runner.name}, is ln B = {ln_b:.2f} ± {ln_b_err:.2f} "
+                f"({strength} on the Kass & Raftery scale{not_resolved})")
     text += f". Parameters: {params}." if params else "."
-    text += (" The fit is adequate (posterior predictive checks passed)." if best.fit_adequate
-             else " But the fit is NOT adequate: " + "; ".join(best.adequacy.reasons)
-             + ", so no mechanism in the catalogue describes these data well.")
-    return text
+    return text + " The fit is adequate (posterior predictive checks passed)."
 
 
 def cautions(series: IVSeries, device: Device, results: list[MechanismResult],

@@ -50,3 +50,22 @@ def format_estimate(median: float, ci68: tuple[float, float], ci95: tuple[float,
     unit_text = "" if unit in ("", "1") else f" {unit}"
     return (f"{format_number(median, last)}{unit_text} (68 %: {format_interval(*ci68, last)}; "
             f"95 %: {format_interval(*ci95, last)})")
+
+
+#: Posterior probabilities closer than this to 0 or 1 are shown as a bound, never as 0 or 1.
+PROBABILITY_RESOLUTION = 1e-3
+
+
+def format_probability(probability: float) -> str:
+    """A posterior probability as ``"> 0.999"``, ``"< 0.001"`` or three significant digits.
+
+    A probability among a finite set of candidates is never exactly 0 or 1, and three digits
+    of 0.99996 would print "1"; the bounds say what is known without claiming certainty.
+    """
+    if not math.isfinite(probability):
+        return "n/a"
+    if probability > 1.0 - PROBABILITY_RESOLUTION:
+        return f"> {1.0 - PROBABILITY_RESOLUTION:g}"
+    if probability < PROBABILITY_RESOLUTION:
+        return f"< {PROBABILITY_RESOLUTION:g}"
+    return f"{probability:.3g}"

@@ -121,7 +121,13 @@ def _exp_or_zero(ln_value: float) -> float:
 
 @dataclass(frozen=True)
 class Verdict:
-    """The headline: the leading mechanism and how strongly the data prefer it."""
+    """The headline: the leading mechanism and how strongly the data prefer it.
+
+    ``probability`` is conditional on the candidate set (``n_candidates`` mechanisms fitted)
+    and on ``prior_odds``. ``strength`` words ln B alone (Kass & Raftery); the ``headline``
+    and ``sentence`` leave it out when the leader is not adequate, and ``failing_statistics``
+    then say which posterior predictive checks failed and what that means.
+    """
 
     id: str
     family: str
@@ -133,6 +139,10 @@ class Verdict:
     strength: str
     resolved: bool
     fit_adequate: bool
+    n_candidates: int
+    prior_odds: str
+    headline: str
+    failing_statistics: tuple[str, ...]
     sentence: str
 
     def __post_init__(self) -> None:

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import base64
 import csv
+import html
 import io
 import re
 import warnings
@@ -209,12 +210,12 @@ def test_verdict_numbers_equal_the_json(fitted_outputs: dict[str, Any]) -> None:
             assert f"mechanisms.0.parameters.{name}.{key}" in paths
     assert n_tagged > 20
     # the verdict sentence is the JSON's, verbatim (HTML-escaped)
-    escaped = verdict["sentence"].replace("&", "&amp;").replace("<", "&lt;")
+    escaped = html.escape(verdict["sentence"], quote=True)
     assert escaped in html_text
     # the numbers of the sentence are those of the JSON, in the same format
     assert f"ln B = {verdict['ln_bayes_factor_vs_runner_up']:.2f}" in verdict["sentence"]
-    assert f"probability {verdict['probability']:.3g}" in verdict["sentence"]
-    assert verdict["strength"] in html_text
+    assert f"probability {fmt(verdict['probability'], 'prob')} among" in verdict["sentence"]
+    assert (verdict["strength"] in html_text) is verdict["fit_adequate"]
 
 
 def test_parameter_format_matches_the_verdict_sentence(fitted_outputs: dict[str, Any]) -> None:

@@ -32,6 +32,7 @@ from typing import TYPE_CHECKING, Any
 from mechid.catalogue import get_mechanism
 from mechid.report.figures import DOUBLE_COLUMN_IN, ReportFigure, mechanism_order
 from mechid.report.text import (
+    PROBABILITY_SPEC,
     case_against,
     case_against_short,
     estimate_spec,
@@ -94,6 +95,7 @@ code, .formula { font-family: ui-monospace, "SFMono-Regular", Menlo, Consolas, "
                letter-spacing: 0.05em; }
 .tile .value { font-size: 1.25rem; font-weight: 650; }
 .tile .sub { font-size: 0.82rem; color: var(--muted); }
+.tile ul.failing { margin: 0.2rem 0 0; padding-left: 1.1rem; color: var(--ink); }
 .sentence { font-size: 0.95rem; }
 table { border-collapse: collapse; width: 100%; margin: 0.5rem 0 0.8rem; font-size: 0.85rem; }
 th, td { text-align: left; padding: 0.3rem 0.5rem; border-bottom: 1px solid var(--line);
@@ -245,6 +247,46 @@ def _toc(order: Sequence[str], data: Json) -> str:
             + f"<br>{mech_links}</nav>")
 
 
+def _probability_tile(data: Json, verdict: Json) -> tuple[str, str, str]:
+    n = verdict.get("n_candidates")
+    return ("Posterior probability",
+            num(verdict.get("probability"), PROBABILITY_SPEC, "verdict.probability"),
+            f"among the {esc(n)} mechanisms fitted; {esc(verdict.get('prior_odds'))}")
+
+
+def _runner_up_tile(verdict: Json) -> tuple[str, str, str]:
+    """ln B against the runner-up: with B and its strength word only for an adequate leader."""
+    ln_b = num(verdict.get("ln_bayes_factor_vs_runner_up"), ".2f",
+               "verdict.ln_bayes_factor_vs_runner_up")
+    value = (f"ln B = {ln_b} ± " + num(verdict.get("ln_bayes_factor_vs_runner_up_err"), ".2f",
+                                       "verdict.ln_bayes_factor_vs_runner_up_err"))
+    not_resolved = "" if verdict.get("resolved") else "; not resolved"
+    if not verdict.get("fit_adequate"):
+        return (f"Against runner-up ({esc(verdict['runner_up'])})", value,
+                "orders candidates that all fail their checks; not a finding" + not_resolved)
+    b_value = verdict.get("bayes_factor_vs_runner_up")
+    b_text = (f"B = {num(b_value, '.3g', 'verdict.bayes_factor_vs_runner_up')}"
+              if is_number(b_value) else "B beyond floating-point range")
+    return (f"Against runner-up ({esc(verdict['runner_up'])})", value,
+            f"{b_text}; <b>{esc(verdict.get('strength'))}</b> (Kass &amp; Raftery 1995)"
+            + not_resolved)
+
+
+def _adequacy_tile(verdict: Json, best: Json) -> tuple[str, str, str]:
+    """The adequacy badge; the failing statistics when the leader fails, not a reduced chi-square
+    that the noise term may have absorbed."""
+    badge_html = badge(verdict.get("fit_adequate"), "adequate", "not adequate")
+    failing = verdict.get("failing_statistics") or []
+    if not verdict.get("fit_adequate") and failing:
+        return ("Fit adequacy", badge_html,
+                "<ul class='failing'>" + "".join(f"<li>{esc(f)}</li>" for f in failing)
+                + "</ul>")
+    adequacy = best.get("adequacy") or {}
+    return ("Fit adequacy", badge_html,
+            "reduced χ² = " + num(adequacy.get("reduced_chi_square"), ".3g",
+                                  "mechanisms.0.adequacy.reduced_chi_square"))
+
+
 def _verdict_section(data: Json) -> str:
     verdict = data.get("verdict")
     mechanisms = data.get("mechanisms") or []
@@ -252,32 +294,10 @@ def _verdict_section(data: Json) -> str:
         return _screening_verdict(data)
     best = mechanisms[0]
     weak = not verdict.get("fit_adequate") or not verdict.get("resolved")
-    tiles = [
-        ("Posterior probability",
-         num(verdict.get("probability"), ".3g", "verdict.probability"),
-         "equal prior odds" if not (data.get("settings") or {}).get("prior_odds")
-         else "with the stated prior odds"),
-    ]
+    tiles = [_probability_tile(data, verdict)]
     if verdict.get("runner_up"):
-        ln_b = verdict.get("ln_bayes_factor_vs_runner_up")
-        b_value = verdict.get("bayes_factor_vs_runner_up")
-        b_text = (f"B = {num(b_value, '.3g', 'verdict.bayes_factor_vs_runner_up')}"
-                  if is_number(b_value) else "B beyond floating-point range")
-        tiles.append((
-            f"Against runner-up ({esc(verdict['runner_up'])})",
-            f"ln B = {num(ln_b, '.2f', 'verdict.ln_bayes_factor_vs_runner_up')} ± "
-            + num(verdict.get("ln_bayes_factor_vs_runner_up_err"), ".2f",
-                  "verdict.ln_bayes_factor_vs_runner_up_err"),
-            f"{b_text}; <b>{esc(verdict.get('strength'))}</b> (Kass &amp; Raftery 1995)"
-            + ("" if verdict.get("resolved") else "; not resolved"),
-        ))
-    adequacy = best.get("adequacy") or {}
-    tiles.append((
-        "Fit adequacy",
-        badge(verdict.get("fit_adequate"), "adequate", "not adequate"),
-        "reduced χ² = " + num(adequacy.get("reduced_chi_square"), ".3g",
-                              "mechanisms.0.adequacy.reduced_chi_square"),
-    ))
+        tiles.append(_runner_up_tile(verdict))
+    tiles.append(_adequacy_tile(verdict, best))
     tile_html = "".join(f'<div class="tile"><div class="label">{label}</div>'
                         f'<div class="value">{value}</div><div class="sub">{sub}</div></div>'
                         for label, value, sub in tiles)
@@ -292,9 +312,11 @@ def _verdict_section(data: Json) -> str:
         ])
     params = table(["parameter", "median", "68 % interval", "95 % interval", "unit"], rows,
                    numeric=(1, 2, 3)) if rows else ""
+    lead = (f"{esc(verdict.get('headline', '')).capitalize()}: " if not verdict.get("fit_adequate")
+            else "Leading mechanism: ")
     return ('<h2 id="verdict"><span class="num">1</span>Verdict</h2>'
             f'<section class="verdict{" weak" if weak else ""}">'
-            f'<p class="lead">Leading mechanism: {esc(best.get("name"))} '
+            f'<p class="lead">{lead}{esc(best.get("name"))} '
             f'<span class="meta">({esc(best.get("id"))}, {esc(best.get("family"))})</span></p>'
             f'<div class="tiles">{tile_html}</div>'
             f'<p class="sentence" data-json="verdict.sentence">{esc(verdict.get("sentence"))}</p>'
@@ -344,7 +366,7 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                 f"<span class='meta'>{esc(m['id'])}</span>",
                 f"{num(m.get('log_evidence'), '.2f', f'{path}.log_evidence')} ± "
                 f"{num(m.get('log_evidence_err'), '.2f', f'{path}.log_evidence_err')}",
-                num(m.get("probability"), ".3g", f"{path}.probability"),
+                num(m.get("probability"), PROBABILITY_SPEC, f"{path}.probability"),
                 num(m.get("ln_bayes_factor_vs_best"), ".2f", f"{path}.ln_bayes_factor_vs_best"),
                 badge(m.get("fit_adequate"), "yes", "no"),
                 _key_parameter_cell(m, k),
@@ -508,7 +530,8 @@ def _mechanism_article(data: Json, mechanism_id: str, fitted: tuple[int, Json] |
     if fitted is not None:
         k, m = fitted
         out.append(f" · rank {k + 1} · posterior probability "
-                   f"{num(m.get('probability'), '.3g', f'mechanisms.{k}.probability')}")
+                   f"{num(m.get('probability'), PROBABILITY_SPEC, f'mechanisms.{k}.probability')}"
+                   " among the candidates")
     else:
         out.append(" · screened only (not fitted in this run)")
     out.append(f"</p></header><code class='formula'>{esc(mechanism.formula)}</code>"

@@ -1,0 +1,189 @@
+"""Claims a referee can trust: the verdict's wording, undetermined parameters, quick runs.
+
+The records here are built by hand (no sampler), so each wording rule is checked on the case
+it is about: an inadequate leader whose noise term absorbed the misfit (the numbers of the
+issue: reduced chi-square 0.99, noise 23 times the point-to-point scatter, B = 1.6e66), a
+leader with probability 0.99996, stated prior odds.
+"""
+
+from __future__ import annotations
+
+import html as html_module
+import math
+import re
+
+import numpy as np
+import pytest
+from rich.console import Console
+
+from mechid.analysis import AnalysisSettings, _ranked_results, _verdict
+from mechid.formatting import format_probability
+from mechid.inference.adequacy import AdequacyCheck
+from mechid.inference.compare import KASS_RAFTERY_SCALE
+from mechid.report.console import render_console
+from mechid.report.html import _verdict_section
+from mechid.report.text import results_paragraph
+from mechid.results import MechanismResult, SamplingSummary, summarise_draws, to_plain_json
+
+#: Every strength word of the Kass & Raftery (1995) scale.
+STRENGTH_WORDS = [words for _, words in KASS_RAFTERY_SCALE]
+
+GOOD_FIT = AdequacyCheck(adequate=True, reduced_chi_square=1.02, predictive_p_chi_square=0.41,
+                         residual_runs=95, expected_runs=97.0, predictive_p_runs=0.38,
+                         fitted_relative_noise=0.011, model_free_relative_noise=0.010,
+                         noise_ratio=1.1, reasons=())
+#: The issue's case: the noise term absorbed the misfit (reduced chi-square 0.99).
+ABSORBED_MISFIT = AdequacyCheck(
+    adequate=False, reduced_chi_square=0.99, predictive_p_chi_square=0.47, residual_runs=12,
+    expected_runs=81.0, predictive_p_runs=0.0, fitted_relative_noise=0.115,
+    model_free_relative_noise=0.005, noise_ratio=23.0,
+    reasons=("residuals form long same-sign runs", "the fit needs 11.50% relative noise"))
+
+
+def mechanism(mechanism_id: str, log_evidence: float, adequacy: AdequacyCheck = GOOD_FIT,
+              name: str | None = None) -> MechanismResult:
+    """A fitted mechanism's record with one physical parameter (trap depth 1.2 eV)."""
+    draws = 1.2 + 0.01 * (np.arange(2001) / 2000.0 - 0.5)
+    return MechanismResult(
+        id=mechanism_id, family="emission", name=name or mechanism_id.replace("_", " "),
+        formula="I = ...", source="a source", log_evidence=log_evidence, log_evidence_err=0.1,
+        probability=math.nan, probability_err=math.nan, ln_bayes_factor_vs_best=math.nan,
+        ln_bayes_factor_vs_best_err=math.nan, fit_adequate=adequacy.adequate,
+        adequacy=adequacy, priors=(),
+        parameters={"trap_depth_eV": summarise_draws("trap_depth_eV", "eV", draws)},
+        map_parameters={}, correlations={"names": [], "matrix": [], "notable": []},
+        evidence=None,  # type: ignore[arg-type]  # not read by the verdict
+        sampling=SamplingSummary(n_draws=2001, autocorr_time=(1.0,), effective_sample_size=2001,
+                                 n_likelihood_calls=1, flags=()),
+    )
+
+
+def fake_fit(result: MechanismResult):
+    """What :func:`_ranked_results` reads of a fit: its ``result``."""
+    return type("Fit", (), {"result": result})()
+
+
+def verdict_of(*results: MechanismResult, settings: AnalysisSettings | None = None):
+    settings = settings or AnalysisSettings()
+    ranked = _ranked_results({r.id: fake_fit(r) for r in results}, settings)
+    return _verdict(ranked, settings), ranked
+
+
+# --------------------------------------------------------------------------------------------
+# 1. The verdict is exact about the candidate set, the prior odds and the adequacy
+# --------------------------------------------------------------------------------------------
+
+
+def test_probability_is_shown_as_a_bound_never_as_one_or_zero():
+    # Before: "posterior probability 1" (three digits of 0.99996).
+    assert format_probability(0.99996) == "> 0.999"
+    assert format_probability(1.0) == "> 0.999"
+    assert format_probability(3e-9) == "< 0.001"
+    assert format_probability(0.0) == "< 0.001"
+    assert format_probability(0.8734) == "0.873"
+    assert format_probability(0.999) == "0.999"
+
+
+def test_adequate_leader_names_the_candidate_set_and_equal_prior_odds():
+    # ln B = 10: P = 1 / (1 + e^-10) = 0.99995, shown as "> 0.999 among the candidates".
+    verdict, _ = verdict_of(mechanism("poole_frenkel", -100.0), mechanism("schottky", -110.0))
+    sentence = verdict.sentence
+    assert verdict.probability == pytest.approx(1 / (1 + math.exp(-10.0)), rel=1e-12)
+    assert "among the 2 mechanisms fitted (equal prior odds)" in sentence.lower()
+    assert "posterior probability > 0.999 among the candidates" in sentence
+    assert not re.search(r"probability 1(\b|\.)", sentence)
+    assert "very strong on the Kass & Raftery scale" in sentence
+    assert verdict.n_candidates == 2 and verdict.prior_odds == "equal prior odds"
+    assert verdict.headline == "most probable of the 2 mechanisms fitted"
+    assert verdict.failing_statistics == ()
+
+
+def test_stated_prior_odds_are_named_in_the_verdict():
+    settings = AnalysisSettings(prior_odds={"schottky": 4.0})
+    verdict, ranked = verdict_of(mechanism("poole_frenkel", -100.0),
+                                 mechanism("schottky", -101.0), settings=settings)
+    # P(pf) = e^1 / (e^1 + 4) = 0.4046 (by hand): schottky leads on the prior odds.
+    assert ranked[0].id == "schottky"
+    assert ranked[0].probability == pytest.approx(4 / (4 + math.e), rel=1e-12)
+    assert "the stated prior odds (schottky: 4" in verdict.sentence
+    assert "equal prior odds" not in verdict.sentence
+
+
+def test_inadequate_leader_is_headlined_as_best_of_the_candidates_without_a_strength_word():
+    # Before: "... is the most probable mechanism, with posterior probability 1; ... very
+    # strong on the Kass & Raftery scale" although no candidate fits.
+    verdict, _ = verdict_of(mechanism("schottky", -100.0, ABSORBED_MISFIT),
+                            mechanism("poole_frenkel", -252.0, ABSORBED_MISFIT))
+    sentence = verdict.sentence
+    assert sentence.startswith("Best of the candidates; none describes the data well")
+    assert verdict.headline == "best of the candidates; none describes the data well"
+    for words in STRENGTH_WORDS:
+        assert words not in sentence
+    assert "most probable" not in sentence
+    # the failing statistics and what they mean, with the record's numbers
+    assert "12 runs of same-sign residuals" in sentence and "about 81 are expected" in sentence
+    assert "(predictive p < 0.005)" in sentence  # p = 0 of 200 replicates, not "p = 0"
+    assert "23.0 times the point-to-point scatter" in sentence
+    assert "11.50%" in sentence and "0.50%" in sentence
+    assert "the noise term absorbed a misfit" in sentence
+    assert len(verdict.failing_statistics) == 2  # runs and noise; chi-square p = 0.47 passed
+    assert "only order candidates that all fail" in sentence
+    # the Bayes factor is not given as a number beyond reading (no "B = 1.6e+66")
+    assert "e+" not in sentence
+    # the JSON strength field still words ln B alone (Kass & Raftery), for the contract
+    assert verdict.strength == "very strong"
+
+
+def plain_result(*results: MechanismResult, settings: AnalysisSettings | None = None) -> dict:
+    """The plain-JSON form the report and console read (no screening, no series)."""
+    settings = settings or AnalysisSettings()
+    verdict, ranked = verdict_of(*results, settings=settings)
+    return to_plain_json({"verdict": verdict, "mechanisms": ranked,
+                          "settings": {"quick": settings.quick, "prior_odds": None},
+                          "cautions": []})
+
+
+def card_text(data: dict) -> str:
+    """The verdict card as plain text (tags removed)."""
+    return re.sub(r"\s+", " ", re.sub(r"<[^>]+>", " ", html_module.unescape(
+        _verdict_section(data))))
+
+
+def console_text(data: dict) -> str:
+    console = Console(record=True, width=200)
+    render_console(data, console)
+    return re.sub(r"\s+", " ", console.export_text())
+
+
+def test_card_of_an_inadequate_leader_shows_the_failing_statistics_not_chi_square():
+    # Before: "very strong", "B = 1.64e+66" and "reduced χ² = 0.99" under "not adequate".
+    data = plain_result(mechanism("schottky", -100.0, ABSORBED_MISFIT),
+                        mechanism("poole_frenkel", -252.0, ABSORBED_MISFIT))
+    card = card_text(data)
+    assert "Best of the candidates; none describes the data well: schottky" in card
+    assert "reduced χ²" not in card
+    assert "23.0 times the point-to-point scatter" in card
+    assert "12 runs of same-sign residuals" in card
+    for words in STRENGTH_WORDS:
+        assert words not in card
+    assert "B = " not in card.replace("ln B = ", "")
+    assert "orders candidates that all fail their checks; not a finding" in card
+    assert "> 0.999" in card and "among the 2 mechanisms fitted; equal prior odds" in card
+    paragraph = results_paragraph(data)
+    for words in STRENGTH_WORDS:
+        assert words not in paragraph
+    assert "no candidate describes the data well" in paragraph
+    assert "reduced χ²" not in paragraph
+
+
+def test_card_and_console_of_an_adequate_leader():
+    data = plain_result(mechanism("poole_frenkel", -100.0), mechanism("schottky", -110.0))
+    card = card_text(data)
+    assert "Leading mechanism: poole frenkel" in card
+    assert "> 0.999" in card and "among the 2 mechanisms fitted; equal prior odds" in card
+    assert "very strong" in card and "reduced χ² = 1.02" in card
+    text = console_text(data)
+    assert "│ > 0.999 │" in text.replace("  ", " ") or "> 0.999 │" in text
+    assert "probability 1" not in text
+    assert "among the 2 mechanisms fitted (equal prior odds)" in text.lower()
+    assert "Of the 2 mechanisms fitted (equal prior odds)" in results_paragraph(data)
