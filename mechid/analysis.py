@@ -7,23 +7,26 @@ It prints nothing; progress is reported through an optional callback.
 
 from __future__ import annotations
 
+import math
 import time
 from collections.abc import Callable, Mapping
 from dataclasses import asdict, dataclass, field, replace
 from typing import Any, Literal
 
 import numpy as np
+from scipy import stats
 
 from mechid.catalogue import get_mechanism, registered_mechanisms
-from mechid.catalogue.base import Mechanism, ParameterHints
+from mechid.catalogue.base import Mechanism, Parameter, ParameterHints
 from mechid.data import IVSeries
 from mechid.device import Device
-from mechid.errors import MechidError
-from mechid.formatting import format_estimate, format_probability
+from mechid.errors import MechidError, UnknownMechanismError
+from mechid.formatting import format_estimate, format_probability, undetermined_note
 from mechid.inference.adequacy import MAX_NOISE_RATIO, MIN_PREDICTIVE_P, AdequacyCheck
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
+from mechid.inference.priors import Prior
 from mechid.inference.rounds import FitJob, default_workers, fit_in_rounds
 from mechid.inference.settings import (
     FULL_LADDER,
@@ -218,9 +221,134 @@ def _ranked_results(fits: dict[str, MechanismFit], settings: AnalysisSettings) -
         replace(fits[mechanism_id].result,
                 probability=ranking.probability[i], probability_err=ranking.probability_err[i],
                 ln_bayes_factor_vs_best=ranking.ln_bayes_factor_vs_best[i],
-                ln_bayes_factor_vs_best_err=ranking.ln_bayes_factor_vs_best_err[i])
+                ln_bayes_factor_vs_best_err=ranking.ln_bayes_factor_vs_best_err[i],
+                parameters=determination(fits[mechanism_id].result))
         for i, mechanism_id in enumerate(ranking.ids)
     ]
+
+
+#: A 95 % interval ending closer than this share of the prior range to one of its edges is
+#: pinned there (in the sampling coordinate: log10 for log-scale parameters).
+EDGE_SHARE = 0.01
+#: Prior 68 % width over posterior 68 % width below which the data barely narrow the prior.
+MIN_WIDTH_RATIO = 1.5
+#: |r| above which two parameters form a ridge: only a combination of them is determined.
+RIDGE_CORRELATION = 0.99
+
+
+def prior_interval(prior: Prior, mass: float = 0.68) -> tuple[float, float]:
+    """The central ``mass`` interval of a prior, in physical units.
+
+    Uniform: ``lower + q (upper - lower)``; log-uniform: the same in log10; truncated
+    normal: the quantiles of the truncated distribution (scipy.stats.truncnorm).
+    """
+    q = np.array([(1 - mass) / 2, (1 + mass) / 2])
+    if prior.kind == "uniform":
+        values = prior.lower + q * (prior.upper - prior.lower)
+    elif prior.kind == "log_uniform":
+        lo, hi = np.log10(prior.lower), np.log10(prior.upper)
+        values = 10.0 ** (lo + q * (hi - lo))
+    elif prior.kind == "truncated_normal":
+        assert prior.mean is not None and prior.sd is not None
+        a, b = (prior.lower - prior.mean) / prior.sd, (prior.upper - prior.mean) / prior.sd
+        values = stats.truncnorm.ppf(q, a, b, loc=prior.mean, scale=prior.sd)
+    else:
+        raise ValueError("a fixed parameter has no prior interval")
+    return float(values[0]), float(values[1])
+
+
+def _width(prior: Prior, interval: tuple[float, float]) -> float:
+    """Width of an interval in the prior's sampling coordinate."""
+    lo, hi = prior.to_internal(np.asarray(interval, dtype=float))
+    return float(hi - lo)
+
+
+def _edge_reason(prior: Prior, summary: ParameterSummary) -> str | None:
+    lo, hi = prior.internal_bounds()
+    ci_lo, ci_hi = prior.to_internal(np.asarray(summary.ci95, dtype=float))
+    margin = EDGE_SHARE * (hi - lo)
+    unit = "" if prior.unit in ("", "1") else f" {prior.unit}"
+    for side, bound, distance in (("lower", prior.lower, ci_lo - lo), ("upper", prior.upper, hi - ci_hi)):
+        if distance < margin:
+            return (f"pinned at the prior's {side} edge {bound:.4g}{unit} (95 % interval within "
+                    f"{EDGE_SHARE:.0%} of the prior range of it)")
+    return None
+
+
+def _prior_reason(prior: Prior, summary: ParameterSummary) -> str | None:
+    posterior_width = _width(prior, summary.ci68)
+    prior_width = _width(prior, prior_interval(prior))
+    ratio = prior_width / posterior_width if posterior_width > 0 else math.inf
+    if ratio < MIN_WIDTH_RATIO:
+        return (f"posterior about the prior: 68 % interval only {ratio:.2f} times narrower than "
+                f"the prior's (criterion {MIN_WIDTH_RATIO:g})")
+    return None
+
+
+def _ridge_reasons(name: str, correlations: Mapping[str, Any], label: Callable[[str], str]
+                   ) -> list[str]:
+    reasons = []
+    for pair in correlations.get("notable") or []:
+        if name in (pair["a"], pair["b"]) and abs(pair["r"]) > RIDGE_CORRELATION:
+            other = pair["b"] if pair["a"] == name else pair["a"]
+            reasons.append(f"ridge with {label(other)} (r = {pair['r']:.4f}): only a "
+                           "combination of the two is determined")
+    return reasons
+
+
+def _device_range_reason(prior: Prior, parameter: Parameter | None) -> str | None:
+    value = prior.value if prior.is_fixed else prior.mean
+    if (parameter is None or value is None or not prior.origin.startswith("device description")
+            or parameter.lower <= value <= parameter.upper):
+        return None
+    unit = "" if prior.unit in ("", "1") else f" {prior.unit}"
+    return (f"device value {value:.4g}{unit} lies outside the range the formula is declared "
+            f"for ({parameter.lower:.4g} to {parameter.upper:.4g}{unit})")
+
+
+def determination(result: MechanismResult) -> dict[str, ParameterSummary]:
+    """Each parameter's summary with ``determined`` and ``reasons`` set.
+
+    A parameter is not determined by the data when (criteria in the sampling coordinate,
+    log10 for log-scale parameters):
+
+    * its 95 % interval ends within :data:`EDGE_SHARE` (1 %) of the prior range from an edge
+      (pinned there: the range, not the data, sets the value);
+    * its prior's 68 % interval is less than :data:`MIN_WIDTH_RATIO` (1.5) times as wide as
+      its posterior's (the data barely narrow the prior);
+    * it forms a ridge, |r| > :data:`RIDGE_CORRELATION` (0.99), with another parameter;
+    * its device value lies outside the mechanism's declared range (the prior is then a
+      tail of the device's value, cut at the range).
+
+    Held parameters are checked for the last rule only.
+    """
+    try:
+        mechanism: Mechanism | None = get_mechanism(result.id)
+    except UnknownMechanismError:
+        mechanism = None
+
+    def declared(name: str) -> Parameter | None:
+        if mechanism is None or name not in mechanism.parameter_names:
+            return None
+        return mechanism.parameter(name)
+
+    def label(name: str) -> str:
+        parameter = declared(name)
+        return parameter.symbol if parameter is not None else name
+
+    priors = {prior.name: prior for prior in result.priors}
+    summaries = {}
+    for name, summary in result.parameters.items():
+        prior = priors.get(name)
+        reasons: list[str | None] = []
+        if prior is not None:
+            reasons.append(_device_range_reason(prior, declared(name)))
+            if not prior.is_fixed and not summary.fixed:
+                reasons += [_edge_reason(prior, summary), _prior_reason(prior, summary)]
+                reasons += _ridge_reasons(name, result.correlations, label)
+        found = tuple(r for r in reasons if r)
+        summaries[name] = replace(summary, determined=not found, reasons=found)
+    return summaries
 
 
 def _verdict(results: list[MechanismResult], settings: AnalysisSettings) -> Verdict:
@@ -297,8 +425,9 @@ REPLICATE_RESOLUTION = 1 / 200
 def _format_parameter(name: str, summary: ParameterSummary) -> str:
     if summary.fixed:
         unit = "" if summary.unit in ("", "1") else f" {summary.unit}"
-        return f"{name} = {summary.median:.4g}{unit} (held fixed)"
-    return f"{name} = {format_estimate(summary.median, summary.ci68, summary.ci95, summary.unit)}"
+        return f"{name} = {summary.median:.4g}{unit} (held fixed)" + undetermined_note(summary.reasons)
+    return (f"{name} = {format_estimate(summary.median, summary.ci68, summary.ci95, summary.unit)}"
+            + undetermined_note(summary.reasons))
 
 
 def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b: float,

@@ -8,6 +8,7 @@ convention for quoting a result with its uncertainty).
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 
 def last_digit_for(width: float, significant: int = 2) -> int | None:
@@ -69,3 +70,8 @@ def format_probability(probability: float) -> str:
     if probability < PROBABILITY_RESOLUTION:
         return f"< {PROBABILITY_RESOLUTION:g}"
     return f"{probability:.3g}"
+
+
+def undetermined_note(reasons: Sequence[str]) -> str:
+    """`` [not determined by the data: ...]`` after a parameter's value (empty when none)."""
+    return f" [not determined by the data: {'; '.join(reasons)}]" if reasons else ""

@@ -37,7 +37,11 @@ NOT_IN_JSON = {"json": False}
 class ParameterSummary:
     """Posterior summary of one parameter in physical units.
 
-    JSON: ``{"median", "ci68", "ci95", "unit", "fixed"}`` (the name is the key).
+    JSON: ``{"median", "ci68", "ci95", "unit", "fixed", "determined", "reasons"}`` (the name
+    is the key). ``determined`` is false when the data do not determine the value (pinned at
+    a prior edge, posterior about the prior, a ridge with another parameter, a device value
+    outside the formula's range); ``reasons`` says which, in words
+    (:func:`mechid.analysis.determination`).
     """
 
     name: str = field(metadata=NOT_IN_JSON)
@@ -46,6 +50,8 @@ class ParameterSummary:
     ci95: tuple[float, float]
     unit: str
     fixed: bool = False
+    determined: bool = True
+    reasons: tuple[str, ...] = ()
 
 
 def summarise_draws(name: str, unit: str, draws: NDArray) -> ParameterSummary:

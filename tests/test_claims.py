@@ -11,15 +11,25 @@ from __future__ import annotations
 import html as html_module
 import math
 import re
+from dataclasses import replace
 
 import numpy as np
 import pytest
 from rich.console import Console
 
-from mechid.analysis import AnalysisSettings, _ranked_results, _verdict
+from mechid.analysis import (
+    AnalysisSettings,
+    _ranked_results,
+    _verdict,
+    determination,
+    prior_interval,
+)
+from mechid.catalogue import get_mechanism
+from mechid.device import Device, Measured
 from mechid.formatting import format_probability
 from mechid.inference.adequacy import AdequacyCheck
 from mechid.inference.compare import KASS_RAFTERY_SCALE
+from mechid.inference.priors import Prior, parameter_prior
 from mechid.report.console import render_console
 from mechid.report.html import _verdict_section
 from mechid.report.text import results_paragraph
@@ -41,17 +51,19 @@ ABSORBED_MISFIT = AdequacyCheck(
 
 
 def mechanism(mechanism_id: str, log_evidence: float, adequacy: AdequacyCheck = GOOD_FIT,
-              name: str | None = None) -> MechanismResult:
-    """A fitted mechanism's record with one physical parameter (trap depth 1.2 eV)."""
+              name: str | None = None, parameters: dict | None = None, priors: tuple = (),
+              notable: tuple = ()) -> MechanismResult:
+    """A fitted mechanism's record (by default one physical parameter: trap depth 1.2 eV)."""
     draws = 1.2 + 0.01 * (np.arange(2001) / 2000.0 - 0.5)
+    if parameters is None:
+        parameters = {"trap_depth_eV": summarise_draws("trap_depth_eV", "eV", draws)}
     return MechanismResult(
         id=mechanism_id, family="emission", name=name or mechanism_id.replace("_", " "),
         formula="I = ...", source="a source", log_evidence=log_evidence, log_evidence_err=0.1,
         probability=math.nan, probability_err=math.nan, ln_bayes_factor_vs_best=math.nan,
         ln_bayes_factor_vs_best_err=math.nan, fit_adequate=adequacy.adequate,
-        adequacy=adequacy, priors=(),
-        parameters={"trap_depth_eV": summarise_draws("trap_depth_eV", "eV", draws)},
-        map_parameters={}, correlations={"names": [], "matrix": [], "notable": []},
+        adequacy=adequacy, priors=priors, parameters=parameters,
+        map_parameters={}, correlations={"names": [], "matrix": [], "notable": list(notable)},
         evidence=None,  # type: ignore[arg-type]  # not read by the verdict
         sampling=SamplingSummary(n_draws=2001, autocorr_time=(1.0,), effective_sample_size=2001,
                                  n_likelihood_calls=1, flags=()),
@@ -187,3 +199,112 @@ def test_card_and_console_of_an_adequate_leader():
     assert "probability 1" not in text
     assert "among the 2 mechanisms fitted (equal prior odds)" in text.lower()
     assert "Of the 2 mechanisms fitted (equal prior odds)" in results_paragraph(data)
+
+
+
+# --------------------------------------------------------------------------------------------
+# 2. Parameters the data do not determine
+# --------------------------------------------------------------------------------------------
+
+
+def test_prior_interval_matches_closed_forms():
+    # uniform on [0, 10]: 0.16 and 0.84 of the range; log-uniform on [1e-3, 1e3]: the same
+    # in log10 (10^(-3 + 0.16 x 6)); normal(30, 1) cut at +-6 sd: the normal quantiles
+    # 30 -+ 0.994458 (scipy.stats.norm.ppf(0.84); the cut moves them by < 1e-8).
+    assert prior_interval(Prior("x", "1", "uniform", 0.0, 10.0)) == pytest.approx((1.6, 8.4),
+                                                                                  rel=1e-13)
+    assert prior_interval(Prior("x", "1", "log_uniform", 1e-3, 1e3)) == pytest.approx(
+        (10 ** -2.04, 10 ** 2.04), rel=1e-12)
+    normal = Prior("d_nm", "nm", "truncated_normal", 24.0, 36.0, mean=30.0, sd=1.0)
+    assert prior_interval(normal) == pytest.approx((30 - 0.994458, 30 + 0.994458), abs=1e-6)
+
+
+def _summaries(**draws: np.ndarray) -> dict:
+    return {name: summarise_draws(name, "1", values) for name, values in draws.items()}
+
+
+def test_parameter_pinned_at_a_prior_edge_is_flagged():
+    # The issue's case: eps_r = 1.0011 [1.0003, 1.0028] against the lower edge 1 of [1, 20].
+    rng = np.random.default_rng(5)
+    pinned = 1.0 + rng.exponential(0.001, 4000)
+    inside = rng.normal(5.0, 0.1, 4000)
+    prior = Prior("dielectric_constant", "1", "uniform", 1.0, 20.0)
+    for draws, expected in ((pinned, False), (inside, True)):
+        record = mechanism("schottky_emission", -1.0, priors=(prior,),
+                           parameters=_summaries(dielectric_constant=draws))
+        summary = determination(record)["dielectric_constant"]
+        assert summary.determined is expected
+        if not expected:
+            assert summary.reasons == ("pinned at the prior's lower edge 1 (95 % interval within "
+                                       "1% of the prior range of it)",)
+
+
+def test_posterior_equal_to_the_prior_is_flagged_and_a_narrower_one_is_not():
+    # Posterior draws from the prior itself: width ratio 1; half the width: ratio 2 (> 1.5).
+    rng = np.random.default_rng(6)
+    prior = Prior("thickness_nm", "nm", "truncated_normal", 24.0, 36.0, mean=30.0, sd=1.0,
+                  origin="device description with its standard uncertainty")
+    as_prior = rng.normal(30.0, 1.0, 20_000)
+    narrower = rng.normal(30.0, 0.5, 20_000)
+    flagged = determination(mechanism("poole_frenkel", -1.0, priors=(prior,),
+                                      parameters=_summaries(thickness_nm=as_prior)))
+    assert flagged["thickness_nm"].determined is False
+    (reason,) = flagged["thickness_nm"].reasons
+    assert reason.startswith("posterior about the prior: 68 % interval only 1.0")
+    kept = determination(mechanism("poole_frenkel", -1.0, priors=(prior,),
+                                   parameters=_summaries(thickness_nm=narrower)))
+    assert kept["thickness_nm"].determined is True and kept["thickness_nm"].reasons == ()
+
+
+def test_ridge_between_two_parameters_flags_both_with_the_other_symbol():
+    # The issue's case: thickness and mass at r = -0.9995 (only d sqrt(m*) is determined).
+    rng = np.random.default_rng(7)
+    priors = (Prior("thickness_nm", "nm", "uniform", 0.3, 20.0),
+              Prior("effective_mass_ratio", "1", "uniform", 0.05, 1.0))
+    record = mechanism(
+        "direct_tunnelling", -1.0, priors=priors,
+        parameters=_summaries(thickness_nm=rng.normal(2.0, 0.01, 4000),
+                              effective_mass_ratio=rng.normal(0.4, 0.002, 4000)),
+        notable=({"a": "thickness_nm", "b": "effective_mass_ratio", "r": -0.9995},))
+    summaries = determination(record)
+    assert summaries["thickness_nm"].reasons == (
+        "ridge with m*/m0 (r = -0.9995): only a combination of the two is determined",)
+    assert summaries["effective_mass_ratio"].reasons == (
+        "ridge with d (r = -0.9995): only a combination of the two is determined",)
+    # r = -0.98 is a correlation, not a ridge
+    weaker = replace(record, correlations={"notable": [
+        {"a": "thickness_nm", "b": "effective_mass_ratio", "r": -0.98}]})
+    assert all(s.determined for s in determination(weaker).values())
+
+
+def test_device_value_outside_the_declared_range_is_flagged():
+    # The demo's case: direct tunnelling fitted with thickness normal(30, 1) nm, range 0.3-20.
+    parameter = get_mechanism("direct_tunnelling").parameter("thickness_nm")
+    prior = parameter_prior(parameter, Device(thickness_nm=Measured(30.0, 1.0)))
+    draws = 20.0 - np.random.default_rng(8).exponential(0.01, 4000)
+    summaries = determination(mechanism("direct_tunnelling", -1.0, priors=(prior,),
+                                        parameters=_summaries(thickness_nm=draws)))
+    reasons = summaries["thickness_nm"].reasons
+    assert reasons[0] == ("device value 30 nm lies outside the range the formula is declared "
+                          "for (0.3 to 20 nm)")
+    assert reasons[1].startswith("pinned at the prior's upper edge 20 nm")
+
+
+def test_undetermined_parameters_are_shown_in_json_sentence_console_and_report():
+    rng = np.random.default_rng(9)
+    prior = Prior("trap_depth_eV", "eV", "uniform", 0.05, 3.0)
+    pinned = {"trap_depth_eV": summarise_draws("trap_depth_eV", "eV",
+                                               3.0 - rng.exponential(0.001, 4000))}
+    data = plain_result(mechanism("poole_frenkel", -100.0, priors=(prior,), parameters=pinned),
+                        mechanism("schottky_emission", -110.0))
+    summary = data["mechanisms"][0]["parameters"]["trap_depth_eV"]
+    assert summary["determined"] is False
+    assert summary["reasons"][0].startswith("pinned at the prior's upper edge 3 eV")
+    note = "[not determined by the data: pinned at the prior's upper edge 3 eV"
+    assert note in data["verdict"]["sentence"]
+    assert note in results_paragraph(data)
+    text = console_text(data)
+    assert "(not determined)" in text and "Not determined by the data" in text
+    assert "poole_frenkel: phi_T: pinned at the prior's upper edge 3 eV" in text
+    card = card_text(data)
+    assert "determined by the data?" in card and "no pinned at the prior's upper edge" in card

@@ -72,7 +72,7 @@ def test_converter_handles_records_enums_numpy_and_non_finite_numbers():
     assert type(plain["scalars"][1]) is int and type(plain["scalars"][2]) is bool
     assert plain["summary"] == {"median": 2.0, "ci68": [pytest.approx(1.32), pytest.approx(2.68)],
                                 "ci95": [pytest.approx(1.05), pytest.approx(2.95)], "unit": "nm",
-                                "fixed": False}
+                                "fixed": False, "determined": True, "reasons": []}
     json.dumps(plain, allow_nan=False)
 
 

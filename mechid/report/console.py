@@ -25,6 +25,7 @@ from mechid.report.text import (
     key_parameters,
     parameter_symbol,
     screening_entry,
+    undetermined,
     unit_suffix,
 )
 from mechid.results import AnalysisResult, to_plain_json
@@ -74,7 +75,8 @@ def _parameters_cell(mechanism: Mapping[str, Any]) -> str:
         spec = estimate_spec(s)
         parts.append(f"{parameter_symbol(str(mechanism.get('id')), name)}="
                      f"{fmt(s.get('median'), spec)}{unit_suffix(s.get('unit'))} "
-                     f"[{fmt(lo, spec)}, {fmt(hi, spec)}]")
+                     f"[{fmt(lo, spec)}, {fmt(hi, spec)}]"
+                     + (" (not determined)" if s.get("determined") is False else ""))
     return "\n".join(parts) or "-"
 
 
@@ -102,6 +104,17 @@ def ranking_table(data: Mapping[str, Any]) -> Table | None:
     return table
 
 
+def print_undetermined(data: Mapping[str, Any], console: Console) -> None:
+    """List the parameters the data do not determine, mechanism by mechanism, with why."""
+    lines = [f"  - {m.get('id')}: {symbol}: {'; '.join(reasons)}"
+             for m in data.get("mechanisms") or [] for symbol, reasons in undetermined(m)]
+    if lines:
+        console.print("[bold]Not determined by the data[/bold] (the value is set by the prior, "
+                      "a range edge or another parameter, not by the data)")
+        for line in lines:
+            console.print(escape(line))
+
+
 def render_console(result: AnalysisResult | Mapping[str, Any], console: Console) -> None:
     """Print the analysis summary to a rich console.
 
@@ -121,6 +134,7 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
     ranking = ranking_table(data)
     if ranking is not None:
         console.print(ranking)
+        print_undetermined(data, console)
     verdict = data.get("verdict")
     if verdict is not None:
         style = "bold" if verdict.get("fit_adequate") and verdict.get("resolved") else "bold yellow"

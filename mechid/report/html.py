@@ -309,9 +309,10 @@ def _verdict_section(data: Json) -> str:
             num(s.get("median"), estimate_spec(s), f"{path}.median"),
             interval(s, "ci68", path), interval(s, "ci95", path),
             esc(unit_suffix(s.get("unit")).strip() or "–"),
+            _determined_cell(s),
         ])
-    params = table(["parameter", "median", "68 % interval", "95 % interval", "unit"], rows,
-                   numeric=(1, 2, 3)) if rows else ""
+    params = table(["parameter", "median", "68 % interval", "95 % interval", "unit",
+                    "determined by the data?"], rows, numeric=(1, 2, 3)) if rows else ""
     lead = (f"{esc(verdict.get('headline', '')).capitalize()}: " if not verdict.get("fit_adequate")
             else "Leading mechanism: ")
     return ('<h2 id="verdict"><span class="num">1</span>Verdict</h2>'
@@ -321,6 +322,14 @@ def _verdict_section(data: Json) -> str:
             f'<div class="tiles">{tile_html}</div>'
             f'<p class="sentence" data-json="verdict.sentence">{esc(verdict.get("sentence"))}</p>'
             f"{params}</section>")
+
+
+def _determined_cell(summary: Json) -> str:
+    """A yes badge, or a no badge with the reasons the data do not determine the value."""
+    if summary.get("determined") is not False:
+        return badge(True, "yes")
+    return (badge(False, no="no") + "<br><span class='meta'>"
+            + esc("; ".join(summary.get("reasons") or [])) + "</span>")
 
 
 def _screening_verdict(data: Json) -> str:
@@ -349,7 +358,9 @@ def _key_parameter_cell(mechanism: Json, index: int) -> str:
                      f"{num(s.get('median'), spec, f'{path}.median')}"
                      f"{esc(unit_suffix(s.get('unit')))} <span class='meta'>"
                      f"[{num(lo, spec, f'{path}.ci68.0')}, {num(hi, spec, f'{path}.ci68.1')}]"
-                     "</span>")
+                     "</span>"
+                     + (" <span class='badge fail'>not determined</span>"
+                        if s.get("determined") is False else ""))
     return "<br>".join(parts) or "–"
 
 
@@ -636,9 +647,13 @@ def _parameter_table(m: Json, path: str) -> str:
         else:
             value = num(s.get("median"), estimate_spec(s), f"{p_path}.median")
             ci = interval(s, "ci68", p_path)
+        prior_text = f"<span class='meta'>{esc((priors.get(name) or {}).get('description', ''))}</span>"
+        if s.get("determined") is False:
+            value += "<br><span class='badge fail'>not determined</span>"
+            prior_text += ("<br><b>Not determined by the data:</b> "
+                           + esc("; ".join(s.get("reasons") or [])))
         rows.append([f"{esc(symbol)}" + (f" [{esc(unit)}]" if unit else ""), value, ci,
-                     f"<span class='meta'>{esc((priors.get(name) or {}).get('description', ''))}"
-                     "</span>"])
+                     prior_text])
     return ("<p>Parameters (posterior median, 68 % interval) and priors:</p>"
             + table(["parameter", "median", "68 %", "prior"], rows, numeric=(1, 2)))
 

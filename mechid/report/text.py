@@ -24,6 +24,7 @@ from mechid.formatting import (
     format_number,
     format_probability,
     last_digit_for,
+    undetermined_note,
 )
 from mechid.inference.adequacy import MAX_NOISE_RATIO, MIN_PREDICTIVE_P
 
@@ -139,11 +140,19 @@ def parameter_text(name: str, summary: Json) -> str:
     lo68, hi68 = summary.get("ci68") or (None, None)
     lo95, hi95 = summary.get("ci95") or (None, None)
     values = (summary.get("median"), lo68, hi68, lo95, hi95)
+    note = undetermined_note(summary.get("reasons") or [])
     if summary.get("fixed") or not all(is_number(v) for v in values):
         return f"{name} = {fmt(summary.get('median'))}{unit}" + (
-            " (held fixed)" if summary.get("fixed") else "")
+            " (held fixed)" if summary.get("fixed") else "") + note
     return f"{name} = " + format_estimate(float(values[0]), (float(lo68), float(hi68)),
-                                         (float(lo95), float(hi95)), summary.get("unit") or "")
+                                         (float(lo95), float(hi95)), summary.get("unit") or "") + note
+
+
+def undetermined(mechanism: Json) -> list[tuple[str, list[str]]]:
+    """(symbol, reasons) of each physical parameter the data do not determine."""
+    return [(parameter_symbol(str(mechanism.get("id")), name), list(s.get("reasons") or []))
+            for name, s in (mechanism.get("parameters") or {}).items()
+            if not name.startswith("noise_") and s.get("determined") is False]
 
 
 def key_parameters(mechanism: Json) -> list[tuple[str, Json]]:
