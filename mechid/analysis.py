@@ -36,7 +36,13 @@ from mechid.inference.settings import (
     LadderSettings,
     SearchSettings,
 )
-from mechid.results import AnalysisResult, MechanismResult, ParameterSummary, Verdict
+from mechid.results import (
+    QUICK_RUN_BANNER,
+    AnalysisResult,
+    MechanismResult,
+    ParameterSummary,
+    Verdict,
+)
 from mechid.screening import LinearisationResult, linearise
 
 ProgressHook = Callable[[str, int, int], None]
@@ -368,10 +374,16 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings) -> Verd
         ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=ln_b_err,
         runner_up=runner.id if runner else None, strength=strength, resolved=resolved,
         fit_adequate=best.fit_adequate, n_candidates=len(results), prior_odds=odds,
-        headline=headline, failing_statistics=tuple(failing),
-        sentence=verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved,
-                                  n_candidates=len(results), prior_odds=odds),
+        headline=headline, failing_statistics=tuple(failing), quick_run=settings.quick,
+        sentence=quick_run_prefix(settings.quick)
+        + verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved,
+                           n_candidates=len(results), prior_odds=odds),
     )
+
+
+def quick_run_prefix(quick: bool) -> str:
+    """``"Quick run: a first look; quote numbers from a full run. "`` for a quick run."""
+    return f"{QUICK_RUN_BANNER[0].upper()}{QUICK_RUN_BANNER[1:]}. " if quick else ""
 
 
 #: The headline of a leader that fails its posterior predictive checks.

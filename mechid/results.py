@@ -125,6 +125,10 @@ def _exp_or_zero(ln_value: float) -> float:
     return math.exp(ln_value) if ln_value > -745 else 0.0
 
 
+#: The banner of a verdict from a ``--quick`` run (console, report, JSON sentence).
+QUICK_RUN_BANNER = "quick run: a first look; quote numbers from a full run"
+
+
 @dataclass(frozen=True)
 class Verdict:
     """The headline: the leading mechanism and how strongly the data prefer it.
@@ -132,7 +136,8 @@ class Verdict:
     ``probability`` is conditional on the candidate set (``n_candidates`` mechanisms fitted)
     and on ``prior_odds``. ``strength`` words ln B alone (Kass & Raftery); the ``headline``
     and ``sentence`` leave it out when the leader is not adequate, and ``failing_statistics``
-    then say which posterior predictive checks failed and what that means.
+    then say which posterior predictive checks failed and what that means. ``quick_run``
+    is true for a ``--quick`` run, whose sentence opens with :data:`QUICK_RUN_BANNER`.
     """
 
     id: str
@@ -149,6 +154,7 @@ class Verdict:
     prior_odds: str
     headline: str
     failing_statistics: tuple[str, ...]
+    quick_run: bool
     sentence: str
 
     def __post_init__(self) -> None:

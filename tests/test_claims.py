@@ -308,3 +308,22 @@ def test_undetermined_parameters_are_shown_in_json_sentence_console_and_report()
     assert "poole_frenkel: phi_T: pinned at the prior's upper edge 3 eV" in text
     card = card_text(data)
     assert "determined by the data?" in card and "no pinned at the prior's upper edge" in card
+
+
+
+# --------------------------------------------------------------------------------------------
+# 3. A quick run is visibly quick
+# --------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize("quick", [True, False])
+def test_quick_run_banner_in_json_console_and_report(quick: bool):
+    # Before: only the methods paragraph said "quick setting".
+    data = plain_result(mechanism("poole_frenkel", -100.0), mechanism("schottky", -110.0),
+                        settings=AnalysisSettings(quick=quick))
+    banner = "quick run: a first look; quote numbers from a full run"
+    verdict = data["verdict"]
+    assert verdict["quick_run"] is quick
+    assert verdict["sentence"].startswith(f"Q{banner[1:]}. ") is quick
+    assert (banner.upper() in console_text(data)) is quick
+    assert (f'<p class="banner">Q{banner[1:]}</p>' in _verdict_section(data)) is quick

@@ -82,7 +82,7 @@ def test_verdict_bayes_factor_is_derived_from_its_logarithm():
                        ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=0.1,
                        strength="strong", resolved=True, fit_adequate=True, n_candidates=2,
                        prior_odds="equal prior odds", headline="h", failing_statistics=(),
-                       sentence="s")
+                       quick_run=False, sentence="s")
 
     # exp(log 20): a few ulp
     assert verdict(math.log(20.0)).bayes_factor_vs_runner_up == pytest.approx(20.0, rel=1e-13)

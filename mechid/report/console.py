@@ -28,7 +28,7 @@ from mechid.report.text import (
     undetermined,
     unit_suffix,
 )
-from mechid.results import AnalysisResult, to_plain_json
+from mechid.results import QUICK_RUN_BANNER, AnalysisResult, to_plain_json
 
 #: Quantities shown per mechanism in the screening table.
 MAX_SCREENING_QUANTITIES = 3
@@ -137,6 +137,8 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
         print_undetermined(data, console)
     verdict = data.get("verdict")
     if verdict is not None:
+        if verdict.get("quick_run"):
+            console.print(f"[bold yellow]{QUICK_RUN_BANNER.upper()}[/bold yellow]")
         style = "bold" if verdict.get("fit_adequate") and verdict.get("resolved") else "bold yellow"
         console.print(f"[{style}]Verdict:[/{style}] {escape(str(verdict.get('sentence')))}")
     elif not data.get("mechanisms"):

@@ -49,6 +49,7 @@ from mechid.report.text import (
     screening_entry,
     unit_suffix,
 )
+from mechid.results import QUICK_RUN_BANNER
 
 if TYPE_CHECKING:
     from mechid.report import ReportRun
@@ -87,6 +88,9 @@ code, .formula { font-family: ui-monospace, "SFMono-Regular", Menlo, Consolas, "
 .verdict { border: 2px solid var(--accent); border-radius: 8px; padding: 1rem 1.2rem;
            margin-top: 1.4rem; background: #f7f9fd; }
 .verdict.weak { border-color: var(--warn); background: var(--warn-bg); }
+.verdict .banner { margin: 0 0 0.6rem; padding: 0.35rem 0.7rem; border-radius: 4px;
+                   background: var(--warn-bg); color: var(--warn); border: 1px solid var(--warn);
+                   font-weight: 650; text-transform: uppercase; letter-spacing: 0.03em; }
 .verdict .lead { font-size: 1.35rem; font-weight: 650; margin: 0 0 0.6rem; }
 .tiles { display: flex; flex-wrap: wrap; gap: 0.7rem; margin: 0.6rem 0 0.8rem; }
 .tile { flex: 1 1 12rem; background: #fff; border: 1px solid var(--line); border-radius: 6px;
@@ -317,7 +321,9 @@ def _verdict_section(data: Json) -> str:
             else "Leading mechanism: ")
     return ('<h2 id="verdict"><span class="num">1</span>Verdict</h2>'
             f'<section class="verdict{" weak" if weak else ""}">'
-            f'<p class="lead">{lead}{esc(best.get("name"))} '
+            + (f'<p class="banner">{esc(QUICK_RUN_BANNER.capitalize())}</p>'
+               if verdict.get("quick_run") else "")
+            + f'<p class="lead">{lead}{esc(best.get("name"))} '
             f'<span class="meta">({esc(best.get("id"))}, {esc(best.get("family"))})</span></p>'
             f'<div class="tiles">{tile_html}</div>'
             f'<p class="sentence" data-json="verdict.sentence">{esc(verdict.get("sentence"))}</p>'
