@@ -125,6 +125,11 @@ def _exp_or_zero(ln_value: float) -> float:
     return math.exp(ln_value) if ln_value > -745 else 0.0
 
 
+#: What every credible interval is (shown beside every parameter table; docs/result-schema.md).
+INTERVALS_CAVEAT = ("credible intervals are statistical and conditional on the model (formula "
+                    "and noise law) being right")
+
+
 #: The banner of a verdict from a ``--quick`` run (console, report, JSON sentence).
 QUICK_RUN_BANNER = "quick run: a first look; quote numbers from a full run"
 

@@ -12,6 +12,7 @@ import html as html_module
 import math
 import re
 from dataclasses import replace
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -31,7 +32,7 @@ from mechid.inference.adequacy import AdequacyCheck
 from mechid.inference.compare import KASS_RAFTERY_SCALE
 from mechid.inference.priors import Prior, parameter_prior
 from mechid.report.console import render_console
-from mechid.report.html import _verdict_section
+from mechid.report.html import _Figures, _parameter_table, _ranking_section, _verdict_section
 from mechid.report.text import results_paragraph
 from mechid.results import MechanismResult, SamplingSummary, summarise_draws, to_plain_json
 
@@ -327,3 +328,24 @@ def test_quick_run_banner_in_json_console_and_report(quick: bool):
     assert verdict["sentence"].startswith(f"Q{banner[1:]}. ") is quick
     assert (banner.upper() in console_text(data)) is quick
     assert (f'<p class="banner">Q{banner[1:]}</p>' in _verdict_section(data)) is quick
+
+
+# --------------------------------------------------------------------------------------------
+# 4. Intervals are labelled as statistical and conditional on the model
+# --------------------------------------------------------------------------------------------
+
+CAVEAT = ("credible intervals are statistical and conditional on the model (formula and noise "
+          "law) being right")
+
+
+def test_intervals_are_labelled_beside_every_parameter_table():
+    # Before: no table, console line or paragraph said what the intervals assume.
+    data = plain_result(mechanism("poole_frenkel", -100.0), mechanism("schottky", -110.0))
+    assert CAVEAT.capitalize() in card_text(data)
+    for k, m in enumerate(data["mechanisms"]):
+        assert CAVEAT.capitalize() in _parameter_table(m, f"mechanisms.{k}")
+    assert CAVEAT in _ranking_section(data, _Figures([], {}))
+    assert CAVEAT.capitalize() in console_text(data)
+    assert CAVEAT in results_paragraph(data)
+    schema_doc = (Path(__file__).resolve().parents[1] / "docs" / "result-schema.md").read_text()
+    assert CAVEAT in re.sub(r"\s+", " ", schema_doc)

@@ -28,7 +28,7 @@ from mechid.report.text import (
     undetermined,
     unit_suffix,
 )
-from mechid.results import QUICK_RUN_BANNER, AnalysisResult, to_plain_json
+from mechid.results import INTERVALS_CAVEAT, QUICK_RUN_BANNER, AnalysisResult, to_plain_json
 
 #: Quantities shown per mechanism in the screening table.
 MAX_SCREENING_QUANTITIES = 3
@@ -134,6 +134,7 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
     ranking = ranking_table(data)
     if ranking is not None:
         console.print(ranking)
+        console.print(f"[dim]{INTERVALS_CAVEAT.capitalize()}.[/dim]")
         print_undetermined(data, console)
     verdict = data.get("verdict")
     if verdict is not None:

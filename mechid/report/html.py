@@ -49,7 +49,7 @@ from mechid.report.text import (
     screening_entry,
     unit_suffix,
 )
-from mechid.results import QUICK_RUN_BANNER
+from mechid.results import INTERVALS_CAVEAT, QUICK_RUN_BANNER
 
 if TYPE_CHECKING:
     from mechid.report import ReportRun
@@ -315,8 +315,9 @@ def _verdict_section(data: Json) -> str:
             esc(unit_suffix(s.get("unit")).strip() or "–"),
             _determined_cell(s),
         ])
-    params = table(["parameter", "median", "68 % interval", "95 % interval", "unit",
-                    "determined by the data?"], rows, numeric=(1, 2, 3)) if rows else ""
+    params = (table(["parameter", "median", "68 % interval", "95 % interval", "unit",
+                     "determined by the data?"], rows, numeric=(1, 2, 3))
+              + intervals_caveat()) if rows else ""
     lead = (f"{esc(verdict.get('headline', '')).capitalize()}: " if not verdict.get("fit_adequate")
             else "Leading mechanism: ")
     return ('<h2 id="verdict"><span class="num">1</span>Verdict</h2>'
@@ -328,6 +329,11 @@ def _verdict_section(data: Json) -> str:
             f'<div class="tiles">{tile_html}</div>'
             f'<p class="sentence" data-json="verdict.sentence">{esc(verdict.get("sentence"))}</p>'
             f"{params}</section>")
+
+
+def intervals_caveat() -> str:
+    """The note that goes beside every parameter table."""
+    return f"<p class='meta caveat'>{esc(INTERVALS_CAVEAT.capitalize())}.</p>"
 
 
 def _determined_cell(summary: Json) -> str:
@@ -392,7 +398,8 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
             classes.append("leader" if k == 0 else "")
         out.append("<p>Mechanisms sorted by posterior probability. ln Z: log-evidence "
                    "(stepping-stone) ± Monte Carlo error; ln B: log Bayes factor against the "
-                   "leader; parameters: posterior median [68 % interval].</p>")
+                   "leader; parameters: posterior median [68 % interval]; "
+                   f"{esc(INTERVALS_CAVEAT)}.</p>")
         out.append(table(["mechanism", "ln Z", "probability", "ln B vs leader", "adequate",
                           "parameters", "case against"], rows, numeric=(1, 2, 3),
                          row_classes=classes))
@@ -661,7 +668,8 @@ def _parameter_table(m: Json, path: str) -> str:
         rows.append([f"{esc(symbol)}" + (f" [{esc(unit)}]" if unit else ""), value, ci,
                      prior_text])
     return ("<p>Parameters (posterior median, 68 % interval) and priors:</p>"
-            + table(["parameter", "median", "68 %", "prior"], rows, numeric=(1, 2)))
+            + table(["parameter", "median", "68 %", "prior"], rows, numeric=(1, 2))
+            + intervals_caveat())
 
 
 def _cautions_section(data: Json) -> str:

@@ -27,6 +27,7 @@ from mechid.formatting import (
     undetermined_note,
 )
 from mechid.inference.adequacy import MAX_NOISE_RATIO, MIN_PREDICTIVE_P
+from mechid.results import INTERVALS_CAVEAT
 
 Json = Mapping[str, Any]
 
@@ -379,7 +380,8 @@ def results_paragraph(data: Json) -> str:
         parts.append(_runner_up_sentence(mechanisms, verdict))
     params = key_parameters(best)
     if params:
-        parts.append("Its parameters (posterior median with 68 % and 95 % credible intervals): "
+        parts.append("Its parameters (posterior median with 68 % and 95 % credible intervals; "
+                     f"the {INTERVALS_CAVEAT}): "
                      + "; ".join(parameter_text(parameter_symbol(best["id"], n), s)
                                  for n, s in params) + ".")
     adequacy = best.get("adequacy") or {}
