@@ -21,8 +21,18 @@ from mechid.catalogue.base import Mechanism, Parameter, ParameterHints
 from mechid.data import IVSeries
 from mechid.device import Device
 from mechid.errors import MechidError, UnknownMechanismError
-from mechid.formatting import format_estimate, format_probability, undetermined_note
-from mechid.inference.adequacy import MAX_NOISE_RATIO, MIN_PREDICTIVE_P, AdequacyCheck
+from mechid.formatting import (
+    format_estimate,
+    format_probability,
+    plain_parameter_name,
+    undetermined_note,
+)
+from mechid.inference.adequacy import (
+    MAX_NOISE_RATIO,
+    MIN_PREDICTIVE_P,
+    NOISE_RESOLUTION,
+    AdequacyCheck,
+)
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
@@ -416,12 +426,14 @@ def failing_statistics(adequacy: AdequacyCheck) -> list[str]:
         failing.append(
             f"chi-square predictive {_p_value(adequacy.predictive_p_chi_square)}: the residuals "
             "are larger than the fitted noise allows")
-    ratio = adequacy.noise_ratio
-    if ratio is not None and ratio > MAX_NOISE_RATIO:
+    ratio, scatter = adequacy.noise_ratio, adequacy.model_free_relative_noise
+    if ratio is not None and scatter is not None and ratio > MAX_NOISE_RATIO:
+        scatter_text = (f"{scatter:.2%}" if scatter >= NOISE_RESOLUTION
+                        else f"below {NOISE_RESOLUTION:.2%}, counted as {NOISE_RESOLUTION:.2%}")
         failing.append(
             f"fitted relative noise {adequacy.fitted_relative_noise:.2%} is {ratio:.1f} times the "
-            f"point-to-point scatter of the data ({adequacy.model_free_relative_noise:.2%}), so "
-            "the noise term absorbed a misfit and the reduced chi-square near 1 means nothing")
+            f"point-to-point scatter of the data ({scatter_text}), so the noise term absorbed a "
+            "misfit and a reduced chi-square near 1 says nothing about the fit")
     return failing
 
 
@@ -455,7 +467,8 @@ def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b
     """
     physical = [k for k, s in best.parameters.items()
                 if not k.startswith("noise_") and not s.fixed]
-    params = "; ".join(_format_parameter(k, best.parameters[k]) for k in physical)
+    params = "; ".join(_format_parameter(plain_parameter_name(k, best.parameters[k].unit),
+                                         best.parameters[k]) for k in physical)
     probability = format_probability(best.probability)
     candidates = f"the {n_candidates} mechanisms fitted ({prior_odds})"
     not_resolved = "" if resolved else ", not resolved within the Monte Carlo error"

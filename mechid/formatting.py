@@ -75,3 +75,15 @@ def format_probability(probability: float) -> str:
 def undetermined_note(reasons: Sequence[str]) -> str:
     """`` [not determined by the data: ...]`` after a parameter's value (empty when none)."""
     return f" [not determined by the data: {'; '.join(reasons)}]" if reasons else ""
+
+
+def plain_parameter_name(name: str, unit: str) -> str:
+    """A parameter's name in prose: ``trap_depth_eV`` -> ``trap depth`` (unit suffix dropped).
+
+    Parameter names carry their unit as a suffix (``_eV``, ``_nm``, ``_S_per_cm`` for S/cm,
+    ``_A_per_cm2`` for A/cm^2); the unit is printed after the value instead.
+    """
+    suffix = "_" + unit.replace("/", "_per_").replace("^", "")
+    if unit not in ("", "1") and name.endswith(suffix):
+        name = name[: -len(suffix)]
+    return name.replace("_", " ")

@@ -17,23 +17,26 @@ from pathlib import Path
 import numpy as np
 import pytest
 from rich.console import Console
+from typer.testing import CliRunner
 
 from mechid.analysis import (
     AnalysisSettings,
     _ranked_results,
     _verdict,
     determination,
+    failing_statistics,
     prior_interval,
 )
-from mechid.catalogue import get_mechanism
+from mechid.catalogue import get_mechanism, registered_mechanisms
+from mechid.cli import app
 from mechid.device import Device, Measured
-from mechid.formatting import format_probability
+from mechid.formatting import format_probability, plain_parameter_name
 from mechid.inference.adequacy import AdequacyCheck
 from mechid.inference.compare import KASS_RAFTERY_SCALE
 from mechid.inference.priors import Prior, parameter_prior
 from mechid.report.console import render_console
 from mechid.report.html import _Figures, _parameter_table, _ranking_section, _verdict_section
-from mechid.report.text import results_paragraph
+from mechid.report.text import case_against, results_paragraph
 from mechid.results import MechanismResult, SamplingSummary, summarise_draws, to_plain_json
 
 #: Every strength word of the Kass & Raftery (1995) scale.
@@ -349,3 +352,67 @@ def test_intervals_are_labelled_beside_every_parameter_table():
     assert CAVEAT in results_paragraph(data)
     schema_doc = (Path(__file__).resolve().parents[1] / "docs" / "result-schema.md").read_text()
     assert CAVEAT in re.sub(r"\s+", " ", schema_doc)
+
+
+# --------------------------------------------------------------------------------------------
+# 5. Text and command-line defects
+# --------------------------------------------------------------------------------------------
+
+
+def test_prose_uses_plain_parameter_names_not_json_keys():
+    # Before: "trap_depth_eV = 1.2000 eV" in the verdict sentence.
+    assert plain_parameter_name("trap_depth_eV", "eV") == "trap depth"
+    assert plain_parameter_name("prefactor_S_per_cm", "S/cm") == "prefactor"
+    assert plain_parameter_name("prefactor_A_per_cm2", "A/cm^2") == "prefactor"
+    assert plain_parameter_name("dielectric_constant", "1") == "dielectric constant"
+    verdict, _ = verdict_of(mechanism("poole_frenkel", -100.0), mechanism("schottky", -110.0))
+    assert "trap depth = 1.2000 eV (68 %" in verdict.sentence
+    assert "trap_depth_eV" not in verdict.sentence
+
+
+def test_results_paragraph_gives_the_leaders_parameters_before_the_runner_up():
+    # Before: "The runner-up, ..., trails by ..." came first, so "Its parameters" read as the
+    # runner-up's.
+    paragraph = results_paragraph(plain_result(mechanism("poole_frenkel", -100.0),
+                                               mechanism("schottky", -110.0)))
+    assert paragraph.index("Its parameters") < paragraph.index("The runner-up")
+    first_sentences = paragraph[:paragraph.index("The runner-up")]
+    assert "poole frenkel has the highest evidence" in first_sentences
+
+
+def test_case_against_does_not_repeat_against_it():
+    # Before: the report printed "Against it: evidence against it: ln B = ...".
+    data = plain_result(mechanism("poole_frenkel", -100.0), mechanism("schottky", -110.0))
+    reasons = case_against(data, data["mechanisms"][1])
+    assert reasons == ["ln B = -10.00 ± 0.14 relative to the leader (Kass & Raftery: very "
+                       "strong)"]
+
+
+def test_analyze_help_is_readable_at_80_columns():
+    # Before: both optical options were cut to the same "--optical-dielectric-co…".
+    result = CliRunner().invoke(app, ["analyze", "--help"], env={"COLUMNS": "80"})
+    assert result.exit_code == 0
+    assert "…" not in result.output
+    assert max(len(line) for line in result.output.splitlines()) <= 80
+    for option in ("--optical-dielectric-constant ", "--optical-dielectric-constant-sd ",
+                   "--thickness-sd-nm ", "--effective-mass-sd "):
+        assert option in result.output
+    helps = [line.split("│")[1].split()[2:] for line in result.output.splitlines()
+             if "--optical-dielectric-constant" in line]
+    assert len(helps) == 2 and helps[0] != helps[1]
+
+
+def test_mechanisms_listing_does_not_prefix_formulas_with_i():
+    # Before: "I = J = e/(2 pi h ...)" and "I = I = G0 V ...".
+    result = CliRunner().invoke(app, ["mechanisms"], env={"COLUMNS": "200"})
+    assert result.exit_code == 0
+    assert "I = J =" not in result.output and "I = I =" not in result.output
+    assert result.output.count("formula: ") == len(registered_mechanisms())
+
+
+def test_noise_ratio_statistic_states_the_resolution_it_used():
+    # adequacy divides by max(scatter, 0.1 %): a scatter of 0.02 % is quoted as such
+    tiny = replace(ABSORBED_MISFIT, model_free_relative_noise=0.0002, noise_ratio=115.0)
+    (_, noise) = failing_statistics(tiny)
+    assert "115.0 times the point-to-point scatter of the data (below 0.10%, counted as " \
+           "0.10%)" in noise

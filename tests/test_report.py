@@ -28,7 +28,7 @@ from mechid.catalogue import get_mechanism
 from mechid.data import read_series
 from mechid.device import read_device_toml
 from mechid.errors import MechidWarning
-from mechid.formatting import format_estimate
+from mechid.formatting import format_estimate, plain_parameter_name
 from mechid.report import build_report_html, write_outputs
 from mechid.report.console import render_console
 from mechid.report.figures import _power_of_ten, corner_labels
@@ -224,8 +224,9 @@ def test_parameter_format_matches_the_verdict_sentence(fitted_outputs: dict[str,
     for name, summary in best["parameters"].items():
         if name.startswith("noise_") or summary["fixed"]:
             continue
-        text = parameter_text(name, summary)
+        text = parameter_text(plain_parameter_name(name, summary["unit"]), summary)
         assert text in sentence
+        assert f"{name} =" not in sentence  # plain words in prose, not the JSON key
         spec = estimate_spec(summary)
         assert fmt(summary["median"], spec) in text
 

@@ -216,8 +216,8 @@ def case_against(data: Json, mechanism: Json) -> list[str]:
     ln_b = mechanism.get("ln_bayes_factor_vs_best")
     if is_number(ln_b) and ln_b < 0:
         err = mechanism.get("ln_bayes_factor_vs_best_err")
-        reasons.append(f"evidence against it: ln B = {fmt_ln(ln_b)} ± {fmt_ln(err)} relative to "
-                       f"the leader ({kass_raftery_wording(-ln_b)})")
+        reasons.append(f"ln B = {fmt_ln(ln_b)} ± {fmt_ln(err)} relative to the leader "
+                       f"(Kass & Raftery: {kass_raftery_wording(-ln_b)})")
     elif ln_b is None and mechanism.get("log_evidence") is None:
         reasons.append("its evidence could not be estimated")
     if not mechanism.get("fit_adequate"):
@@ -376,14 +376,14 @@ def results_paragraph(data: Json) -> str:
         f"posterior probability {fmt_probability(best.get('probability'))} among these "
         "candidates."
     ]
-    if verdict.get("runner_up"):
-        parts.append(_runner_up_sentence(mechanisms, verdict))
     params = key_parameters(best)
     if params:
         parts.append("Its parameters (posterior median with 68 % and 95 % credible intervals; "
                      f"the {INTERVALS_CAVEAT}): "
                      + "; ".join(parameter_text(parameter_symbol(best["id"], n), s)
                                  for n, s in params) + ".")
+    if verdict.get("runner_up"):
+        parts.append(_runner_up_sentence(mechanisms, verdict))
     adequacy = best.get("adequacy") or {}
     failing = verdict.get("failing_statistics") or []
     if not best.get("fit_adequate") and failing:
