@@ -416,3 +416,16 @@ def test_noise_ratio_statistic_states_the_resolution_it_used():
     (_, noise) = failing_statistics(tiny)
     assert "115.0 times the point-to-point scatter of the data (below 0.10%, counted as " \
            "0.10%)" in noise
+
+
+def test_a_single_fitted_mechanism_is_not_given_a_comparison():
+    data = plain_result(mechanism("poole_frenkel", -100.0))
+    verdict = data["verdict"]
+    assert verdict["headline"] == "the only mechanism fitted"
+    assert "is the only mechanism fitted, so no comparison was made" in verdict["sentence"]
+    assert "Kass & Raftery" not in verdict["sentence"]
+    card = card_text(data)
+    assert "the only mechanism fitted: 1 by construction, no comparison" in card
+    assert "among the 1 mechanisms" not in card
+    assert results_paragraph(data).startswith("Only poole frenkel was fitted (ln Z = -100.00 ± "
+                                              "0.10), so no comparison was made.")

@@ -253,8 +253,11 @@ def _toc(order: Sequence[str], data: Json) -> str:
 
 def _probability_tile(data: Json, verdict: Json) -> tuple[str, str, str]:
     n = verdict.get("n_candidates")
-    return ("Posterior probability",
-            num(verdict.get("probability"), PROBABILITY_SPEC, "verdict.probability"),
+    value = num(verdict.get("probability"), PROBABILITY_SPEC, "verdict.probability")
+    if n == 1:
+        return ("Posterior probability", value,
+                "the only mechanism fitted: 1 by construction, no comparison")
+    return ("Posterior probability", value,
             f"among the {esc(n)} mechanisms fitted; {esc(verdict.get('prior_odds'))}")
 
 

@@ -369,12 +369,14 @@ def results_paragraph(data: Json) -> str:
     if not mechanisms or verdict is None:
         return screening_results(data)
     best = mechanisms[0]
+    evidence = (f"ln Z = {fmt_ln(best.get('log_evidence'))} ± "
+                f"{fmt_ln(best.get('log_evidence_err'))}")
     parts = [
+        f"Only {best.get('name')} was fitted ({evidence}), so no comparison was made."
+        if len(mechanisms) == 1 else
         f"Of the {len(mechanisms)} mechanisms fitted ({verdict.get('prior_odds')}), "
-        f"{best.get('name')} has the highest evidence, ln Z = "
-        f"{fmt_ln(best.get('log_evidence'))} ± {fmt_ln(best.get('log_evidence_err'))}, and a "
-        f"posterior probability {fmt_probability(best.get('probability'))} among these "
-        "candidates."
+        f"{best.get('name')} has the highest evidence, {evidence}, and a posterior probability "
+        f"{fmt_probability(best.get('probability'))} among these candidates."
     ]
     params = key_parameters(best)
     if params:
