@@ -7,22 +7,36 @@ It prints nothing; progress is reported through an optional callback.
 
 from __future__ import annotations
 
+import math
 import time
 from collections.abc import Callable, Mapping
 from dataclasses import asdict, dataclass, field, replace
 from typing import Any, Literal
 
 import numpy as np
+from scipy import stats
 
 from mechid.catalogue import get_mechanism, registered_mechanisms
-from mechid.catalogue.base import Mechanism, ParameterHints
+from mechid.catalogue.base import Mechanism, Parameter, ParameterHints
 from mechid.data import IVSeries
 from mechid.device import Device
-from mechid.errors import MechidError
-from mechid.formatting import format_estimate
+from mechid.errors import MechidError, UnknownMechanismError
+from mechid.formatting import (
+    format_estimate,
+    format_probability,
+    plain_parameter_name,
+    undetermined_note,
+)
+from mechid.inference.adequacy import (
+    MAX_NOISE_RATIO,
+    MIN_PREDICTIVE_P,
+    NOISE_RESOLUTION,
+    AdequacyCheck,
+)
 from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
 from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
+from mechid.inference.priors import Prior
 from mechid.inference.rounds import FitJob, default_workers, fit_candidates_in_rounds
 from mechid.inference.settings import (
     FULL_LADDER,
@@ -33,6 +47,7 @@ from mechid.inference.settings import (
     SearchSettings,
 )
 from mechid.results import (
+    QUICK_RUN_BANNER,
     AnalysisResult,
     MechanismResult,
     NotFittedMechanism,
@@ -172,7 +187,7 @@ def run_analysis_full(
         not_fitted = tuple(outcome.not_fitted[m.id] for m in mechanisms
                            if m.id in outcome.not_fitted)
     results = _ranked_results(fits, settings)
-    verdict = _verdict(results, not_fitted) if results else None
+    verdict = _verdict(results, settings, not_fitted) if results else None
     result = AnalysisResult(
         input={**series.summary(), "polarity": settings.polarity,
                "n_points_fitted": int(mask.sum())},
@@ -227,12 +242,137 @@ def _ranked_results(fits: dict[str, MechanismFit], settings: AnalysisSettings) -
         replace(fits[mechanism_id].result,
                 probability=ranking.probability[i], probability_err=ranking.probability_err[i],
                 ln_bayes_factor_vs_best=ranking.ln_bayes_factor_vs_best[i],
-                ln_bayes_factor_vs_best_err=ranking.ln_bayes_factor_vs_best_err[i])
+                ln_bayes_factor_vs_best_err=ranking.ln_bayes_factor_vs_best_err[i],
+                parameters=determination(fits[mechanism_id].result))
         for i, mechanism_id in enumerate(ranking.ids)
     ]
 
 
-def _verdict(results: list[MechanismResult],
+#: A 95 % interval ending closer than this share of the prior range to one of its edges is
+#: pinned there (in the sampling coordinate: log10 for log-scale parameters).
+EDGE_SHARE = 0.01
+#: Prior 68 % width over posterior 68 % width below which the data barely narrow the prior.
+MIN_WIDTH_RATIO = 1.5
+#: |r| above which two parameters form a ridge: only a combination of them is determined.
+RIDGE_CORRELATION = 0.99
+
+
+def prior_interval(prior: Prior, mass: float = 0.68) -> tuple[float, float]:
+    """The central ``mass`` interval of a prior, in physical units.
+
+    Uniform: ``lower + q (upper - lower)``; log-uniform: the same in log10; truncated
+    normal: the quantiles of the truncated distribution (scipy.stats.truncnorm).
+    """
+    q = np.array([(1 - mass) / 2, (1 + mass) / 2])
+    if prior.kind == "uniform":
+        values = prior.lower + q * (prior.upper - prior.lower)
+    elif prior.kind == "log_uniform":
+        lo, hi = np.log10(prior.lower), np.log10(prior.upper)
+        values = 10.0 ** (lo + q * (hi - lo))
+    elif prior.kind == "truncated_normal":
+        assert prior.mean is not None and prior.sd is not None
+        a, b = (prior.lower - prior.mean) / prior.sd, (prior.upper - prior.mean) / prior.sd
+        values = stats.truncnorm.ppf(q, a, b, loc=prior.mean, scale=prior.sd)
+    else:
+        raise ValueError("a fixed parameter has no prior interval")
+    return float(values[0]), float(values[1])
+
+
+def _width(prior: Prior, interval: tuple[float, float]) -> float:
+    """Width of an interval in the prior's sampling coordinate."""
+    lo, hi = prior.to_internal(np.asarray(interval, dtype=float))
+    return float(hi - lo)
+
+
+def _edge_reason(prior: Prior, summary: ParameterSummary) -> str | None:
+    lo, hi = prior.internal_bounds()
+    ci_lo, ci_hi = prior.to_internal(np.asarray(summary.ci95, dtype=float))
+    margin = EDGE_SHARE * (hi - lo)
+    unit = "" if prior.unit in ("", "1") else f" {prior.unit}"
+    for side, bound, distance in (("lower", prior.lower, ci_lo - lo), ("upper", prior.upper, hi - ci_hi)):
+        if distance < margin:
+            return (f"pinned at the prior's {side} edge {bound:.4g}{unit} (95 % interval within "
+                    f"{EDGE_SHARE:.0%} of the prior range of it)")
+    return None
+
+
+def _prior_reason(prior: Prior, summary: ParameterSummary) -> str | None:
+    posterior_width = _width(prior, summary.ci68)
+    prior_width = _width(prior, prior_interval(prior))
+    ratio = prior_width / posterior_width if posterior_width > 0 else math.inf
+    if ratio < MIN_WIDTH_RATIO:
+        return (f"posterior about the prior: 68 % interval only {ratio:.2f} times narrower than "
+                f"the prior's (criterion {MIN_WIDTH_RATIO:g})")
+    return None
+
+
+def _ridge_reasons(name: str, correlations: Mapping[str, Any], label: Callable[[str], str]
+                   ) -> list[str]:
+    reasons = []
+    for pair in correlations.get("notable") or []:
+        if name in (pair["a"], pair["b"]) and abs(pair["r"]) > RIDGE_CORRELATION:
+            other = pair["b"] if pair["a"] == name else pair["a"]
+            reasons.append(f"ridge with {label(other)} (r = {pair['r']:.4f}): only a "
+                           "combination of the two is determined")
+    return reasons
+
+
+def _device_range_reason(prior: Prior, parameter: Parameter | None) -> str | None:
+    value = prior.value if prior.is_fixed else prior.mean
+    if (parameter is None or value is None or not prior.origin.startswith("device description")
+            or parameter.lower <= value <= parameter.upper):
+        return None
+    unit = "" if prior.unit in ("", "1") else f" {prior.unit}"
+    return (f"device value {value:.4g}{unit} lies outside the range the formula is declared "
+            f"for ({parameter.lower:.4g} to {parameter.upper:.4g}{unit})")
+
+
+def determination(result: MechanismResult) -> dict[str, ParameterSummary]:
+    """Each parameter's summary with ``determined`` and ``reasons`` set.
+
+    A parameter is not determined by the data when (criteria in the sampling coordinate,
+    log10 for log-scale parameters):
+
+    * its 95 % interval ends within :data:`EDGE_SHARE` (1 %) of the prior range from an edge
+      (pinned there: the range, not the data, sets the value);
+    * its prior's 68 % interval is less than :data:`MIN_WIDTH_RATIO` (1.5) times as wide as
+      its posterior's (the data barely narrow the prior);
+    * it forms a ridge, |r| > :data:`RIDGE_CORRELATION` (0.99), with another parameter;
+    * its device value lies outside the mechanism's declared range (the prior is then a
+      tail of the device's value, cut at the range).
+
+    Held parameters are checked for the last rule only.
+    """
+    try:
+        mechanism: Mechanism | None = get_mechanism(result.id)
+    except UnknownMechanismError:
+        mechanism = None
+
+    def declared(name: str) -> Parameter | None:
+        if mechanism is None or name not in mechanism.parameter_names:
+            return None
+        return mechanism.parameter(name)
+
+    def label(name: str) -> str:
+        parameter = declared(name)
+        return parameter.symbol if parameter is not None else name
+
+    priors = {prior.name: prior for prior in result.priors}
+    summaries = {}
+    for name, summary in result.parameters.items():
+        prior = priors.get(name)
+        reasons: list[str | None] = []
+        if prior is not None:
+            reasons.append(_device_range_reason(prior, declared(name)))
+            if not prior.is_fixed and not summary.fixed:
+                reasons += [_edge_reason(prior, summary), _prior_reason(prior, summary)]
+                reasons += _ridge_reasons(name, result.correlations, label)
+        found = tuple(r for r in reasons if r)
+        summaries[name] = replace(summary, determined=not found, reasons=found)
+    return summaries
+
+
+def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
              not_fitted: tuple[NotFittedMechanism, ...] = ()) -> Verdict:
     best = results[0]
     runner = results[1] if len(results) > 1 else None
@@ -240,14 +380,21 @@ def _verdict(results: list[MechanismResult],
     ln_b_err = runner.ln_bayes_factor_vs_best_err if runner else 0.0
     strength = kass_raftery_wording(ln_b) if runner else "only one mechanism fitted"
     resolved = runner is None or ln_b > 2 * ln_b_err
+    failing = failing_statistics(best.adequacy)
+    odds = prior_odds_text(settings.prior_odds)
+    headline = (INADEQUATE_HEADLINE if not best.fit_adequate
+                else f"most probable of the {len(results)} mechanisms fitted" if runner
+                else "the only mechanism fitted")
     return Verdict(
         id=best.id, family=best.family, probability=best.probability,
         ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=ln_b_err,
         runner_up=runner.id if runner else None, strength=strength, resolved=resolved,
-        fit_adequate=best.fit_adequate,
-        sentence=verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved)
+        fit_adequate=best.fit_adequate, n_candidates=len(results), prior_odds=odds,
+        headline=headline, failing_statistics=tuple(failing), quick_run=settings.quick,
+        sentence=quick_run_prefix(settings.quick)
+        + verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved,
+                           n_candidates=len(results), prior_odds=odds)
         + _not_fitted_sentence(len(results), not_fitted),
-        n_fitted=len(results),
     )
 
 
@@ -262,30 +409,108 @@ def _not_fitted_sentence(n_fitted: int, not_fitted: tuple[NotFittedMechanism, ..
             + ", ".join(m.id for m in not_fitted) + ".")
 
 
+def quick_run_prefix(quick: bool) -> str:
+    """``"Quick run: a first look; quote numbers from a full run. "`` for a quick run."""
+    return f"{QUICK_RUN_BANNER[0].upper()}{QUICK_RUN_BANNER[1:]}. " if quick else ""
+
+
+#: The headline of a leader that fails its posterior predictive checks.
+INADEQUATE_HEADLINE = "best of the candidates; none describes the data well"
+
+
+def prior_odds_text(prior_odds: Mapping[str, float] | None) -> str:
+    """``"equal prior odds"`` or ``"the stated prior odds (a: 2, b: 1)"``."""
+    if not prior_odds:
+        return "equal prior odds"
+    return ("the stated prior odds ("
+            + ", ".join(f"{k}: {v:g}" for k, v in prior_odds.items())
+            + "; 1 for any mechanism not named)")
+
+
+def failing_statistics(adequacy: AdequacyCheck) -> list[str]:
+    """Each failed posterior predictive check: its statistic and what it means, in words.
+
+    The thresholds are those of :mod:`mechid.inference.adequacy` (predictive p-values below
+    ``MIN_PREDICTIVE_P``, a fitted-to-model-free noise ratio above ``MAX_NOISE_RATIO``).
+    """
+    failing = []
+    if adequacy.predictive_p_runs < MIN_PREDICTIVE_P:
+        failing.append(
+            f"residual runs: {adequacy.residual_runs} runs of same-sign residuals along the bias "
+            f"axis where about {adequacy.expected_runs:.0f} are expected (predictive "
+            f"{_p_value(adequacy.predictive_p_runs)}), so the model's curve shape is "
+            "systematically off")
+    if adequacy.predictive_p_chi_square < MIN_PREDICTIVE_P:
+        failing.append(
+            f"chi-square predictive {_p_value(adequacy.predictive_p_chi_square)}: the residuals "
+            "are larger than the fitted noise allows")
+    ratio, scatter = adequacy.noise_ratio, adequacy.model_free_relative_noise
+    if ratio is not None and scatter is not None and ratio > MAX_NOISE_RATIO:
+        scatter_text = (f"{scatter:.2%}" if scatter >= NOISE_RESOLUTION
+                        else f"below {NOISE_RESOLUTION:.2%}, counted as {NOISE_RESOLUTION:.2%}")
+        failing.append(
+            f"fitted relative noise {adequacy.fitted_relative_noise:.2%} is {ratio:.1f} times the "
+            f"point-to-point scatter of the data ({scatter_text}), so the noise term absorbed a "
+            "misfit and a reduced chi-square near 1 says nothing about the fit")
+    return failing
+
+
+def _p_value(p: float) -> str:
+    """``"p = 0.0043"``; a p-value of 0 (no replicate as extreme) as ``"p < 0.005"``."""
+    return f"p = {p:.2g}" if p > 0 else f"p < {REPLICATE_RESOLUTION:g}"
+
+
+#: Resolution of a predictive p-value from the adequacy check's 200 replicated data sets.
+REPLICATE_RESOLUTION = 1 / 200
+
+
 def _format_parameter(name: str, summary: ParameterSummary) -> str:
     if summary.fixed:
         unit = "" if summary.unit in ("", "1") else f" {summary.unit}"
-        return f"{name} = {summary.median:.4g}{unit} (held fixed)"
-    return f"{name} = {format_estimate(summary.median, summary.ci68, summary.ci95, summary.unit)}"
+        return f"{name} = {summary.median:.4g}{unit} (held fixed)" + undetermined_note(summary.reasons)
+    return (f"{name} = {format_estimate(summary.median, summary.ci68, summary.ci95, summary.unit)}"
+            + undetermined_note(summary.reasons))
 
 
 def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b: float,
-                     ln_b_err: float, strength: str, resolved: bool) -> str:
-    """The headline in plain words, with the numbers of the run."""
+                     ln_b_err: float, strength: str, resolved: bool, *, n_candidates: int,
+                     prior_odds: str = "equal prior odds") -> str:
+    """The headline in plain words, with the numbers of the run.
+
+    It names the candidate set and the prior odds the probability is conditional on, shows
+    the probability as a bound near 0 or 1 (:func:`mechid.formatting.format_probability`),
+    and, when the leader fails its posterior predictive checks, says so first, with the
+    failing statistics, and gives no strength word: a Bayes factor between candidates that
+    all fail only orders them.
+    """
     physical = [k for k, s in best.parameters.items()
                 if not k.startswith("noise_") and not s.fixed]
-    params = "; ".join(_format_parameter(k, best.parameters[k]) for k in physical)
-    text = (f"{best.name} ({best.id}) is the most probable mechanism, with posterior "
-            f"probability {best.probability:.3g}")
-    if runner is not None:
-        text += (f"; the Bayes factor against the runner-up, {runner.name}, is "
-                 f"ln B = {ln_b:.2f} ± {ln_b_err:.2f} ({strength} on the Kass & Raftery scale"
-                 + ("" if resolved else ", not resolved within the Monte Carlo error") + ")")
+    params = "; ".join(_format_parameter(plain_parameter_name(k, best.parameters[k].unit),
+                                         best.parameters[k]) for k in physical)
+    probability = format_probability(best.probability)
+    candidates = f"the {n_candidates} mechanisms fitted ({prior_odds})"
+    not_resolved = "" if resolved else ", not resolved within the Monte Carlo error"
+    if not best.fit_adequate:
+        text = (f"{INADEQUATE_HEADLINE[0].upper()}{INADEQUATE_HEADLINE[1:]}: among {candidates}, "
+                f"{best.name} ({best.id}) ranks first, but its fit fails the posterior "
+                "predictive checks: " + "; ".join(failing_statistics(best.adequacy)) + ".")
+        if runner is not None:
+            text += (f" Its posterior probability ({probability} among the candidates) and "
+                     f"ln B = {ln_b:.2f} ± {ln_b_err:.2f} against the runner-up, {runner.name}"
+                     f"{not_resolved}, only order candidates that all fail; they do not show "
+                     "that it is the conduction mechanism.")
+        text += f" Parameters of this inadequate fit: {params}." if params else ""
+        return text
+    if runner is None:
+        text = (f"{best.name} ({best.id}) is the only mechanism fitted, so no comparison was "
+                "made")
+    else:
+        text = (f"Among {candidates}, {best.name} ({best.id}) is the most probable, with "
+                f"posterior probability {probability} among the candidates; the Bayes factor "
+                f"against the runner-up, {runner.name}, is ln B = {ln_b:.2f} ± {ln_b_err:.2f} "
+                f"({strength} on the Kass & Raftery scale{not_resolved})")
     text += f". Parameters: {params}." if params else "."
-    text += (" The fit is adequate (posterior predictive checks passed)." if best.fit_adequate
-             else " But the fit is NOT adequate: " + "; ".join(best.adequacy.reasons)
-             + ", so no mechanism in the catalogue describes these data well.")
-    return text
+    return text + " The fit is adequate (posterior predictive checks passed)."
 
 
 def cautions(series: IVSeries, device: Device, results: list[MechanismResult],

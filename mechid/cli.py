@@ -9,7 +9,7 @@ import warnings
 from collections.abc import Iterator
 from contextlib import contextmanager
 from pathlib import Path
-from typing import Annotated
+from typing import Annotated, Any
 
 import numpy as np
 import typer
@@ -160,20 +160,30 @@ def _option_spelling(message: str) -> str:
     return _DEVICE_KEY_PATTERN.sub(lambda match: DEVICE_OPTIONS[match[0]], message)
 
 
-ThicknessOpt = Annotated[float | None, typer.Option("--thickness-nm", help="Film thickness in nm.")]
-ThicknessSdOpt = Annotated[float | None, typer.Option(
-    "--thickness-sd-nm", help="Standard uncertainty of the thickness (nm); omit to hold it fixed.")]
-AreaOpt = Annotated[float | None, typer.Option("--area-cm2", help="Electrode area in cm^2.")]
-MassOpt = Annotated[float | None, typer.Option(
-    "--effective-mass", help="Tunnelling effective mass ratio m*/m0.")]
-MassSdOpt = Annotated[float | None, typer.Option(
-    "--effective-mass-sd", help="Standard uncertainty of m*/m0.")]
-EpsOpt = Annotated[float | None, typer.Option(
-    "--optical-dielectric-constant", help="High-frequency relative permittivity (about n^2).")]
-EpsSdOpt = Annotated[float | None, typer.Option(
-    "--optical-dielectric-constant-sd", help="Standard uncertainty of the optical dielectric constant.")]
+#: The help panel of the device options (short texts, so that the long option names are
+#: not cut at 80 columns; the panel title says what an omitted uncertainty means).
+DEVICE_PANEL = "Device (an omitted *-sd holds that value fixed)"
+
+
+def _device_option(name: str, metavar: str, text: str) -> Any:
+    """A device-description option in the device panel."""
+    return typer.Option(name, metavar=metavar, help=text, rich_help_panel=DEVICE_PANEL)
+
+
+ThicknessOpt = Annotated[float | None, _device_option("--thickness-nm", "NM", "Film thickness.")]
+ThicknessSdOpt = Annotated[float | None, _device_option(
+    "--thickness-sd-nm", "NM", "Standard uncertainty of d.")]
+AreaOpt = Annotated[float | None, _device_option("--area-cm2", "CM2", "Electrode area.")]
+MassOpt = Annotated[float | None, _device_option(
+    "--effective-mass", "M", "Tunnelling mass m*/m0.")]
+MassSdOpt = Annotated[float | None, _device_option(
+    "--effective-mass-sd", "S", "Standard uncertainty of m*/m0.")]
+EpsOpt = Annotated[float | None, _device_option(
+    "--optical-dielectric-constant", "E", "Optical eps_r, about n^2.")]
+EpsSdOpt = Annotated[float | None, _device_option(
+    "--optical-dielectric-constant-sd", "S", "Standard uncertainty of eps_r.")]
 SeedOpt = Annotated[int, typer.Option(
-    "--seed", min=0, help="Random seed (>= 0); the same seed gives the same numbers.")]
+    "--seed", min=0, metavar="N", help="Random seed (>= 0); the same seed gives the same numbers.")]
 
 
 @app.command("mechanisms")
@@ -181,7 +191,7 @@ def list_mechanisms() -> None:
     """List every catalogued mechanism: formula, parameters with units and ranges, source."""
     for m in MECHANISMS:
         out.rule(f"[bold]{m.id}[/]  ({m.family}) {m.name}")
-        out.print(f"  I = {m.formula}", highlight=False, markup=False)
+        out.print(f"  formula: {m.formula}", highlight=False, markup=False)
         out.print(f"  source: {m.source}", highlight=False, markup=False)
         if m.temperature_dependence:
             out.print(f"  temperature dependence: {m.temperature_dependence}", highlight=False,
@@ -271,7 +281,7 @@ def analyze_command(
     summary_path: Annotated[Path | None, typer.Option(
         "--summary", help="Write one CSV row per mechanism and parameter.")] = None,
     only: Annotated[list[str], typer.Option(
-        "--mechanism", help="Fit only these mechanism ids (repeatable; default: all).")] = [],  # noqa: B006
+        "--mechanism", metavar="ID", help="Fit only these mechanism ids (repeatable; default: all).")] = [],  # noqa: B006
     screen_only: Annotated[bool, typer.Option(
         "--screen-only", help="Run only the straightened-plot tests (no Bayesian fit).")] = False,
     quick: Annotated[bool, typer.Option(
@@ -279,11 +289,12 @@ def analyze_command(
     polarity: Annotated[str, typer.Option(
         "--polarity", help="both (joint fit), positive or negative: which bias points to fit.")] = "both",
     prior_odds: Annotated[list[str], typer.Option(
-        "--prior-odds", help="ID=WEIGHT relative prior weight of a mechanism (repeatable; "
+        "--prior-odds", metavar="ID=WEIGHT", help="Relative prior weight of a mechanism (repeatable; "
                              "default: equal odds).")] = [],  # noqa: B006
     workers: Annotated[int, typer.Option(
-        "--workers", min=0, help="Processes fitting mechanisms side by side (0: one per core, at "
-                                 "most 2). Results do not depend on it.")] = 0,
+        "--workers", min=0, metavar="N",
+        help="Processes fitting mechanisms side by side (0: one per core, at most 2). Results do "
+             "not depend on it.")] = 0,
     seed: SeedOpt = 0,
 ) -> None:
     """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""

@@ -8,6 +8,7 @@ convention for quoting a result with its uncertainty).
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 
 def last_digit_for(width: float, significant: int = 2) -> int | None:
@@ -50,3 +51,39 @@ def format_estimate(median: float, ci68: tuple[float, float], ci95: tuple[float,
     unit_text = "" if unit in ("", "1") else f" {unit}"
     return (f"{format_number(median, last)}{unit_text} (68 %: {format_interval(*ci68, last)}; "
             f"95 %: {format_interval(*ci95, last)})")
+
+
+#: Posterior probabilities closer than this to 0 or 1 are shown as a bound, never as 0 or 1.
+PROBABILITY_RESOLUTION = 1e-3
+
+
+def format_probability(probability: float) -> str:
+    """A posterior probability as ``"> 0.999"``, ``"< 0.001"`` or three significant digits.
+
+    A probability among a finite set of candidates is never exactly 0 or 1, and three digits
+    of 0.99996 would print "1"; the bounds say what is known without claiming certainty.
+    """
+    if not math.isfinite(probability):
+        return "n/a"
+    if probability > 1.0 - PROBABILITY_RESOLUTION:
+        return f"> {1.0 - PROBABILITY_RESOLUTION:g}"
+    if probability < PROBABILITY_RESOLUTION:
+        return f"< {PROBABILITY_RESOLUTION:g}"
+    return f"{probability:.3g}"
+
+
+def undetermined_note(reasons: Sequence[str]) -> str:
+    """`` [not determined by the data: ...]`` after a parameter's value (empty when none)."""
+    return f" [not determined by the data: {'; '.join(reasons)}]" if reasons else ""
+
+
+def plain_parameter_name(name: str, unit: str) -> str:
+    """A parameter's name in prose: ``trap_depth_eV`` -> ``trap depth`` (unit suffix dropped).
+
+    Parameter names carry their unit as a suffix (``_eV``, ``_nm``, ``_S_per_cm`` for S/cm,
+    ``_A_per_cm2`` for A/cm^2); the unit is printed after the value instead.
+    """
+    suffix = "_" + unit.replace("/", "_per_").replace("^", "")
+    if unit not in ("", "1") and name.endswith(suffix):
+        name = name[: -len(suffix)]
+    return name.replace("_", " ")

@@ -38,7 +38,11 @@ NOT_IN_JSON = {"json": False}
 class ParameterSummary:
     """Posterior summary of one parameter in physical units.
 
-    JSON: ``{"median", "ci68", "ci95", "unit", "fixed"}`` (the name is the key).
+    JSON: ``{"median", "ci68", "ci95", "unit", "fixed", "determined", "reasons"}`` (the name
+    is the key). ``determined`` is false when the data do not determine the value (pinned at
+    a prior edge, posterior about the prior, a ridge with another parameter, a device value
+    outside the formula's range); ``reasons`` says which, in words
+    (:func:`mechid.analysis.determination`).
     """
 
     name: str = field(metadata=NOT_IN_JSON)
@@ -47,6 +51,8 @@ class ParameterSummary:
     ci95: tuple[float, float]
     unit: str
     fixed: bool = False
+    determined: bool = True
+    reasons: tuple[str, ...] = ()
 
 
 def summarise_draws(name: str, unit: str, draws: NDArray) -> ParameterSummary:
@@ -187,9 +193,25 @@ def _exp_or_zero(ln_value: float) -> float:
     return math.exp(ln_value) if ln_value > -745 else 0.0
 
 
+#: What every credible interval is (shown beside every parameter table; docs/result-schema.md).
+INTERVALS_CAVEAT = ("credible intervals are statistical and conditional on the model (formula "
+                    "and noise law) being right")
+
+
+#: The banner of a verdict from a ``--quick`` run (console, report, JSON sentence).
+QUICK_RUN_BANNER = "quick run: a first look; quote numbers from a full run"
+
+
 @dataclass(frozen=True)
 class Verdict:
-    """The headline: the leading mechanism and how strongly the data prefer it."""
+    """The headline: the leading mechanism and how strongly the data prefer it.
+
+    ``probability`` is conditional on the candidate set (``n_candidates`` mechanisms fitted)
+    and on ``prior_odds``. ``strength`` words ln B alone (Kass & Raftery); the ``headline``
+    and ``sentence`` leave it out when the leader is not adequate, and ``failing_statistics``
+    then say which posterior predictive checks failed and what that means. ``quick_run``
+    is true for a ``--quick`` run, whose sentence opens with :data:`QUICK_RUN_BANNER`.
+    """
 
     id: str
     family: str
@@ -201,10 +223,12 @@ class Verdict:
     strength: str
     resolved: bool
     fit_adequate: bool
+    n_candidates: int
+    prior_odds: str
+    headline: str
+    failing_statistics: tuple[str, ...]
+    quick_run: bool
     sentence: str
-    #: How many mechanisms were fitted: the probability is among these (the rest, if any,
-    #: are in ``AnalysisResult.not_fitted``).
-    n_fitted: int | None = None
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "bayes_factor_vs_runner_up",

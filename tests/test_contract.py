@@ -259,7 +259,11 @@ def test_verdict_names_leader_bayes_factor_and_strength(result):
     assert verdict["strength"] == expected
     assert isinstance(verdict["resolved"], bool) and isinstance(verdict["fit_adequate"], bool)
     assert verdict["fit_adequate"] is first["fit_adequate"]
-    assert first["id"] in verdict["sentence"] and expected in verdict["sentence"]
+    assert first["id"] in verdict["sentence"]
+    assert verdict["n_candidates"] == len(FITTED) and verdict["prior_odds"] == "equal prior odds"
+    # the strength word is the headline's only for an adequate leader (issue 11)
+    assert (expected in verdict["sentence"]) is verdict["fit_adequate"]
+    assert bool(verdict["failing_statistics"]) is not verdict["fit_adequate"]
 
 
 def _documented_flags() -> list[tuple[str, str]]:

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import base64
 import csv
+import html
 import io
 import re
 import warnings
@@ -27,7 +28,7 @@ from mechid.catalogue import get_mechanism
 from mechid.data import read_series
 from mechid.device import read_device_toml
 from mechid.errors import MechidWarning
-from mechid.formatting import format_estimate
+from mechid.formatting import format_estimate, plain_parameter_name
 from mechid.report import build_report_html, write_outputs
 from mechid.report.console import render_console
 from mechid.report.figures import _power_of_ten, corner_labels
@@ -209,12 +210,12 @@ def test_verdict_numbers_equal_the_json(fitted_outputs: dict[str, Any]) -> None:
             assert f"mechanisms.0.parameters.{name}.{key}" in paths
     assert n_tagged > 20
     # the verdict sentence is the JSON's, verbatim (HTML-escaped)
-    escaped = verdict["sentence"].replace("&", "&amp;").replace("<", "&lt;")
+    escaped = html.escape(verdict["sentence"], quote=True)
     assert escaped in html_text
     # the numbers of the sentence are those of the JSON, in the same format
     assert f"ln B = {verdict['ln_bayes_factor_vs_runner_up']:.2f}" in verdict["sentence"]
-    assert f"probability {verdict['probability']:.3g}" in verdict["sentence"]
-    assert verdict["strength"] in html_text
+    assert f"probability {fmt(verdict['probability'], 'prob')} among" in verdict["sentence"]
+    assert (verdict["strength"] in html_text) is verdict["fit_adequate"]
 
 
 def test_parameter_format_matches_the_verdict_sentence(fitted_outputs: dict[str, Any]) -> None:
@@ -223,8 +224,9 @@ def test_parameter_format_matches_the_verdict_sentence(fitted_outputs: dict[str,
     for name, summary in best["parameters"].items():
         if name.startswith("noise_") or summary["fixed"]:
             continue
-        text = parameter_text(name, summary)
+        text = parameter_text(plain_parameter_name(name, summary["unit"]), summary)
         assert text in sentence
+        assert f"{name} =" not in sentence  # plain words in prose, not the JSON key
         spec = estimate_spec(summary)
         assert fmt(summary["median"], spec) in text
 

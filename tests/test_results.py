@@ -72,7 +72,7 @@ def test_converter_handles_records_enums_numpy_and_non_finite_numbers():
     assert type(plain["scalars"][1]) is int and type(plain["scalars"][2]) is bool
     assert plain["summary"] == {"median": 2.0, "ci68": [pytest.approx(1.32), pytest.approx(2.68)],
                                 "ci95": [pytest.approx(1.05), pytest.approx(2.95)], "unit": "nm",
-                                "fixed": False}
+                                "fixed": False, "determined": True, "reasons": []}
     json.dumps(plain, allow_nan=False)
 
 
@@ -80,7 +80,9 @@ def test_verdict_bayes_factor_is_derived_from_its_logarithm():
     def verdict(ln_b: float) -> Verdict:
         return Verdict(id="a", family="f", probability=0.9, runner_up="b",
                        ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=0.1,
-                       strength="strong", resolved=True, fit_adequate=True, sentence="s")
+                       strength="strong", resolved=True, fit_adequate=True, n_candidates=2,
+                       prior_odds="equal prior odds", headline="h", failing_statistics=(),
+                       quick_run=False, sentence="s")
 
     # exp(log 20): a few ulp
     assert verdict(math.log(20.0)).bayes_factor_vs_runner_up == pytest.approx(20.0, rel=1e-13)

@@ -145,12 +145,12 @@ def test_a_mechanism_refused_everywhere_is_listed_as_not_fitted_with_its_reason(
     # every barrier of the prior is <= 5 eV, so eV/phi0 >= 5.5/5 = 1.1 for every draw
     assert violation.fraction_of_draws == 1.0 and violation.requirement == "eV/phi0 <= 1"
     assert violation.extreme_value >= 10.0 / 5.0 and violation.at_voltage_V == 10.0
-    assert result.verdict.n_fitted == 1
+    assert result.verdict.n_candidates == 1
     assert "among the 1 mechanism fitted" in result.verdict.sentence
     data = json.loads(json.dumps(to_plain_json(result), allow_nan=False))
     assert data["not_fitted"][0]["id"] == "direct_tunnelling"
     assert data["not_fitted"][0]["violations"][0]["requirement"] == "eV/phi0 <= 1"
-    assert data["verdict"]["n_fitted"] == 1
+    assert data["verdict"]["n_candidates"] == 1
 
 
 def test_the_data_pulling_fn_outside_give_a_caution_in_result_console_and_report(refused_run):

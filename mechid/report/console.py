@@ -26,9 +26,10 @@ from mechid.report.text import (
     key_parameters,
     parameter_symbol,
     screening_entry,
+    undetermined,
     unit_suffix,
 )
-from mechid.results import AnalysisResult, to_plain_json
+from mechid.results import INTERVALS_CAVEAT, QUICK_RUN_BANNER, AnalysisResult, to_plain_json
 
 #: Quantities shown per mechanism in the screening table.
 MAX_SCREENING_QUANTITIES = 3
@@ -75,7 +76,8 @@ def _parameters_cell(mechanism: Mapping[str, Any]) -> str:
         spec = estimate_spec(s)
         parts.append(f"{parameter_symbol(str(mechanism.get('id')), name)}="
                      f"{fmt(s.get('median'), spec)}{unit_suffix(s.get('unit'))} "
-                     f"[{fmt(lo, spec)}, {fmt(hi, spec)}]")
+                     f"[{fmt(lo, spec)}, {fmt(hi, spec)}]"
+                     + (" (not determined)" if s.get("determined") is False else ""))
     return "\n".join(parts) or "-"
 
 
@@ -116,6 +118,17 @@ def not_fitted_lines(data: Mapping[str, Any]) -> list[str]:
     return lines
 
 
+def print_undetermined(data: Mapping[str, Any], console: Console) -> None:
+    """List the parameters the data do not determine, mechanism by mechanism, with why."""
+    lines = [f"  - {m.get('id')}: {symbol}: {'; '.join(reasons)}"
+             for m in data.get("mechanisms") or [] for symbol, reasons in undetermined(m)]
+    if lines:
+        console.print("[bold]Not determined by the data[/bold] (the value is set by the prior, "
+                      "a range edge or another parameter, not by the data)")
+        for line in lines:
+            console.print(escape(line))
+
+
 def render_console(result: AnalysisResult | Mapping[str, Any], console: Console) -> None:
     """Print the analysis summary to a rich console.
 
@@ -135,6 +148,8 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
     ranking = ranking_table(data)
     if ranking is not None:
         console.print(ranking)
+        console.print(f"[dim]{INTERVALS_CAVEAT.capitalize()}.[/dim]")
+        print_undetermined(data, console)
     not_fitted = not_fitted_lines(data)
     if not_fitted:
         console.print("[bold]Not fitted: formula outside its validity on these data[/bold]"
@@ -144,6 +159,8 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
             console.print(f"  - {escape(line)}")
     verdict = data.get("verdict")
     if verdict is not None:
+        if verdict.get("quick_run"):
+            console.print(f"[bold yellow]{QUICK_RUN_BANNER.upper()}[/bold yellow]")
         style = "bold" if verdict.get("fit_adequate") and verdict.get("resolved") else "bold yellow"
         console.print(f"[{style}]Verdict:[/{style}] {escape(str(verdict.get('sentence')))}")
     elif not data.get("mechanisms") and not not_fitted:

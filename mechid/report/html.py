@@ -32,6 +32,7 @@ from typing import TYPE_CHECKING, Any
 from mechid.catalogue import get_mechanism
 from mechid.report.figures import DOUBLE_COLUMN_IN, ReportFigure, mechanism_order
 from mechid.report.text import (
+    PROBABILITY_SPEC,
     case_against,
     case_against_short,
     estimate_spec,
@@ -48,6 +49,7 @@ from mechid.report.text import (
     screening_entry,
     unit_suffix,
 )
+from mechid.results import INTERVALS_CAVEAT, QUICK_RUN_BANNER
 
 if TYPE_CHECKING:
     from mechid.report import ReportRun
@@ -86,6 +88,9 @@ code, .formula { font-family: ui-monospace, "SFMono-Regular", Menlo, Consolas, "
 .verdict { border: 2px solid var(--accent); border-radius: 8px; padding: 1rem 1.2rem;
            margin-top: 1.4rem; background: #f7f9fd; }
 .verdict.weak { border-color: var(--warn); background: var(--warn-bg); }
+.verdict .banner { margin: 0 0 0.6rem; padding: 0.35rem 0.7rem; border-radius: 4px;
+                   background: var(--warn-bg); color: var(--warn); border: 1px solid var(--warn);
+                   font-weight: 650; text-transform: uppercase; letter-spacing: 0.03em; }
 .verdict .lead { font-size: 1.35rem; font-weight: 650; margin: 0 0 0.6rem; }
 .tiles { display: flex; flex-wrap: wrap; gap: 0.7rem; margin: 0.6rem 0 0.8rem; }
 .tile { flex: 1 1 12rem; background: #fff; border: 1px solid var(--line); border-radius: 6px;
@@ -94,6 +99,7 @@ code, .formula { font-family: ui-monospace, "SFMono-Regular", Menlo, Consolas, "
                letter-spacing: 0.05em; }
 .tile .value { font-size: 1.25rem; font-weight: 650; }
 .tile .sub { font-size: 0.82rem; color: var(--muted); }
+.tile ul.failing { margin: 0.2rem 0 0; padding-left: 1.1rem; color: var(--ink); }
 .sentence { font-size: 0.95rem; }
 table { border-collapse: collapse; width: 100%; margin: 0.5rem 0 0.8rem; font-size: 0.85rem; }
 th, td { text-align: left; padding: 0.3rem 0.5rem; border-bottom: 1px solid var(--line);
@@ -245,6 +251,49 @@ def _toc(order: Sequence[str], data: Json) -> str:
             + f"<br>{mech_links}</nav>")
 
 
+def _probability_tile(data: Json, verdict: Json) -> tuple[str, str, str]:
+    n = verdict.get("n_candidates")
+    value = num(verdict.get("probability"), PROBABILITY_SPEC, "verdict.probability")
+    if n == 1:
+        return ("Posterior probability", value,
+                "the only mechanism fitted: 1 by construction, no comparison")
+    return ("Posterior probability", value,
+            f"among the {esc(n)} mechanisms fitted; {esc(verdict.get('prior_odds'))}")
+
+
+def _runner_up_tile(verdict: Json) -> tuple[str, str, str]:
+    """ln B against the runner-up: with B and its strength word only for an adequate leader."""
+    ln_b = num(verdict.get("ln_bayes_factor_vs_runner_up"), ".2f",
+               "verdict.ln_bayes_factor_vs_runner_up")
+    value = (f"ln B = {ln_b} ± " + num(verdict.get("ln_bayes_factor_vs_runner_up_err"), ".2f",
+                                       "verdict.ln_bayes_factor_vs_runner_up_err"))
+    not_resolved = "" if verdict.get("resolved") else "; not resolved"
+    if not verdict.get("fit_adequate"):
+        return (f"Against runner-up ({esc(verdict['runner_up'])})", value,
+                "orders candidates that all fail their checks; not a finding" + not_resolved)
+    b_value = verdict.get("bayes_factor_vs_runner_up")
+    b_text = (f"B = {num(b_value, '.3g', 'verdict.bayes_factor_vs_runner_up')}"
+              if is_number(b_value) else "B beyond floating-point range")
+    return (f"Against runner-up ({esc(verdict['runner_up'])})", value,
+            f"{b_text}; <b>{esc(verdict.get('strength'))}</b> (Kass &amp; Raftery 1995)"
+            + not_resolved)
+
+
+def _adequacy_tile(verdict: Json, best: Json) -> tuple[str, str, str]:
+    """The adequacy badge; the failing statistics when the leader fails, not a reduced chi-square
+    that the noise term may have absorbed."""
+    badge_html = badge(verdict.get("fit_adequate"), "adequate", "not adequate")
+    failing = verdict.get("failing_statistics") or []
+    if not verdict.get("fit_adequate") and failing:
+        return ("Fit adequacy", badge_html,
+                "<ul class='failing'>" + "".join(f"<li>{esc(f)}</li>" for f in failing)
+                + "</ul>")
+    adequacy = best.get("adequacy") or {}
+    return ("Fit adequacy", badge_html,
+            "reduced χ² = " + num(adequacy.get("reduced_chi_square"), ".3g",
+                                  "mechanisms.0.adequacy.reduced_chi_square"))
+
+
 def _verdict_section(data: Json) -> str:
     verdict = data.get("verdict")
     mechanisms = data.get("mechanisms") or []
@@ -252,32 +301,10 @@ def _verdict_section(data: Json) -> str:
         return _screening_verdict(data)
     best = mechanisms[0]
     weak = not verdict.get("fit_adequate") or not verdict.get("resolved")
-    tiles = [
-        ("Posterior probability",
-         num(verdict.get("probability"), ".3g", "verdict.probability"),
-         "equal prior odds" if not (data.get("settings") or {}).get("prior_odds")
-         else "with the stated prior odds"),
-    ]
+    tiles = [_probability_tile(data, verdict)]
     if verdict.get("runner_up"):
-        ln_b = verdict.get("ln_bayes_factor_vs_runner_up")
-        b_value = verdict.get("bayes_factor_vs_runner_up")
-        b_text = (f"B = {num(b_value, '.3g', 'verdict.bayes_factor_vs_runner_up')}"
-                  if is_number(b_value) else "B beyond floating-point range")
-        tiles.append((
-            f"Against runner-up ({esc(verdict['runner_up'])})",
-            f"ln B = {num(ln_b, '.2f', 'verdict.ln_bayes_factor_vs_runner_up')} ± "
-            + num(verdict.get("ln_bayes_factor_vs_runner_up_err"), ".2f",
-                  "verdict.ln_bayes_factor_vs_runner_up_err"),
-            f"{b_text}; <b>{esc(verdict.get('strength'))}</b> (Kass &amp; Raftery 1995)"
-            + ("" if verdict.get("resolved") else "; not resolved"),
-        ))
-    adequacy = best.get("adequacy") or {}
-    tiles.append((
-        "Fit adequacy",
-        badge(verdict.get("fit_adequate"), "adequate", "not adequate"),
-        "reduced χ² = " + num(adequacy.get("reduced_chi_square"), ".3g",
-                              "mechanisms.0.adequacy.reduced_chi_square"),
-    ))
+        tiles.append(_runner_up_tile(verdict))
+    tiles.append(_adequacy_tile(verdict, best))
     tile_html = "".join(f'<div class="tile"><div class="label">{label}</div>'
                         f'<div class="value">{value}</div><div class="sub">{sub}</div></div>'
                         for label, value, sub in tiles)
@@ -289,16 +316,35 @@ def _verdict_section(data: Json) -> str:
             num(s.get("median"), estimate_spec(s), f"{path}.median"),
             interval(s, "ci68", path), interval(s, "ci95", path),
             esc(unit_suffix(s.get("unit")).strip() or "–"),
+            _determined_cell(s),
         ])
-    params = table(["parameter", "median", "68 % interval", "95 % interval", "unit"], rows,
-                   numeric=(1, 2, 3)) if rows else ""
+    params = (table(["parameter", "median", "68 % interval", "95 % interval", "unit",
+                     "determined by the data?"], rows, numeric=(1, 2, 3))
+              + intervals_caveat()) if rows else ""
+    lead = (f"{esc(verdict.get('headline', '')).capitalize()}: " if not verdict.get("fit_adequate")
+            else "Leading mechanism: ")
     return ('<h2 id="verdict"><span class="num">1</span>Verdict</h2>'
             f'<section class="verdict{" weak" if weak else ""}">'
-            f'<p class="lead">Leading mechanism: {esc(best.get("name"))} '
+            + (f'<p class="banner">{esc(QUICK_RUN_BANNER.capitalize())}</p>'
+               if verdict.get("quick_run") else "")
+            + f'<p class="lead">{lead}{esc(best.get("name"))} '
             f'<span class="meta">({esc(best.get("id"))}, {esc(best.get("family"))})</span></p>'
             f'<div class="tiles">{tile_html}</div>'
             f'<p class="sentence" data-json="verdict.sentence">{esc(verdict.get("sentence"))}</p>'
             f"{params}</section>")
+
+
+def intervals_caveat() -> str:
+    """The note that goes beside every parameter table."""
+    return f"<p class='meta caveat'>{esc(INTERVALS_CAVEAT.capitalize())}.</p>"
+
+
+def _determined_cell(summary: Json) -> str:
+    """A yes badge, or a no badge with the reasons the data do not determine the value."""
+    if summary.get("determined") is not False:
+        return badge(True, "yes")
+    return (badge(False, no="no") + "<br><span class='meta'>"
+            + esc("; ".join(summary.get("reasons") or [])) + "</span>")
 
 
 def _screening_verdict(data: Json) -> str:
@@ -331,7 +377,9 @@ def _key_parameter_cell(mechanism: Json, index: int) -> str:
                      f"{num(s.get('median'), spec, f'{path}.median')}"
                      f"{esc(unit_suffix(s.get('unit')))} <span class='meta'>"
                      f"[{num(lo, spec, f'{path}.ci68.0')}, {num(hi, spec, f'{path}.ci68.1')}]"
-                     "</span>")
+                     "</span>"
+                     + (" <span class='badge fail'>not determined</span>"
+                        if s.get("determined") is False else ""))
     return "<br>".join(parts) or "–"
 
 
@@ -348,7 +396,7 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                 f"<span class='meta'>{esc(m['id'])}</span>",
                 f"{num(m.get('log_evidence'), '.2f', f'{path}.log_evidence')} ± "
                 f"{num(m.get('log_evidence_err'), '.2f', f'{path}.log_evidence_err')}",
-                num(m.get("probability"), ".3g", f"{path}.probability"),
+                num(m.get("probability"), PROBABILITY_SPEC, f"{path}.probability"),
                 num(m.get("ln_bayes_factor_vs_best"), ".2f", f"{path}.ln_bayes_factor_vs_best"),
                 badge(m.get("fit_adequate"), "yes", "no"),
                 _key_parameter_cell(m, k),
@@ -357,7 +405,8 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
             classes.append("leader" if k == 0 else "")
         out.append("<p>Mechanisms sorted by posterior probability. ln Z: log-evidence "
                    "(stepping-stone) ± Monte Carlo error; ln B: log Bayes factor against the "
-                   "leader; parameters: posterior median [68 % interval].</p>")
+                   "leader; parameters: posterior median [68 % interval]; "
+                   f"{esc(INTERVALS_CAVEAT)}.</p>")
         out.append(table(["mechanism", "ln Z", "probability", "ln B vs leader", "adequate",
                           "parameters", "case against"], rows, numeric=(1, 2, 3),
                          row_classes=classes))
@@ -536,7 +585,8 @@ def _mechanism_article(data: Json, mechanism_id: str, fitted: tuple[int, Json] |
     if fitted is not None:
         k, m = fitted
         out.append(f" · rank {k + 1} · posterior probability "
-                   f"{num(m.get('probability'), '.3g', f'mechanisms.{k}.probability')}")
+                   f"{num(m.get('probability'), PROBABILITY_SPEC, f'mechanisms.{k}.probability')}"
+                   " among the candidates")
     elif any(entry.get("id") == mechanism_id for entry in data.get("not_fitted") or []):
         out.append(" · not fitted: formula outside its validity on these data (see the ranking)")
     else:
@@ -658,11 +708,16 @@ def _parameter_table(m: Json, path: str) -> str:
         else:
             value = num(s.get("median"), estimate_spec(s), f"{p_path}.median")
             ci = interval(s, "ci68", p_path)
+        prior_text = f"<span class='meta'>{esc((priors.get(name) or {}).get('description', ''))}</span>"
+        if s.get("determined") is False:
+            value += "<br><span class='badge fail'>not determined</span>"
+            prior_text += ("<br><b>Not determined by the data:</b> "
+                           + esc("; ".join(s.get("reasons") or [])))
         rows.append([f"{esc(symbol)}" + (f" [{esc(unit)}]" if unit else ""), value, ci,
-                     f"<span class='meta'>{esc((priors.get(name) or {}).get('description', ''))}"
-                     "</span>"])
+                     prior_text])
     return ("<p>Parameters (posterior median, 68 % interval) and priors:</p>"
-            + table(["parameter", "median", "68 %", "prior"], rows, numeric=(1, 2)))
+            + table(["parameter", "median", "68 %", "prior"], rows, numeric=(1, 2))
+            + intervals_caveat())
 
 
 def _cautions_section(data: Json) -> str:

@@ -19,8 +19,15 @@ from typing import Any
 
 from mechid.catalogue import get_mechanism
 from mechid.errors import UnknownMechanismError
-from mechid.formatting import format_estimate, format_number, last_digit_for
+from mechid.formatting import (
+    format_estimate,
+    format_number,
+    format_probability,
+    last_digit_for,
+    undetermined_note,
+)
 from mechid.inference.adequacy import MAX_NOISE_RATIO, MIN_PREDICTIVE_P
+from mechid.results import INTERVALS_CAVEAT
 
 Json = Mapping[str, Any]
 
@@ -80,10 +87,13 @@ def is_number(value: Any) -> bool:
 
 
 def fmt(value: Any, spec: str = ".4g", missing: str = "n/a") -> str:
-    """Format a JSON number with a format spec, or ``"last:N"`` (print down to the digit
-    10**N, :func:`mechid.formatting.format_number`); ``missing`` for null/NaN."""
+    """Format a JSON number with a format spec, ``"last:N"`` (print down to the digit
+    10**N, :func:`mechid.formatting.format_number`) or ``"prob"`` (a posterior probability,
+    :func:`mechid.formatting.format_probability`); ``missing`` for null/NaN."""
     if not is_number(value):
         return missing
+    if spec == PROBABILITY_SPEC:
+        return format_probability(float(value))
     if spec.startswith("last:"):
         return format_number(float(value), int(spec[5:]))
     return format(value, spec)
@@ -105,9 +115,13 @@ def estimate_spec(summary: Json) -> str:
     return ".4g" if last is None else f"last:{max(last, -30)}"
 
 
+#: The :func:`fmt` spec of a posterior probability ("> 0.999", "0.873", "< 0.001").
+PROBABILITY_SPEC = "prob"
+
+
 def fmt_probability(value: Any) -> str:
-    """Posterior probability as in the verdict sentence (3 significant digits)."""
-    return fmt(value, ".3g")
+    """Posterior probability as in the verdict sentence: a bound near 0 or 1, never "1"."""
+    return fmt(value, PROBABILITY_SPEC)
 
 
 def fmt_ln(value: Any) -> str:
@@ -127,11 +141,19 @@ def parameter_text(name: str, summary: Json) -> str:
     lo68, hi68 = summary.get("ci68") or (None, None)
     lo95, hi95 = summary.get("ci95") or (None, None)
     values = (summary.get("median"), lo68, hi68, lo95, hi95)
+    note = undetermined_note(summary.get("reasons") or [])
     if summary.get("fixed") or not all(is_number(v) for v in values):
         return f"{name} = {fmt(summary.get('median'))}{unit}" + (
-            " (held fixed)" if summary.get("fixed") else "")
+            " (held fixed)" if summary.get("fixed") else "") + note
     return f"{name} = " + format_estimate(float(values[0]), (float(lo68), float(hi68)),
-                                         (float(lo95), float(hi95)), summary.get("unit") or "")
+                                         (float(lo95), float(hi95)), summary.get("unit") or "") + note
+
+
+def undetermined(mechanism: Json) -> list[tuple[str, list[str]]]:
+    """(symbol, reasons) of each physical parameter the data do not determine."""
+    return [(parameter_symbol(str(mechanism.get("id")), name), list(s.get("reasons") or []))
+            for name, s in (mechanism.get("parameters") or {}).items()
+            if not name.startswith("noise_") and s.get("determined") is False]
 
 
 def key_parameters(mechanism: Json) -> list[tuple[str, Json]]:
@@ -194,8 +216,8 @@ def case_against(data: Json, mechanism: Json) -> list[str]:
     ln_b = mechanism.get("ln_bayes_factor_vs_best")
     if is_number(ln_b) and ln_b < 0:
         err = mechanism.get("ln_bayes_factor_vs_best_err")
-        reasons.append(f"evidence against it: ln B = {fmt_ln(ln_b)} ± {fmt_ln(err)} relative to "
-                       f"the leader ({kass_raftery_wording(-ln_b)})")
+        reasons.append(f"ln B = {fmt_ln(ln_b)} ± {fmt_ln(err)} relative to the leader "
+                       f"(Kass & Raftery: {kass_raftery_wording(-ln_b)})")
     elif ln_b is None and mechanism.get("log_evidence") is None:
         reasons.append("its evidence could not be estimated")
     if not mechanism.get("fit_adequate"):
@@ -347,37 +369,30 @@ def results_paragraph(data: Json) -> str:
     if not mechanisms or verdict is None:
         return screening_results(data)
     best = mechanisms[0]
+    evidence = (f"ln Z = {fmt_ln(best.get('log_evidence'))} ± "
+                f"{fmt_ln(best.get('log_evidence_err'))}")
     parts = [
-        f"Of the {len(mechanisms)} mechanisms fitted, {best.get('name')} has the highest "
-        f"evidence, ln Z = {fmt_ln(best.get('log_evidence'))} ± "
-        f"{fmt_ln(best.get('log_evidence_err'))}, and a posterior probability of "
-        f"{fmt_probability(best.get('probability'))}."
+        f"Only {best.get('name')} was fitted ({evidence}), so no comparison was made."
+        if len(mechanisms) == 1 else
+        f"Of the {len(mechanisms)} mechanisms fitted ({verdict.get('prior_odds')}), "
+        f"{best.get('name')} has the highest evidence, {evidence}, and a posterior probability "
+        f"{fmt_probability(best.get('probability'))} among these candidates."
     ]
-    if verdict.get("runner_up"):
-        runner = next((m for m in mechanisms if m.get("id") == verdict["runner_up"]), {})
-        parts.append(
-            f"The runner-up, {runner.get('name', verdict['runner_up'])}, trails by ln B = "
-            f"{fmt_ln(verdict.get('ln_bayes_factor_vs_runner_up'))} ± "
-            f"{fmt_ln(verdict.get('ln_bayes_factor_vs_runner_up_err'))} "
-            f"({verdict.get('strength')} evidence on the Kass & Raftery scale"
-            + ("" if verdict.get("resolved") else
-               "; not resolved within twice the Monte Carlo error") + ").")
     params = key_parameters(best)
     if params:
-        parts.append("Its parameters (posterior median with 68 % and 95 % credible intervals): "
+        parts.append("Its parameters (posterior median with 68 % and 95 % credible intervals; "
+                     f"the {INTERVALS_CAVEAT}): "
                      + "; ".join(parameter_text(parameter_symbol(best["id"], n), s)
                                  for n, s in params) + ".")
+    if verdict.get("runner_up"):
+        parts.append(_runner_up_sentence(mechanisms, verdict))
     adequacy = best.get("adequacy") or {}
-    parts.append(
-        ("The fit is adequate" if best.get("fit_adequate") else "The fit is not adequate")
-        + f" (reduced χ² = {fmt(adequacy.get('reduced_chi_square'), '.3g')}, predictive "
-        f"p = {fmt(adequacy.get('predictive_p_chi_square'), '.3g')} for χ² and "
-        f"{fmt(adequacy.get('predictive_p_runs'), '.3g')} for residual runs"
-        + (f"; fitted relative noise {fmt(adequacy.get('fitted_relative_noise'), '.3g')} "
-           f"against {fmt(adequacy.get('model_free_relative_noise'), '.3g')} estimated "
-           "without a model" if is_number(adequacy.get("model_free_relative_noise")) else "")
-        + ")."
-    )
+    failing = verdict.get("failing_statistics") or []
+    if not best.get("fit_adequate") and failing:
+        parts.append("The fit is not adequate, so no candidate describes the data well: "
+                     + "; ".join(failing) + ".")
+    else:
+        parts.append(_adequacy_sentence(best, adequacy))
     others = []
     for m in mechanisms[1:]:
         adequate = "adequate fit" if m.get("fit_adequate") else "inadequate fit"
@@ -392,6 +407,37 @@ def results_paragraph(data: Json) -> str:
         parts.append(f"The straightened-plot screening ranks {mechanism_name(best_screen, data)} "
                      f"first, which {agree} with the Bayesian ranking.")
     return " ".join(parts)
+
+
+def _adequacy_sentence(best: Json, adequacy: Json) -> str:
+    """The adequacy statistics of an adequate leader (or one without failing statistics)."""
+    return (
+        ("The fit is adequate" if best.get("fit_adequate") else "The fit is not adequate")
+        + f" (reduced χ² = {fmt(adequacy.get('reduced_chi_square'), '.3g')}, predictive "
+        f"p = {fmt(adequacy.get('predictive_p_chi_square'), '.3g')} for χ² and "
+        f"{fmt(adequacy.get('predictive_p_runs'), '.3g')} for residual runs"
+        + (f"; fitted relative noise {fmt(adequacy.get('fitted_relative_noise'), '.3g')} "
+           f"against {fmt(adequacy.get('model_free_relative_noise'), '.3g')} estimated "
+           "without a model" if is_number(adequacy.get("model_free_relative_noise")) else "")
+        + ")."
+    )
+
+
+def _runner_up_sentence(mechanisms: Sequence[Json], verdict: Json) -> str:
+    """ln B against the runner-up; worded on the Kass & Raftery scale only for an adequate
+    leader (between candidates that all fail, it orders them and is not a finding)."""
+    runner = next((m for m in mechanisms if m.get("id") == verdict["runner_up"]), {})
+    not_resolved = ("" if verdict.get("resolved") else
+                    "not resolved within twice the Monte Carlo error")
+    if verdict.get("fit_adequate"):
+        qualifier = (f"{verdict.get('strength')} evidence on the Kass & Raftery scale"
+                     + (f"; {not_resolved}" if not_resolved else ""))
+    else:
+        qualifier = ("this only orders the candidates, since the leader fails its posterior "
+                     "predictive checks" + (f"; {not_resolved}" if not_resolved else ""))
+    return (f"The runner-up, {runner.get('name', verdict['runner_up'])}, trails by ln B = "
+            f"{fmt_ln(verdict.get('ln_bayes_factor_vs_runner_up'))} ± "
+            f"{fmt_ln(verdict.get('ln_bayes_factor_vs_runner_up_err'))} ({qualifier}).")
 
 
 def screening_results(data: Json) -> str:
