@@ -46,6 +46,7 @@ from mechid.inference.settings import (
     LadderSettings,
     SearchSettings,
 )
+from mechid.measurement import measurement_cautions
 from mechid.results import (
     QUICK_RUN_BANNER,
     AnalysisResult,
@@ -515,7 +516,11 @@ def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b
 
 def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
              verdict: Verdict | None) -> list[str]:
-    """Plain statements of what these data cannot distinguish."""
+    """Plain statements of what these data cannot distinguish, then how they were taken.
+
+    The second part, :func:`mechid.measurement.measurement_cautions`, names high voltage, high
+    current density, cryogenic temperatures and disagreeing repeats when the data show them.
+    """
     notes: list[str] = []
     temps = series.temperatures
     if len(temps) < 3:
@@ -554,4 +559,4 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
         if (r.validity is not None and r.validity.pulls
                 and (verdict is None or r.id in (verdict.id, verdict.runner_up))):
             notes.append(r.validity.caution(r.id))
-    return notes
+    return notes + measurement_cautions(series, device)

@@ -72,6 +72,18 @@ def format_probability(probability: float) -> str:
     return f"{probability:.3g}"
 
 
+DIMENSIONLESS_UNITS = ("", "1")
+
+
+def unit_suffix(unit: str) -> str:
+    """`` unit`` to print after a value, or nothing for a dimensionless value (unit ``"1"``).
+
+    The catalogue writes the unit of a ratio as ``"1"`` (the SI convention for a
+    dimensionless quantity); printed after a number it reads as a factor ("0.01912 1").
+    """
+    return "" if unit in DIMENSIONLESS_UNITS else f" {unit}"
+
+
 def undetermined_note(reasons: Sequence[str]) -> str:
     """`` [not determined by the data: ...]`` after a parameter's value (empty when none)."""
     return f" [not determined by the data: {'; '.join(reasons)}]" if reasons else ""

@@ -17,6 +17,7 @@ from mechid.catalogue.validity import validity_violations
 from mechid.data import TEMPERATURE_RANGE_K
 from mechid.device import Device
 from mechid.errors import MechidError
+from mechid.formatting import unit_suffix
 from mechid.inference.noise import add_noise, noise_sd
 
 
@@ -121,7 +122,7 @@ def _check_ranges(mechanism: Mechanism, params: Mapping[str, float]) -> None:
         p = mechanism.parameter(name)
         if not (p.lower <= value <= p.upper):
             raise MechidError(
-                f"{mechanism.id}: {name} = {value:g} {p.unit} is outside its physical range "
+                f"{mechanism.id}: {name} = {value:g}{unit_suffix(p.unit)} is outside its physical range "
                 f"[{p.lower:g}, {p.upper:g}]"
             )
     missing = [n for n in mechanism.parameter_names if n not in params]

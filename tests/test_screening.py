@@ -12,6 +12,7 @@ from __future__ import annotations
 import dataclasses
 import json
 import math
+import re
 import subprocess
 import sys
 from dataclasses import dataclass
@@ -538,3 +539,18 @@ def test_a_plot_regime_needs_per_temperature_lines() -> None:
     assert field_plot.regime is not None
     with pytest.raises(ValueError, match="per_temperature"):
         dataclasses.replace(field_plot, grouping="per_voltage")
+
+
+def test_dimensionless_values_are_printed_without_a_unit(
+        results: dict[str, LinearisationResult]) -> None:
+    # Issue 11: "median richardson_constant_ratio = 0.01912 1" read as a product with 1.
+    dimensionless = {(m.id, p.name) for m in MECHANISMS for p in m.parameters
+                     if p.unit == "1"}
+    details = [check.detail for result in results.values() for entry in result.mechanisms
+               for check in entry.checks
+               if (entry.mechanism_id, check.name.removesuffix("_in_declared_range"))
+               in dimensionless and check.value is not None]
+    assert details, "no dimensionless range check was read from the regimes"
+    for detail in details:
+        assert not detail.endswith(" 1"), detail
+        assert re.fullmatch(r"median \w+ = \S+", detail), detail

@@ -71,6 +71,13 @@ def test_simulate_rejects_out_of_range_and_missing_parameters():
         simulate_series(mech, {"characteristic_temperature_K": 100.0}, [10], [0.1], Device())
 
 
+def test_out_of_range_dimensionless_value_is_printed_without_a_unit():
+    # Issue 11: a ratio's unit "1" printed after the number read as "m*/m0 = 2 1".
+    params = {"barrier_height_eV": 3.0, "thickness_nm": 5.0, "effective_mass_ratio": 2.0}
+    with pytest.raises(MechidError, match=r"effective_mass_ratio = 2 is outside"):
+        simulate_series(get_mechanism("fowler_nordheim"), params, [300], [1.0], Device())
+
+
 def test_simulate_cli_errors_exit_2_without_traceback(tmp_path):
     cases = [
         ["simulate", "warp_drive", "--out", str(tmp_path / "a.csv")],

@@ -45,6 +45,7 @@ from mechid.catalogue import get_mechanism
 from mechid.catalogue.base import Mechanism, StraightenedPlot
 from mechid.data import IVSeries
 from mechid.device import Device
+from mechid.formatting import format_probability
 from mechid.inference.predictive import PosteriorPredictive, thin_draws
 
 if TYPE_CHECKING:
@@ -645,7 +646,7 @@ def ranking_figure(mechanisms: Sequence[Mapping[str, Any]]) -> ReportFigure | No
             probability = m.get("probability")
             label = "leader, " if k == 0 else ""
             if probability is not None:
-                label += "P " + _format_probability(probability, prefix="= ")
+                label += probability_label(probability, among_candidates=k == 0)
             ax.text(0.3, y[k], label, va="center", ha="left", fontsize=6.5)
         ax.set_yticks(y, ids)
         ax.set_xlim(-depth, SYMLOG_LINEAR * 1.6)
@@ -659,7 +660,7 @@ def ranking_figure(mechanisms: Sequence[Mapping[str, Any]]) -> ReportFigure | No
                "(error bars: Monte Carlo error of the evidence difference). Shaded bands: "
                "Kass & Raftery (1995) scale, ln B thresholds 1, 3 and 5. Hatched bars: the "
                "fit fails the posterior predictive adequacy checks. P: posterior probability "
-               "with equal prior odds.")
+               "among the fitted candidates only, with equal prior odds.")
     return ReportFigure("comparison_bayes_factors", "Evidence against the leader", caption,
                         fig, "comparison")
 
@@ -668,13 +669,15 @@ def _finite_or(value: Any, default: float) -> float:
     return float(value) if isinstance(value, int | float) and math.isfinite(value) else default
 
 
-def _format_probability(p: float, prefix: str = "") -> str:
-    """Probabilities near 0 or 1 in a readable form (``< 1e-6``, ``> 0.999999``)."""
-    if p < 1e-6:
-        return "< 1e-6"
-    if p > 1 - 1e-6:
-        return "> 0.999999"
-    return f"{prefix}{p:.3g}"
+def probability_label(probability: float, among_candidates: bool = False) -> str:
+    """``P = 0.42`` or ``P > 0.999`` (:func:`~mechid.formatting.format_probability`).
+
+    With ``among_candidates`` the label says the probability is relative to the fitted
+    candidates, not to every conceivable mechanism.
+    """
+    text = format_probability(probability)
+    label = f"P {text}" if text.startswith(("<", ">")) else f"P = {text}"
+    return f"{label} among the candidates" if among_candidates else label
 
 
 # --------------------------------------------------------------------------------------------

@@ -724,9 +724,9 @@ def _cautions_section(data: Json) -> str:
     cautions = data.get("cautions") or []
     body = ("<ul class='cautions'>" + "".join(f"<li>{esc(c)}</li>" for c in cautions) + "</ul>"
             if cautions else "<p>None: nothing in these data flags a mechanism the comparison "
-                             "cannot tell apart.</p>")
-    return ('<h2 id="cautions"><span class="num">5</span>What these data cannot tell apart</h2>'
-            + body)
+                             "cannot tell apart or a measurement condition to check.</p>")
+    return ('<h2 id="cautions"><span class="num">5</span>What these data cannot tell apart, '
+            'and how they were taken</h2>' + body)
 
 
 def _text_section(data: Json) -> str:

@@ -30,6 +30,7 @@ from mechid.catalogue.checks import (
 )
 from mechid.constants import BOLTZMANN_EV
 from mechid.device import Device
+from mechid.formatting import unit_suffix
 from mechid.screening.analyses import ZABRODSKII_P_TOL, law_supported
 from mechid.screening.biases import PreparedSeries
 from mechid.screening.lines import zero_bias_line
@@ -350,7 +351,7 @@ def declared_range_checks(ctx: CheckContext) -> list[Check]:
         value = float(np.median(values))
         passed = parameter.lower <= value <= parameter.upper
         checks.append(Check(name, passed, value, expected,
-                            f"median {parameter.name} = {value:.4g} {parameter.unit}"))
+                            f"median {parameter.name} = {value:.4g}{unit_suffix(parameter.unit)}"))
     return checks
 
 
