@@ -37,7 +37,28 @@ DEVICE_KEYS: dict[str, str] = {
     "effective_mass_sd": "standard uncertainty of m*/m0 (>= 0)",
     "optical_dielectric_constant": "high-frequency relative permittivity, about n^2 (>= 1)",
     "optical_dielectric_constant_sd": "standard uncertainty of the optical dielectric constant",
+    "richardson_constant_A_cm2_K2": "effective Richardson constant A** of the contact in "
+                                    "A cm^-2 K^-2 (> 0; 120 x m*/m0 for an isotropic band)",
+    "richardson_constant_sd_A_cm2_K2": "standard uncertainty of the Richardson constant",
+    "doping_cm3": "net doping of the semiconductor in cm^-3 (> 0)",
+    "doping_sd_cm3": "standard uncertainty of the doping in cm^-3",
+    "semiconductor_dielectric_constant": "static relative permittivity of the semiconductor (>= 1)",
+    "semiconductor_dielectric_constant_sd": "standard uncertainty of that permittivity",
+    "semiconductor_effective_mass_ratio": "conduction effective mass of the semiconductor m*/m0 "
+                                          "(> 0)",
+    "semiconductor_effective_mass_sd": "standard uncertainty of the semiconductor m*/m0",
 }
+
+#: (value key, uncertainty key) of every measured quantity, in the order of :class:`Device`.
+MEASURED_KEYS: tuple[tuple[str, str], ...] = (
+    ("thickness_nm", "thickness_sd_nm"),
+    ("effective_mass_ratio", "effective_mass_sd"),
+    ("optical_dielectric_constant", "optical_dielectric_constant_sd"),
+    ("richardson_constant_A_cm2_K2", "richardson_constant_sd_A_cm2_K2"),
+    ("doping_cm3", "doping_sd_cm3"),
+    ("semiconductor_dielectric_constant", "semiconductor_dielectric_constant_sd"),
+    ("semiconductor_effective_mass_ratio", "semiconductor_effective_mass_sd"),
+)
 
 
 @dataclass(frozen=True)
@@ -78,6 +99,15 @@ class Device:
         the one that governs image-force and Poole-Frenkel barrier lowering (Sze & Ng 2007).
     name : str or None
         Free text naming the sample.
+    richardson_constant_A_cm2_K2 : Measured or None
+        Effective Richardson constant A** of a Schottky contact in A cm^-2 K^-2
+        (A** = 120 m*/m0 A cm^-2 K^-2 for an isotropic band, Sze & Ng 2007).
+    doping_cm3 : Measured or None
+        Net doping of the semiconductor of a Schottky contact, in cm^-3.
+    semiconductor_dielectric_constant : Measured or None
+        Static relative permittivity of that semiconductor.
+    semiconductor_effective_mass_ratio : Measured or None
+        Conduction effective mass m*/m0 of that semiconductor.
     """
 
     thickness_nm: Measured | None = None
@@ -85,6 +115,10 @@ class Device:
     effective_mass_ratio: Measured | None = None
     optical_dielectric_constant: Measured | None = None
     name: str | None = None
+    richardson_constant_A_cm2_K2: Measured | None = None
+    doping_cm3: Measured | None = None
+    semiconductor_dielectric_constant: Measured | None = None
+    semiconductor_effective_mass_ratio: Measured | None = None
 
     def __post_init__(self) -> None:
         _check_measured("thickness_nm", self.thickness_nm, minimum=0.0, strict=True)
@@ -93,6 +127,13 @@ class Device:
             "optical_dielectric_constant", self.optical_dielectric_constant, minimum=1.0,
             strict=False,
         )
+        _check_measured("richardson_constant_A_cm2_K2", self.richardson_constant_A_cm2_K2,
+                        minimum=0.0, strict=True)
+        _check_measured("doping_cm3", self.doping_cm3, minimum=0.0, strict=True)
+        _check_measured("semiconductor_dielectric_constant", self.semiconductor_dielectric_constant,
+                        minimum=1.0, strict=False)
+        _check_measured("semiconductor_effective_mass_ratio",
+                        self.semiconductor_effective_mass_ratio, minimum=0.0, strict=True)
         if self.area_cm2 is not None and not (math.isfinite(self.area_cm2) and self.area_cm2 > 0):
             raise DeviceError(f"area_cm2 must be a positive number of cm^2, got {self.area_cm2!r}")
 
@@ -141,32 +182,37 @@ def device_from_values(
     optical_dielectric_constant: float | None = None,
     optical_dielectric_constant_sd: float | None = None,
     name: str | None = None,
+    **more: float | None,
 ) -> Device:
     """Build a :class:`Device` from plain numbers (the CLI options and TOML keys).
+
+    ``more`` takes the remaining measured values of :data:`MEASURED_KEYS` (Schottky-contact
+    quantities such as ``doping_cm3`` with ``doping_sd_cm3``).
 
     Raises
     ------
     DeviceError
-        If an uncertainty is given without its value, or a value is impossible.
+        If an uncertainty is given without its value, a value is impossible or a keyword is
+        not a device value.
     """
-    pairs = [
-        ("thickness_nm", thickness_nm, "thickness_sd_nm", thickness_sd_nm),
-        ("effective_mass_ratio", effective_mass_ratio, "effective_mass_sd", effective_mass_sd),
-        ("optical_dielectric_constant", optical_dielectric_constant,
-         "optical_dielectric_constant_sd", optical_dielectric_constant_sd),
-    ]
-    for value_name, value, sd_name, sd in pairs:
+    values: dict[str, float | None] = {
+        "thickness_nm": thickness_nm, "thickness_sd_nm": thickness_sd_nm,
+        "effective_mass_ratio": effective_mass_ratio, "effective_mass_sd": effective_mass_sd,
+        "optical_dielectric_constant": optical_dielectric_constant,
+        "optical_dielectric_constant_sd": optical_dielectric_constant_sd,
+    }
+    known = {key for pair in MEASURED_KEYS for key in pair}
+    unknown = sorted(set(more) - known)
+    if unknown:
+        raise DeviceError(f"unknown device value(s) {', '.join(unknown)}")
+    values.update(more)
+    measured: dict[str, Measured | None] = {}
+    for value_name, sd_name in MEASURED_KEYS:
+        value, sd = values.get(value_name), values.get(sd_name)
         if value is None and sd is not None:
             raise DeviceError(f"{sd_name} was given without {value_name}")
-    return Device(
-        thickness_nm=_measured(thickness_nm, thickness_sd_nm),
-        area_cm2=None if area_cm2 is None else float(area_cm2),
-        effective_mass_ratio=_measured(effective_mass_ratio, effective_mass_sd),
-        optical_dielectric_constant=_measured(
-            optical_dielectric_constant, optical_dielectric_constant_sd
-        ),
-        name=name,
-    )
+        measured[value_name] = _measured(value, sd)
+    return Device(area_cm2=None if area_cm2 is None else float(area_cm2), name=name, **measured)
 
 
 def read_device_toml(path: Path) -> Device:

@@ -33,6 +33,9 @@ FloatArray = NDArray[np.float64]
 #: Signature of a magnitude formula: f(|V| in V, T in K, device, **params) -> |I| in A.
 MagnitudeFormula = Callable[..., FloatArray]
 
+#: Signature of a signed formula: f(V in V, either sign, T in K, device, **params) -> I in A.
+SignedFormula = Callable[..., FloatArray]
+
 
 def positive_or_nan(values: ArrayLike) -> FloatArray:
     """Return ``values`` as floats with every non-positive or NaN entry replaced by NaN.
@@ -174,8 +177,12 @@ class StraightenedPlot:
 class Mechanism:
     """A conduction mechanism: formula, parameters, straightened plots and source.
 
-    The current is odd in voltage: ``I(V) = sign(V) * magnitude(|V|)``, so both bias
-    polarities are described by one set of parameters (symmetric device). ``needs_area`` is
+    Most mechanisms are odd in voltage: ``I(V) = sign(V) * magnitude(|V|)``, so both bias
+    polarities are described by one set of parameters (symmetric device); they declare
+    ``magnitude``. A mechanism whose current is not odd (a rectifying contact, barriers that
+    differ between the two electrodes) declares ``signed_current`` instead: the formula of
+    the signed current at signed bias, and its validity conditions then receive the signed
+    bias too. Exactly one of the two is given. ``needs_area`` is
     False for mechanisms written directly as a current (no electrode area involved).
     ``estimates`` lists the parameters its straightened plots determine
     (:class:`~mechid.catalogue.checks.PlotEstimate`): the screening reads them into
@@ -193,7 +200,7 @@ class Mechanism:
     formula: str
     source: str
     parameters: tuple[Parameter, ...]
-    magnitude: MagnitudeFormula
+    magnitude: MagnitudeFormula | None = None
     plots: tuple[StraightenedPlot, ...] = ()
     temperature_dependence: str = ""
     options: Mapping[str, Any] = field(default_factory=dict)
@@ -201,8 +208,12 @@ class Mechanism:
     estimates: tuple[PlotEstimate, ...] = ()
     checks: tuple[CheckSpec, ...] = ()
     validity: tuple[ValidityCondition, ...] = ()
+    signed_current: SignedFormula | None = None
 
     def __post_init__(self) -> None:
+        if (self.magnitude is None) == (self.signed_current is None):
+            raise ValueError(f"{self.id}: declare exactly one of magnitude (a current odd in V) "
+                             "and signed_current")
         plot_ids = {plot.id for plot in self.plots}
         for spec in self.checks:
             read = [getattr(spec, a) for a in ("plot", "arrhenius_plot", "field_plot")
@@ -220,6 +231,11 @@ class Mechanism:
                 raise ValueError(f"{self.id}: estimate of unknown parameter {estimate.parameter!r}")
             if estimate.plot not in plot_ids:
                 raise ValueError(f"{self.id}: estimate from undeclared plot {estimate.plot!r}")
+
+    @property
+    def is_odd(self) -> bool:
+        """True when ``I(-V) = -I(V)`` (the mechanism declares a ``magnitude``)."""
+        return self.signed_current is None
 
     @property
     def parameter_names(self) -> tuple[str, ...]:
@@ -273,7 +289,8 @@ class Mechanism:
         Returns
         -------
         ndarray
-            Current in A; zero at zero bias; NaN outside the formula's validity domain.
+            Current in A; zero at zero bias for odd mechanisms (a signed formula gives its own
+            value there); NaN outside the formula's validity domain.
         """
         missing = [n for n in self.parameter_names if n not in params]
         extra = [n for n in params if n not in self.parameter_names]
@@ -286,6 +303,8 @@ class Mechanism:
         v = np.asarray(voltage_V, dtype=float)
         t = np.asarray(temperature_K, dtype=float)
         values = {k: np.asarray(val, dtype=float) for k, val in params.items()}
+        if not self.is_odd:
+            return self._signed(v, t, values, device, enforce_validity)
         v_abs = np.abs(v)
         biased = np.where(v_abs > 0, v_abs, np.nan)
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
@@ -293,6 +312,17 @@ class Mechanism:
         if enforce_validity and self.validity:
             mag = np.where(within_validity(self.validity, biased, t, device, values), mag, np.nan)
         return np.where(v_abs > 0, np.sign(v) * mag, 0.0)
+
+    def _signed(self, v: FloatArray, t: FloatArray, values: Mapping[str, FloatArray],
+                device: Device, enforce_validity: bool) -> FloatArray:
+        """The current of a mechanism declared by its signed formula (see :meth:`current`)."""
+        assert self.signed_current is not None
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            current = np.asarray(self.signed_current(v, t, device, **values), dtype=float)
+        if enforce_validity and self.validity:
+            current = np.where(within_validity(self.validity, v, t, device, values), current,
+                               np.nan)
+        return current
 
 
 def _catalogued_mechanism(mechanism_id: str) -> Mechanism:

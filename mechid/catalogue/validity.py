@@ -190,7 +190,8 @@ def validity_violations(
     mechanism : Mechanism
         The catalogued mechanism (its ``validity`` conditions are evaluated).
     voltage_V, temperature_K : array_like
-        Data points, shape ``(n,)``; the bias sign is ignored and zero-bias points are skipped.
+        Data points, shape ``(n,)``; zero-bias points are skipped, and the bias sign is
+        ignored unless the mechanism declares a signed formula.
     draws : mapping
         Every parameter of the mechanism by name, each of shape ``(m,)`` (``m`` draws).
     device : Device
@@ -202,7 +203,8 @@ def validity_violations(
         One entry per condition that fails somewhere, in declaration order; empty when every
         draw is inside the domain at every point.
     """
-    v = np.abs(np.ravel(np.asarray(voltage_V, dtype=float)))
+    v = np.ravel(np.asarray(voltage_V, dtype=float))
+    v = np.abs(v) if mechanism.is_odd else v  # signed formulas' conditions read the sign
     t = np.ravel(np.asarray(temperature_K, dtype=float))
     v, t = np.broadcast_arrays(v, t)
     keep = v > 0

@@ -6,7 +6,9 @@ negative readings at tiny bias) are weighted correctly. Both noise parameters ar
 parameters with stated priors (:func:`mechid.inference.priors.noise_priors`), marginalised
 by the sampler.
 
-Physical parameters are shared across all temperatures and both polarities.
+Physical parameters are shared across all temperatures and both polarities (a mechanism whose
+parameters differ between the polarities declares them separately, see
+:mod:`mechid.catalogue.polarity`).
 """
 
 from __future__ import annotations
@@ -74,20 +76,22 @@ class MechanismTarget:
         self.temperature_K = np.asarray(self.temperature_K, dtype=float)
         self.current_A = np.asarray(self.current_A, dtype=float)
         self.free = tuple(p for p in self.priors if not p.is_fixed)
-        # Currents are odd in V, so the formula is evaluated once per distinct (|V|, T) pair
-        # (halves the cost for sweeps of both polarities).
-        pairs = np.column_stack([np.abs(self.voltage_V), self.temperature_K])
+        # An odd current is evaluated once per distinct (|V|, T) pair (halves the cost for
+        # sweeps of both polarities); a signed formula once per distinct (V, T) pair.
+        odd = self.mechanism.is_odd
+        pairs = np.column_stack([np.abs(self.voltage_V) if odd else self.voltage_V,
+                                 self.temperature_K])
         unique, self._inverse = np.unique(pairs, axis=0, return_inverse=True)
         self._inverse = self._inverse.ravel()
         self._unique_abs_voltage, self._unique_temperature = unique[:, 0], unique[:, 1]
-        self._sign = np.sign(self.voltage_V)
+        self._sign = np.sign(self.voltage_V) if odd else np.ones_like(self.voltage_V)
         # Sufficient statistics per (|V|, T) pair: the likelihood then needs the model and the
         # variance only once per pair (the +V and -V points share both).
         n_unique = len(unique)
         self._pair_count = np.bincount(self._inverse, minlength=n_unique).astype(float)
         self._pair_signed_sum = np.bincount(self._inverse, self._sign * self.current_A, n_unique)
         self._pair_square_sum = np.bincount(self._inverse, self.current_A**2, n_unique)
-        self._pair_nonzero = (self._unique_abs_voltage > 0).astype(float)
+        self._pair_nonzero = ((self._unique_abs_voltage != 0) | (not odd)).astype(float)
         self._prior_lo = np.array([p.internal_bounds()[0] for p in self.free])
         self._prior_hi = np.array([p.internal_bounds()[1] for p in self.free])
         self._vector_prior = _VectorPrior.from_priors(self.free)
@@ -126,7 +130,10 @@ class MechanismTarget:
         return values
 
     def _pair_magnitude(self, values: dict[str, NDArray]) -> NDArray:
-        """|I| at each distinct (|V|, T) pair, shape ``(m, pairs)``, from physical values."""
+        """|I| at each distinct (|V|, T) pair, shape ``(m, pairs)``, from physical values.
+
+        For a mechanism declared by its signed formula: the signed I at each distinct (V, T).
+        """
         physical = {name: values[name] for name in self.mechanism.parameter_names}
         return self.mechanism.current(
             self._unique_abs_voltage, self._unique_temperature, physical, self.device,
