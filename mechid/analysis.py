@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 import time
+import warnings
 from collections.abc import Callable, Mapping
 from dataclasses import asdict, dataclass, field, replace
 from typing import Any, Literal
@@ -38,6 +39,7 @@ from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.priors import Prior
 from mechid.inference.rounds import FitJob, default_workers, fit_candidates_in_rounds
+from mechid.inference.sensitivity import not_computed, prior_sensitivity, refit_log_evidence
 from mechid.inference.settings import (
     FULL_LADDER,
     FULL_SEARCH,
@@ -53,6 +55,7 @@ from mechid.results import (
     MechanismResult,
     NotFittedMechanism,
     ParameterSummary,
+    PriorSensitivity,
     Verdict,
 )
 from mechid.screening import LinearisationResult, linearise
@@ -166,10 +169,10 @@ def run_analysis_full(
     lin = linearise(series, device)
     mechanisms = _selected_mechanisms(settings)
     fits: dict[str, MechanismFit] = {}
+    master = np.random.default_rng(seed)
     not_fitted: tuple[NotFittedMechanism, ...] = ()
     if not settings.screen_only:
         _check_area(device, mechanisms)
-        master = np.random.default_rng(seed)
         children = master.spawn(len(mechanisms))
         hints = _linearisation_hints(lin)
         # Most promising first (screening rank), so that mechanisms far below the leader are
@@ -189,6 +192,8 @@ def run_analysis_full(
                            if m.id in outcome.not_fitted)
     results = _ranked_results(fits, settings)
     verdict = _verdict(results, settings, not_fitted) if results else None
+    sensitivity = (not_computed("screen-only run: no fit") if settings.screen_only
+                   else _prior_sensitivity(fits, results, master))
     result = AnalysisResult(
         input={**series.summary(), "polarity": settings.polarity,
                "n_points_fitted": int(mask.sum())},
@@ -201,9 +206,35 @@ def run_analysis_full(
         cautions=tuple(cautions(series, device, results, verdict)),
         seed=seed,
         not_fitted=not_fitted,
+        prior_sensitivity=sensitivity,
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
+
+
+def _prior_sensitivity(fits: dict[str, MechanismFit], results: list[MechanismResult],
+                       master: np.random.Generator) -> PriorSensitivity:
+    """Bayes factors with every catalogue range halved and doubled (after the comparison).
+
+    The leader and the runner-up get a quick re-run (own random streams, spawned after the
+    fits') where a wider range reaches beyond their posterior's edge; the other mechanisms
+    are then reported as not computable by reweighting.
+    """
+    if len(results) < 2:
+        return not_computed("fewer than two mechanisms fitted: no Bayes factor")
+    streams = dict(zip([r.id for r in results[:2]], master.spawn(2), strict=True))
+
+    def refit(mechanism_id: str, priors: tuple[Prior, ...]) -> tuple[float, float]:
+        with warnings.catch_warnings():  # its error bar says how good the quick re-run is
+            warnings.simplefilter("ignore")
+            return refit_log_evidence(fits[mechanism_id], priors, streams[mechanism_id])
+
+    return prior_sensitivity(
+        [(r.id, r.log_evidence, r.log_evidence_err) for r in results],
+        {r.id: fits[r.id].target.priors for r in results},
+        {r.id: fits[r.id].draws_internal for r in results},
+        {r.id: r.sampling.effective_sample_size for r in results},
+        refit=refit, refit_ids=tuple(streams))
 
 
 def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:
