@@ -9,15 +9,20 @@ scipy.stats.norm gives Phi), for the declared and for the rescaled boxes alike.
 from __future__ import annotations
 
 import math
+import warnings
 from dataclasses import replace
 
 import numpy as np
 import pytest
+from rich.console import Console
 from scipy import constants, stats
 
+from mechid.analysis import AnalysisSettings, run_analysis_full
 from mechid.catalogue import temporarily_registered
 from mechid.catalogue.base import Mechanism, Parameter
+from mechid.data import IVSeries
 from mechid.device import Device
+from mechid.errors import MechidWarning
 from mechid.inference.fit import fit_mechanism
 from mechid.inference.priors import Prior
 from mechid.inference.sensitivity import (
@@ -34,6 +39,10 @@ from mechid.inference.sensitivity import (
     reweight,
 )
 from mechid.inference.settings import QUICK_LADDER, QUICK_SEARCH
+from mechid.report.console import render_console
+from mechid.report.html import prior_sensitivity_html
+from mechid.report.text import methods_paragraph, results_paragraph
+from mechid.results import to_plain_json
 
 LINEAR = Prior("energy_eV", "eV", "uniform", 0.5, 10.5, origin="catalogue range")
 LOG = Prior("prefactor_S", "S", "log_uniform", 1e-3, 1e3, origin="catalogue range")
@@ -229,3 +238,86 @@ def test_reweighting_agrees_with_a_refit_of_a_toy_mechanism(toy_fit, scale):
     assert record.ln_evidence_shift == pytest.approx(direct, abs=tolerance)
     # The shift is not zero: halving costs ~2 ln 2 for two well-determined parameters.
     assert abs(record.ln_evidence_shift) > 0.9
+
+
+# --------------------------------------------------------------------------------------------
+# In the analysis: a parameter the data do not see makes the wider posterior touch the edge
+# --------------------------------------------------------------------------------------------
+
+
+def _toy_with_spare_current(voltage_V, temperature_K, device, *, activation_energy_eV,
+                            prefactor_S, spare_factor):
+    """The toy's current; ``spare_factor`` enters nothing (its posterior is its prior)."""
+    return _toy_current(voltage_V, temperature_K, device,
+                        activation_energy_eV=activation_energy_eV, prefactor_S=prefactor_S)
+
+
+TOY_WITH_SPARE = Mechanism(
+    id="toy_sensitivity_spare", family="hopping", name="Toy with a parameter the data miss",
+    formula="I = G0 V exp(-E_a/kT)", source="Arrhenius conductance; Mott & Davis (1979)",
+    parameters=(*TOY.parameters,
+                Parameter("spare_factor", "1", "f", "enters nothing", 1e-2, 1e2, 1.0,
+                          log_scale=True)),
+    magnitude=_toy_with_spare_current, needs_area=False,
+)
+
+
+def _toy_series() -> IVSeries:
+    temperatures = np.linspace(220.0, 340.0, 4)
+    biases = np.geomspace(0.02, 1.0, 8)
+    t, v = (a.ravel() for a in np.meshgrid(temperatures, np.r_[-biases[::-1], biases],
+                                           indexing="ij"))
+    clean = np.sign(v) * _toy_current(np.abs(v), t, Device(), **TOY_TRUTH)
+    current = clean * (1.0 + 0.02 * np.random.default_rng(11).standard_normal(v.size))
+    return IVSeries(temperature_K=t, voltage_V=v, current_A=current)
+
+
+@pytest.fixture(scope="module")
+def toy_analysis():
+    settings = AnalysisSettings(mechanisms=(TOY.id, TOY_WITH_SPARE.id), quick=True, workers=1)
+    with temporarily_registered(TOY), temporarily_registered(TOY_WITH_SPARE), \
+            warnings.catch_warnings():
+        warnings.simplefilter("ignore", MechidWarning)
+        return run_analysis_full(_toy_series(), Device(), settings, seed=5)
+
+
+def test_analysis_reruns_a_mechanism_whose_wider_posterior_touches_the_edge(toy_analysis):
+    record = toy_analysis.result.prior_sensitivity
+    assert record.computed and len(record.comparisons) == 1
+    spare = next(e for e in record.evidences
+                 if e.mechanism_id == TOY_WITH_SPARE.id and e.scale == 2.0)
+    assert spare.method == QUICK_RERUN and spare.edge_parameters == ("spare_factor",)
+    # A parameter the likelihood ignores does not change Z when its range widens, so the
+    # true shift is the width term of E_a and G0 alone: ln(0.99/1.495) + ln(12/24) (E_a's
+    # doubled range [-0.485, 1.495] eV stops at 0). The width term over all three parameters
+    # would be ln 2 lower; the re-run must not be.
+    expected = math.log(0.99 / 1.495) + math.log(12 / 24)
+    assert spare.width_term == pytest.approx(expected + math.log(0.5), rel=1e-12)
+    assert spare.ln_evidence_shift == pytest.approx(expected, abs=4 * spare.ln_evidence_shift_err)
+    assert abs(spare.ln_evidence_shift - spare.width_term) > 0.4
+    plain = to_plain_json(toy_analysis.result)["prior_sensitivity"]
+    assert plain["comparisons"][0]["scales"] == [0.5, 1.0, 2.0]
+
+
+def test_sensitivity_is_in_the_console_html_and_methods_text(toy_analysis):
+    data = to_plain_json(toy_analysis.result)
+    console = Console(record=True, width=200)
+    render_console(data, console)
+    text = console.export_text()
+    assert "Prior sensitivity:" in text and "moves by at most" in text
+    assert "importance reweighting" in methods_paragraph(data)
+    assert "Prior sensitivity:" in results_paragraph(data)
+    page = prior_sensitivity_html(data)
+    assert "ln B at x0.5" in page and "ln B at x2" in page
+    lnb = data["prior_sensitivity"]["comparisons"][0]["ln_bayes_factor"]
+    tag = 'data-json="prior_sensitivity.comparisons.0.ln_bayes_factor.2" data-fmt=".2f"'
+    assert f"{tag}>{lnb[2]:.2f}<" in page
+
+
+def test_screen_only_runs_record_why_there_is_no_sensitivity():
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", MechidWarning)
+        run = run_analysis_full(_toy_series(), Device(), AnalysisSettings(screen_only=True))
+    record = run.result.prior_sensitivity
+    assert not record.computed and "screen-only" in record.reason
+    assert to_plain_json(run.result)["prior_sensitivity"]["comparisons"] == []

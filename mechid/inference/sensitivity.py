@@ -71,7 +71,7 @@ LOG_SAMPLED_FLOOR_SHARE = 1e-6
 CATALOGUE_ORIGIN = "catalogue range"
 
 REWEIGHTING = "reweighting"
-REWEIGHTING_WIDTH_TERM = "reweighting (width term; posterior clear of the old edges)"
+REWEIGHTING_WIDTH_TERM = "width term (posterior clear of the old edges)"
 QUICK_RERUN = "quick re-run with the wider ranges"
 NOT_COMPUTABLE = "not computable by reweighting"
 
@@ -394,7 +394,7 @@ def compare_under_ranges(
             a, b = evidences[(leader, scale)], evidences[(other, scale)]
             values.append(ln_z_leader + a.ln_evidence_shift - ln_z_other - b.ln_evidence_shift)
             errors.append(float(np.hypot(a.ln_evidence_shift_err, b.ln_evidence_shift_err)))
-            methods.append(a.method if a.method == b.method else f"{a.method}; {b.method}")
+            methods.append(a.method if a.method == b.method else f"{a.method} | {b.method}")
         base = values[columns.index(1.0)]
         shifts = [abs(v - base) for v in values if math.isfinite(v)]
         finite = [i for i, v in enumerate(values) if math.isfinite(v)]
@@ -408,8 +408,14 @@ def compare_under_ranges(
     return tuple(comparisons)
 
 
-def summary_sentence(comparisons: Sequence[BayesFactorUnderRanges]) -> str:
-    """"ln B moves by at most X when every catalogue range is halved or doubled" and more."""
+def summary_sentence(comparisons: Sequence[BayesFactorUnderRanges],
+                     evidences: Sequence[EvidenceUnderRanges] = ()) -> str:
+    """"ln B moves by at most X when every catalogue range is halved or doubled" and more.
+
+    Names the leader's and runner-up's parameters whose posterior reached a declared range's
+    edge (re-fitted with the doubled ranges): a large shift then says that the range, not
+    the data, held that mechanism back.
+    """
     if not comparisons:
         return "only one mechanism fitted: no Bayes factor to test"
     runner = comparisons[0]
@@ -420,6 +426,11 @@ def summary_sentence(comparisons: Sequence[BayesFactorUnderRanges]) -> str:
             f"range is halved or doubled (ln B at {scales}: {values})")
     if not runner.complete:
         text += "; not computable by reweighting at some widths (see methods)"
+    at_edge = [f"{e.mechanism_id} ({', '.join(e.edge_parameters)})" for e in evidences
+               if e.method == QUICK_RERUN and e.mechanism_id in (runner.leader, runner.other)]
+    if at_edge:
+        text += ("; re-fitted with the doubled ranges because the posterior reaches a declared "
+                 "range's edge: " + ", ".join(at_edge))
     overall = [c.largest_shift for c in comparisons if math.isfinite(c.largest_shift)]
     if len(comparisons) > 1 and overall:
         text += f"; against every fitted mechanism at most {max(overall):.2f}"
@@ -467,7 +478,8 @@ def prior_sensitivity(
     return PriorSensitivity(
         computed=True, reason="", scales=tuple(sorted({1.0, *scales})),
         largest_shift=max(finite) if finite else math.nan,
-        sentence=summary_sentence(comparisons), comparisons=comparisons,
+        sentence=summary_sentence(comparisons, tuple(evidences.values())),
+        comparisons=comparisons,
         evidences=tuple(evidences.values()))
 
 

@@ -411,13 +411,13 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                           "parameters", "case against"], rows, numeric=(1, 2, 3),
                          row_classes=classes))
         out.append(figures.get("comparison_bayes_factors"))
-        out.append(_prior_sensitivity_html(data))
+        out.append(prior_sensitivity_html(data))
     out.append(_not_fitted_html(data))
     out.append(_screening_table(data))
     return "".join(out)
 
 
-def _prior_sensitivity_html(data: Json) -> str:
+def prior_sensitivity_html(data: Json) -> str:
     """ln B of the leader against each mechanism with every catalogue range x0.5, x1, x2."""
     record = data.get("prior_sensitivity") or {}
     if not record.get("computed"):
