@@ -9,7 +9,6 @@ from __future__ import annotations
 
 import math
 import time
-import warnings
 from collections.abc import Callable, Mapping
 from dataclasses import asdict, dataclass, field, replace
 from typing import Any, Literal
@@ -39,7 +38,7 @@ from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.priors import Prior
 from mechid.inference.rounds import FitJob, default_workers, fit_candidates_in_rounds
-from mechid.inference.sensitivity import not_computed, prior_sensitivity, refit_log_evidence
+from mechid.inference.sensitivity import not_computed, sensitivity_of_fits
 from mechid.inference.settings import (
     FULL_LADDER,
     FULL_SEARCH,
@@ -55,7 +54,6 @@ from mechid.results import (
     MechanismResult,
     NotFittedMechanism,
     ParameterSummary,
-    PriorSensitivity,
     Verdict,
 )
 from mechid.screening import LinearisationResult, linearise
@@ -193,7 +191,7 @@ def run_analysis_full(
     results = _ranked_results(fits, settings)
     verdict = _verdict(results, settings, not_fitted) if results else None
     sensitivity = (not_computed("screen-only run: no fit") if settings.screen_only
-                   else _prior_sensitivity(fits, results, master))
+                   else sensitivity_of_fits(fits, results, master))
     result = AnalysisResult(
         input={**series.summary(), "polarity": settings.polarity,
                "n_points_fitted": int(mask.sum())},
@@ -210,31 +208,6 @@ def run_analysis_full(
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
-
-
-def _prior_sensitivity(fits: dict[str, MechanismFit], results: list[MechanismResult],
-                       master: np.random.Generator) -> PriorSensitivity:
-    """Bayes factors with every catalogue range halved and doubled (after the comparison).
-
-    The leader and the runner-up get a quick re-run (own random streams, spawned after the
-    fits') where a wider range reaches beyond their posterior's edge; the other mechanisms
-    are then reported as not computable by reweighting.
-    """
-    if len(results) < 2:
-        return not_computed("fewer than two mechanisms fitted: no Bayes factor")
-    streams = dict(zip([r.id for r in results[:2]], master.spawn(2), strict=True))
-
-    def refit(mechanism_id: str, priors: tuple[Prior, ...]) -> tuple[float, float]:
-        with warnings.catch_warnings():  # its error bar says how good the quick re-run is
-            warnings.simplefilter("ignore")
-            return refit_log_evidence(fits[mechanism_id], priors, streams[mechanism_id])
-
-    return prior_sensitivity(
-        [(r.id, r.log_evidence, r.log_evidence_err) for r in results],
-        {r.id: fits[r.id].target.priors for r in results},
-        {r.id: fits[r.id].draws_internal for r in results},
-        {r.id: r.sampling.effective_sample_size for r in results},
-        refit=refit, refit_ids=tuple(streams))
 
 
 def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:

@@ -43,8 +43,10 @@ Choices (stated in the report):
 from __future__ import annotations
 
 import math
+import warnings
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass, replace
+from typing import Any
 
 import numpy as np
 from numpy.typing import NDArray
@@ -52,7 +54,12 @@ from numpy.typing import NDArray
 from mechid.catalogue.base import ParameterHints
 from mechid.inference.priors import Prior
 from mechid.inference.settings import QUICK_LADDER, QUICK_SEARCH, LadderSettings, SearchSettings
-from mechid.results import BayesFactorUnderRanges, EvidenceUnderRanges, PriorSensitivity
+from mechid.results import (
+    BayesFactorUnderRanges,
+    EvidenceUnderRanges,
+    MechanismResult,
+    PriorSensitivity,
+)
 
 #: Width factors applied to every catalogue range (x1 is the analysis itself).
 WIDTH_SCALES = (0.5, 2.0)
@@ -488,3 +495,38 @@ def not_computed(reason: str) -> PriorSensitivity:
     return PriorSensitivity(computed=False, reason=reason, scales=(), largest_shift=math.nan,
                             sentence=f"prior sensitivity not computed: {reason}",
                             comparisons=(), evidences=())
+
+
+def sensitivity_of_fits(fits: Mapping[str, Any], results: Sequence[MechanismResult],
+                        rng: np.random.Generator, n_refits: int = 2) -> PriorSensitivity:
+    """The prior-sensitivity record of an analysis, from its fits and ranked results.
+
+    Parameters
+    ----------
+    fits : mapping
+        :class:`mechid.inference.fit.MechanismFit` by mechanism id.
+    results : sequence of MechanismResult
+        The ranked results (leader first).
+    rng : numpy.random.Generator
+        Source of the re-runs' streams (one spawned per re-run candidate, after the fits').
+    n_refits : int
+        How many of the top-ranked mechanisms may be re-run with the doubled ranges when their
+        posterior reaches a range edge (the analysis: 2, leader and runner-up); the others
+        are then reported as not computable by reweighting.
+    """
+    if len(results) < 2:
+        return not_computed("fewer than two mechanisms fitted: no Bayes factor")
+    candidates = [r.id for r in results[:n_refits]]
+    streams = dict(zip(candidates, rng.spawn(len(candidates)), strict=True))
+
+    def refit(mechanism_id: str, priors: tuple[Prior, ...]) -> tuple[float, float]:
+        with warnings.catch_warnings():  # its error bar says how good the quick re-run is
+            warnings.simplefilter("ignore")
+            return refit_log_evidence(fits[mechanism_id], priors, streams[mechanism_id])
+
+    return prior_sensitivity(
+        [(r.id, r.log_evidence, r.log_evidence_err) for r in results],
+        {r.id: fits[r.id].target.priors for r in results},
+        {r.id: fits[r.id].draws_internal for r in results},
+        {r.id: r.sampling.effective_sample_size for r in results},
+        refit=refit, refit_ids=tuple(streams))
