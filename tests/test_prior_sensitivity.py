@@ -141,6 +141,12 @@ def test_edge_criterion_fires_on_a_posterior_piled_at_a_bound():
     assert rerun.method == QUICK_RERUN
     assert rerun.ln_evidence_shift == pytest.approx(exact, abs=1e-12)
     assert rerun.ln_evidence_shift_err == pytest.approx(math.hypot(0.1, 0.05), rel=1e-12)
+    # A re-run below the exact lower bound ln Z + width term (the wider box contains the old
+    # one, so Z' >= (w/w') Z) missed the posterior: no number.
+    missed = evidence_under_ranges("gauss", priors, draws, 2.0, ln_z, 0.05,
+                                   refit=lambda _id, new: (ln_z + record.width_term - 1.0, 0.1))
+    assert missed.method.startswith(NOT_COMPUTABLE) and "lower bound" in missed.method
+    assert math.isnan(missed.ln_evidence_shift)
 
 
 def test_edge_criterion_stays_quiet_far_from_the_bounds_and_fires_on_a_flat_posterior():

@@ -22,8 +22,11 @@ x0.5) and wider (width x2), all at once, and each mechanism's log evidence is re
   ``ln(1 + sum of those)`` exceeds :data:`MISSED_MASS_LIMIT_NATS` the posterior is said to
   touch the edge, and the wider evidence comes from a short re-run with the wider ranges
   (:func:`refit_log_evidence`, quick settings) or is reported "not computable by
-  reweighting" -- never as the width term alone. A separate mode entirely outside the old box
-  is not detected by this criterion (nothing was sampled there).
+  reweighting" -- never as the width term alone. Since the wider box contains the old one,
+  ``ln Z' >= ln Z + width term`` exactly; a re-run more than :data:`RERUN_SIGMAS` standard
+  errors below that bound missed the posterior and is reported as not computable. A separate
+  mode entirely outside the old box is not detected by the edge criterion (nothing was
+  sampled there).
 
 Choices (stated in the report):
 
@@ -69,6 +72,9 @@ EDGE_BAND_SHARE = 0.01
 #: Bound on the likelihood mass the reweighting could miss beyond the old range (nats; the
 #: evidence engine's own precision target, ``LadderSettings.target_sigma``, is 0.1).
 MISSED_MASS_LIMIT_NATS = 0.1
+#: A re-run whose ln Z' lies more than this many standard errors below the exact lower bound
+#: ln Z + width term (the wider box contains the old one) is reported as failed.
+RERUN_SIGMAS = 3.0
 #: Fewest effective weighted draws for a reweighted value to be quoted.
 MIN_EFFECTIVE_DRAWS = 20.0
 #: Where a positive quantity sampled in log10 stops, as a share of its new upper end (the
@@ -337,9 +343,17 @@ def evidence_under_ranges(
             missed_mass_bound=edge.missed_mass_bound, **common)
     full_new = tuple(next((b for b in new if b.name == p.name), p) for p in priors)
     ln_z, ln_z_err = refit(mechanism_id, full_new)
+    shift, error = ln_z - log_evidence, float(np.hypot(ln_z_err, log_evidence_err))
+    method = QUICK_RERUN
+    if not (math.isfinite(shift) and math.isfinite(error)) or shift + RERUN_SIGMAS * error < exact:
+        # The wider box contains the old one, so Z' >= (w/w') Z exactly: a re-run below that
+        # bound did not find the posterior the first fit sampled.
+        method = (f"{NOT_COMPUTABLE} (the quick re-run gave ln Z' - ln Z = {shift:.2f} ± "
+                  f"{error:.2f}, below the exact lower bound {exact:.2f}: it missed the "
+                  "posterior)")
+        shift, error = math.nan, math.nan
     return EvidenceUnderRanges(
-        method=QUICK_RERUN, ln_evidence_shift=ln_z - log_evidence,
-        ln_evidence_shift_err=float(np.hypot(ln_z_err, log_evidence_err)),
+        method=method, ln_evidence_shift=shift, ln_evidence_shift_err=error,
         effective_sample_size=math.nan, edge_parameters=edge.parameters,
         missed_mass_bound=edge.missed_mass_bound, **common)
 
@@ -355,8 +369,8 @@ def refit_log_evidence(
 
     The mechanism's declared ranges are replaced by the ``priors``' supports (log-uniform and
     uniform catalogue priors only; device and noise priors come out as before) and the whole
-    fit (:func:`mechid.inference.fit.fit_mechanism`) runs again on the same points, started
-    from the first fit's posterior medians.
+    fit (:func:`mechid.inference.fit.fit_mechanism`) runs again on the same points, its mode
+    search seeded with the first fit's best point (``map_parameters``).
     """
     from mechid.inference.fit import fit_mechanism
 
@@ -367,9 +381,9 @@ def refit_log_evidence(
         replace(p, lower=changed[p.name].lower, upper=changed[p.name].upper)
         if p.name in changed else p for p in mechanism.parameters)
     widened = replace(mechanism, parameters=parameters)
-    medians = {name: float(np.median(values)) for name, values in fit.result.draws.items()
-               if name in changed}
-    hints = ParameterHints(mechanism.id, {k: v for k, v in medians.items()
+    start = {name: float(value) for name, value in fit.result.map_parameters.items()
+             if name in changed}
+    hints = ParameterHints(mechanism.id, {k: v for k, v in start.items()
                                           if changed[k].lower < v < changed[k].upper})
     target = fit.target
     again = fit_mechanism(widened, target.voltage_V, target.temperature_K, target.current_A,

@@ -365,7 +365,8 @@ def prior_sensitivity_methods(data: Json) -> str:
         "see likelihood mass beyond the declared range; where the share of posterior draws in "
         "the outer 1 % of a range, continued flat over the added width, bounds that mass "
         "above 0.1 nats, the leader and the runner-up were re-fitted with the doubled ranges "
-        "(quick settings) and other mechanisms are reported as not computable.")
+        "(quick settings; a re-run below the exact lower bound ln Z + Σ ln(w/w') is "
+        "reported as failed) and other mechanisms are reported as not computable.")
 
 
 def priors_paragraph(data: Json) -> str:
