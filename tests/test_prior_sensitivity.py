@@ -147,6 +147,9 @@ def test_edge_criterion_fires_on_a_posterior_piled_at_a_bound():
                                    refit=lambda _id, new: (ln_z + record.width_term - 1.0, 0.1))
     assert missed.method.startswith(NOT_COMPUTABLE) and "lower bound" in missed.method
     assert math.isnan(missed.ln_evidence_shift)
+    broken = evidence_under_ranges("gauss", priors, draws, 2.0, ln_z, 0.05,
+                                   refit=lambda _id, new: (math.inf, math.nan))
+    assert "no finite" in broken.method and math.isnan(broken.ln_evidence_shift)
 
 
 def test_edge_criterion_stays_quiet_far_from_the_bounds_and_fires_on_a_flat_posterior():

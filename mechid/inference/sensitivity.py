@@ -345,7 +345,10 @@ def evidence_under_ranges(
     ln_z, ln_z_err = refit(mechanism_id, full_new)
     shift, error = ln_z - log_evidence, float(np.hypot(ln_z_err, log_evidence_err))
     method = QUICK_RERUN
-    if not (math.isfinite(shift) and math.isfinite(error)) or shift + RERUN_SIGMAS * error < exact:
+    if not (math.isfinite(shift) and math.isfinite(error)):
+        method = f"{NOT_COMPUTABLE} (the quick re-run gave no finite ln Z' and error)"
+        shift, error = math.nan, math.nan
+    elif shift + RERUN_SIGMAS * error < exact:
         # The wider box contains the old one, so Z' >= (w/w') Z exactly: a re-run below that
         # bound did not find the posterior the first fit sampled.
         method = (f"{NOT_COMPUTABLE} (the quick re-run gave ln Z' - ln Z = {shift:.2f} ± "
