@@ -56,6 +56,7 @@ from mechid.results import (
     Verdict,
 )
 from mechid.screening import LinearisationResult, linearise
+from mechid.screening.asymmetry import PolarityAsymmetry
 
 ProgressHook = Callable[[str, int, int], None]
 
@@ -188,7 +189,11 @@ def run_analysis_full(
         not_fitted = tuple(outcome.not_fitted[m.id] for m in mechanisms
                            if m.id in outcome.not_fitted)
     results = _ranked_results(fits, settings)
-    verdict = _verdict(results, settings, not_fitted) if results else None
+    by_id = {m.id: m for m in mechanisms}
+    leader = by_id[results[0].id] if results else None
+    polarity = (polarity_assumption(leader, _fitted_polarities(series.voltage_V[mask]))
+                if leader is not None else "")
+    verdict = _verdict(results, settings, not_fitted, polarity) if results else None
     result = AnalysisResult(
         input={**series.summary(), "polarity": settings.polarity,
                "n_points_fitted": int(mask.sum())},
@@ -198,12 +203,19 @@ def run_analysis_full(
         verdict=verdict,
         settings={**asdict(settings), "ladder": asdict(settings.ladder()),
                   "wall_time_s": time.perf_counter() - started},
-        cautions=tuple(cautions(series, device, results, verdict)),
+        cautions=tuple(cautions(series, device, results, verdict, lin.polarity_asymmetry,
+                                leader_symmetric=None if leader is None else leader.is_odd)),
         seed=seed,
         not_fitted=not_fitted,
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
+
+
+def _fitted_polarities(voltage_V: np.ndarray) -> str:
+    """``"both"``, ``"positive"`` or ``"negative"``: the bias signs among the fitted points."""
+    positive, negative = bool(np.any(voltage_V > 0)), bool(np.any(voltage_V < 0))
+    return "both" if positive and negative else "positive" if positive else "negative"
 
 
 def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:
@@ -374,7 +386,8 @@ def determination(result: MechanismResult) -> dict[str, ParameterSummary]:
 
 
 def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
-             not_fitted: tuple[NotFittedMechanism, ...] = ()) -> Verdict:
+             not_fitted: tuple[NotFittedMechanism, ...] = (),
+             polarity: str = "") -> Verdict:
     best = results[0]
     runner = results[1] if len(results) > 1 else None
     ln_b = -runner.ln_bayes_factor_vs_best if runner else float("inf")
@@ -387,6 +400,7 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
                 else f"most probable of the {len(results)} mechanisms fitted" if runner
                 else "the only mechanism fitted")
     return Verdict(
+        polarity_assumption=polarity,
         id=best.id, family=best.family, probability=best.probability,
         ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=ln_b_err,
         runner_up=runner.id if runner else None, strength=strength, resolved=resolved,
@@ -395,8 +409,29 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
         sentence=quick_run_prefix(settings.quick)
         + verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved,
                            n_candidates=len(results), prior_odds=odds)
-        + _not_fitted_sentence(len(results), not_fitted),
+        + _not_fitted_sentence(len(results), not_fitted)
+        + (f" Polarity assumption: {polarity}." if polarity else ""),
     )
+
+
+def polarity_assumption(mechanism: Mechanism, fitted_polarities: str) -> str:
+    """How ``mechanism`` treats the two bias polarities, and which ones were fitted.
+
+    Parameters
+    ----------
+    mechanism : Mechanism
+        The leading hypothesis.
+    fitted_polarities : str
+        ``"both"``, ``"positive"`` or ``"negative"``: the bias points that were fitted.
+    """
+    law = ("symmetric in bias, I(-V) = -I(V), with one parameter set for both polarities"
+           if mechanism.is_odd else
+           "not symmetric in bias: its formula (and any parameter declared per electrode) "
+           "differs between the polarities")
+    fitted = {"both": "both polarities fitted jointly",
+              "positive": "positive bias only fitted",
+              "negative": "negative bias only fitted"}.get(fitted_polarities, fitted_polarities)
+    return f"{law}; {fitted}"
 
 
 def _not_fitted_sentence(n_fitted: int, not_fitted: tuple[NotFittedMechanism, ...]) -> str:
@@ -515,8 +550,12 @@ def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b
 
 
 def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
-             verdict: Verdict | None) -> list[str]:
+             verdict: Verdict | None, asymmetry: PolarityAsymmetry | None = None, *,
+             leader_symmetric: bool | None = None) -> list[str]:
     """Plain statements of what these data cannot distinguish, then how they were taken.
+
+    ``asymmetry`` (the screening's polarity diagnostic) adds a caution when the polarities
+    differ but the leading hypothesis is symmetric in bias (``leader_symmetric``).
 
     The second part, :func:`mechid.measurement.measurement_cautions`, names high voltage, high
     current density, cryogenic temperatures and disagreeing repeats when the data show them.
@@ -536,6 +575,12 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
     if not (np.any(series.voltage_V > 0) and np.any(series.voltage_V < 0)):
         notes.append("only one bias polarity was measured: bulk-limited (symmetric) and "
                      "electrode-limited (asymmetric) conduction cannot be told apart")
+    if asymmetry is not None and asymmetry.asymmetric and verdict is not None and leader_symmetric:
+        notes.append(f"the two bias polarities carry different currents ({asymmetry.sentence()}) "
+                     f"but the leading hypothesis, {verdict.id}, is symmetric in bias: its "
+                     "parameters average over both electrodes; compare the hypotheses whose "
+                     "parameters differ between the polarities, or fit each polarity alone "
+                     "(--polarity positive / negative)")
     emission_fitted = any(r.family == "emission" for r in results) or not results
     if device.optical_dielectric_constant is None and emission_fitted:
         notes.append("no optical dielectric constant was given: the dielectric constants read from "

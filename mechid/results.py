@@ -211,6 +211,8 @@ class Verdict:
     and ``sentence`` leave it out when the leader is not adequate, and ``failing_statistics``
     then say which posterior predictive checks failed and what that means. ``quick_run``
     is true for a ``--quick`` run, whose sentence opens with :data:`QUICK_RUN_BANNER`.
+    ``polarity_assumption`` says how the leader treats the two bias polarities (one parameter
+    set for both, or a formula that differs between them) and which polarities were fitted.
     """
 
     id: str
@@ -229,6 +231,7 @@ class Verdict:
     failing_statistics: tuple[str, ...]
     quick_run: bool
     sentence: str
+    polarity_assumption: str = ""
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "bayes_factor_vs_runner_up",

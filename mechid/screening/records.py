@@ -14,6 +14,7 @@ from typing import Any
 import numpy as np
 
 from mechid.catalogue.base import ParameterHints
+from mechid.screening.asymmetry import PolarityAsymmetry
 
 
 def _json_float(value: float | None) -> float | None:
@@ -271,6 +272,9 @@ class LinearisationResult:
         Apparent activation energy at each common bias.
     ranking : tuple of str
         Mechanism ids, best screening score first.
+    polarity_asymmetry : PolarityAsymmetry or None
+        Do the two bias polarities carry the same current
+        (:func:`mechid.screening.asymmetry.polarity_asymmetry`).
     """
 
     mechanisms: tuple[MechanismLinearisation, ...]
@@ -278,6 +282,7 @@ class LinearisationResult:
     transition_voltages: tuple[TransitionVoltage, ...]
     activation_energies: tuple[ActivationEnergy, ...]
     ranking: tuple[str, ...]
+    polarity_asymmetry: PolarityAsymmetry | None = None
 
     @property
     def best(self) -> str | None:
@@ -304,6 +309,8 @@ class LinearisationResult:
             "activation_energies": [a.to_dict() for a in self.activation_energies],
             "ranking": list(self.ranking),
             "best": self.best,
+            "polarity_asymmetry": (None if self.polarity_asymmetry is None
+                                   else self.polarity_asymmetry.to_dict()),
         }
 
 

@@ -20,6 +20,7 @@ from mechid.screening.analyses import (
     transition_voltages,
     zabrodskii_analysis,
 )
+from mechid.screening.asymmetry import polarity_asymmetry
 from mechid.screening.biases import PreparedSeries, prepare_series
 from mechid.screening.checks import CheckContext, declared_range_checks, evaluate_check
 from mechid.screening.hints import parameter_hints
@@ -115,6 +116,7 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
             "log_log_slopes": log_log_slopes(data),
         }
         results = tuple(_analyse_mechanism(m, data, device, shared) for m in mechanisms)
+        asymmetry = polarity_asymmetry(data)
     order = sorted(range(len(results)), key=lambda k: (-results[k].score, k))
     return LinearisationResult(
         mechanisms=results,
@@ -122,4 +124,5 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
         transition_voltages=tuple(shared["transitions"]),
         activation_energies=tuple(shared["activation"]),
         ranking=tuple(results[k].mechanism_id for k in order),
+        polarity_asymmetry=asymmetry,
     )
