@@ -239,6 +239,32 @@ class Verdict:
 
 
 @dataclass(frozen=True)
+class PolarityComparison:
+    """One mechanism with one parameter set for both polarities against each polarity alone.
+
+    The separate model fits the positive-bias and the negative-bias points as two
+    independent series (every parameter, noise included, free on each side), so its
+    evidence is the product ``Z_positive * Z_negative``; the Bayes factor against the shared
+    (joint) fit is ``ln Z_positive + ln Z_negative - ln Z_shared``. Positive favours parameters
+    that differ between the polarities (e.g. two electrode barriers); ``preferred`` is
+    ``"undecided"`` when it is within twice its Monte Carlo error.
+    """
+
+    mechanism_id: str
+    ln_evidence_shared: float
+    ln_evidence_shared_err: float
+    ln_evidence_positive: float
+    ln_evidence_positive_err: float
+    ln_evidence_negative: float
+    ln_evidence_negative_err: float
+    ln_bayes_factor_separate_vs_shared: float
+    ln_bayes_factor_separate_vs_shared_err: float
+    preferred: str
+    parameters_positive: dict[str, ParameterSummary]
+    parameters_negative: dict[str, ParameterSummary]
+
+
+@dataclass(frozen=True)
 class AnalysisResult:
     """The whole outcome of ``mechid analyze`` (the JSON contract ``mechid.result/1``)."""
 
@@ -254,6 +280,8 @@ class AnalysisResult:
     cautions: tuple[str, ...]
     #: Mechanisms asked for but not fitted (formula outside its validity on these data).
     not_fitted: tuple[NotFittedMechanism, ...] = ()
+    #: ``--polarity each``: shared against separate parameters, per mechanism fitted to both.
+    polarity_comparison: tuple[PolarityComparison, ...] = ()
 
     def mechanism(self, mechanism_id: str) -> MechanismResult:
         """The result for one mechanism id."""

@@ -152,3 +152,29 @@ def test_polarity_assumption_names_the_law_and_the_fitted_polarities():
     assert odd.startswith("symmetric in bias") and odd.endswith("both polarities fitted jointly")
     assert polarity_assumption(TOY, "positive").startswith("not symmetric in bias")
     assert polarity_assumption(TOY, "positive").endswith("positive bias only fitted")
+
+
+def test_each_polarity_alone_against_both_together_in_one_run(tmp_path):
+    # 3.8x more current at positive bias than a single Schottky barrier gives: the two sides
+    # alone must beat one shared parameter set by evidence, in the same run as the joint fit.
+    from mechid.analysis import AnalysisSettings, run_analysis_full
+    from mechid.report.text import polarity_comparison_lines
+    from mechid.results import to_plain_json
+
+    raw = _schottky_series(3.8, seed=6)
+    series = IVSeries(temperature_K=raw.temperature_K, voltage_V=raw.voltage_V,
+                      current_A=raw.current_A)
+    device = Device(area_cm2=1e-4, thickness_nm=Measured(20.0, 1.0),
+                    optical_dielectric_constant=Measured(4.0, 0.4))
+    settings = AnalysisSettings(mechanisms=("schottky_emission",), quick=True, workers=1,
+                                polarity="each")
+    result = run_analysis_full(series, device, settings, seed=12).result
+    (entry,) = result.polarity_comparison
+    assert entry.mechanism_id == "schottky_emission"
+    assert entry.ln_bayes_factor_separate_vs_shared > 10 and entry.preferred == "separate"
+    total = entry.ln_evidence_positive + entry.ln_evidence_negative - entry.ln_evidence_shared
+    assert entry.ln_bayes_factor_separate_vs_shared == pytest.approx(total, rel=1e-12)
+    assert "each alone" in result.verdict.polarity_assumption
+    data = to_plain_json(result)
+    (line,) = polarity_comparison_lines(data)
+    assert "separate vs shared" in line and "positive bias:" in line
