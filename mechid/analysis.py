@@ -33,7 +33,12 @@ from mechid.inference.adequacy import (
     NOISE_RESOLUTION,
     AdequacyCheck,
 )
-from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
+from mechid.inference.compare import (
+    FamilyProbability,
+    family_probabilities,
+    kass_raftery_wording,
+    rank_mechanisms,
+)
 from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.priors import Prior
@@ -202,6 +207,8 @@ def run_analysis_full(
     polarity = (polarity_assumption(leader, fitted_sides)
                 if leader is not None else "")
     verdict = _verdict(results, settings, not_fitted, polarity) if results else None
+    if verdict is not None:
+        verdict = _with_families(verdict, results, settings)
     result = AnalysisResult(
         input={**series.summary(), "polarity": settings.polarity,
                "n_points_fitted": int(mask.sum())},
@@ -473,6 +480,26 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
         + _not_fitted_sentence(len(results), not_fitted)
         + (f" Polarity assumption: {polarity}." if polarity else ""),
     )
+
+
+def _with_families(verdict: Verdict, results: list[MechanismResult],
+                   settings: AnalysisSettings) -> Verdict:
+    """The verdict with each family's summed probability, in its fields and its sentence."""
+    families = family_probabilities(
+        {r.id: r.log_evidence for r in results}, {r.id: r.log_evidence_err for r in results},
+        {r.id: r.family for r in results}, prior_odds=settings.prior_odds)
+    return replace(verdict, family_probabilities=families,
+                   sentence=verdict.sentence + family_sentence(families))
+
+
+def family_sentence(families: tuple[FamilyProbability, ...]) -> str:
+    """``" By family: tunnelling 0.97 ± 0.01 (2 mechanisms), ..."`` (empty for one family)."""
+    if len(families) < 2:
+        return ""
+    parts = [f"{f.family} {format_probability(f.probability)} ± {f.probability_err:.2g} "
+             f"({len(f.members)} mechanism{'' if len(f.members) == 1 else 's'})"
+             for f in families]
+    return " Probability by family, summed over its members: " + ", ".join(parts) + "."
 
 
 def polarity_assumption(mechanism: Mechanism, fitted_polarities: str) -> str:

@@ -24,6 +24,7 @@ from mechid.inference.flags import SamplerFlag
 if TYPE_CHECKING:
     from mechid.catalogue.validity import ValidityViolation
     from mechid.inference.adequacy import AdequacyCheck
+    from mechid.inference.compare import FamilyProbability
     from mechid.inference.evidence import EvidenceResult
     from mechid.inference.priors import Prior
 
@@ -232,6 +233,8 @@ class Verdict:
     quick_run: bool
     sentence: str
     polarity_assumption: str = ""
+    #: Summed posterior probability per family (tunnelling, emission, hopping, ...).
+    family_probabilities: tuple[FamilyProbability, ...] = ()
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "bayes_factor_vs_runner_up",
