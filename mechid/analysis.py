@@ -94,6 +94,11 @@ class AnalysisSettings:
     ladder_overrides : mapping
         Fields of :class:`~mechid.inference.settings.LadderSettings` that replace the
         preset's (:data:`~mechid.inference.settings.FULL_LADDER` or ``QUICK_LADDER``).
+    bias_window_V : (float, float), optional
+        Analyse only points with ``low <= |V| <= high`` (both polarities), e.g. the high-field
+        range of a Fowler-Nordheim analysis. Screening, fit and report all use the window.
+    temperature_window_K : (float, float), optional
+        Analyse only temperatures with ``low <= T <= high``.
     """
 
     mechanisms: tuple[str, ...] | None = None
@@ -103,6 +108,8 @@ class AnalysisSettings:
     prior_odds: dict[str, float] | None = None
     workers: int = 0
     ladder_overrides: Mapping[str, Any] = field(default_factory=dict)
+    bias_window_V: tuple[float, float] | None = None
+    temperature_window_K: tuple[float, float] | None = None
 
     def ladder(self) -> LadderSettings:
         """The tempered-ladder settings these choices imply."""
@@ -128,6 +135,42 @@ class AnalysisRun:
     series: IVSeries
     device: Device
     predictive: dict[str, PosteriorPredictive]
+
+
+def apply_windows(series: IVSeries, settings: AnalysisSettings) -> tuple[IVSeries, dict[str, Any]]:
+    """The points inside the bias and temperature windows, and the windows as JSON.
+
+    Raises
+    ------
+    MechidError
+        If a window is not ``low < high`` with finite limits (``low >= 0`` for |V| and
+        ``low > 0`` K), or fewer than 3 points remain.
+    """
+    keep = np.ones(series.n_points, dtype=bool)
+    windows = (("--bias-window", settings.bias_window_V, np.abs(series.voltage_V), 0.0, "V"),
+               ("--temperature-window", settings.temperature_window_K, series.temperature_K,
+                1e-300, "K"))
+    for option, window, values, least, unit in windows:
+        if window is None:
+            continue
+        low, high = (float(x) for x in window)
+        if not (math.isfinite(low) and math.isfinite(high) and least <= low < high):
+            raise MechidError(f"{option} must be LOW:HIGH in {unit} with {least:g} <= LOW < HIGH"
+                              f"{' (|V|)' if unit == 'V' else ''}, got {low:g}:{high:g}")
+        keep &= (values >= low) & (values <= high)
+    record = {"bias_abs_V": None if settings.bias_window_V is None
+              else [float(x) for x in settings.bias_window_V],
+              "temperature_K": None if settings.temperature_window_K is None
+              else [float(x) for x in settings.temperature_window_K],
+              "n_points_outside": int((~keep).sum())}
+    if keep.all():
+        return series, record
+    if keep.sum() < 3:
+        raise MechidError(f"the windows keep {int(keep.sum())} of {series.n_points} points; at "
+                          "least 3 are needed (check --bias-window / --temperature-window)")
+    inside = replace(series, temperature_K=series.temperature_K[keep],
+                     voltage_V=series.voltage_V[keep], current_A=series.current_A[keep])
+    return inside, record
 
 
 def select_polarity(series: IVSeries, polarity: Polarity) -> np.ndarray:
@@ -169,6 +212,8 @@ def run_analysis_full(
     """
     settings = settings or AnalysisSettings()
     started = time.perf_counter()
+    measured = series.summary()
+    series, window = apply_windows(series, settings)
     mask = select_polarity(series, settings.polarity)
     if mask.sum() < 3:
         raise MechidError(f"no data points left for --polarity {settings.polarity}")
@@ -210,7 +255,7 @@ def run_analysis_full(
     if verdict is not None:
         verdict = _with_families(verdict, results, settings)
     result = AnalysisResult(
-        input={**series.summary(), "polarity": settings.polarity,
+        input={**measured, "polarity": settings.polarity, "window": window,
                "n_points_fitted": int(mask.sum())},
         device=device.to_dict(),
         linearisation=lin.to_dict(),

@@ -470,6 +470,20 @@ def _screening_table(data: Json) -> str:
                     numeric=(0, 2, 3)))
 
 
+def _window_text(window: Json) -> str:
+    """``"1.5 <= |V| <= 6 V; 77 <= T <= 300 K (12 points outside)"`` or ``"all points"``."""
+    parts = []
+    if window.get("bias_abs_V"):
+        parts.append(f"{fmt(window['bias_abs_V'][0], 'g')} <= |V| <= "
+                     f"{fmt(window['bias_abs_V'][1], 'g')} V")
+    if window.get("temperature_K"):
+        parts.append(f"{fmt(window['temperature_K'][0], 'g')} <= T <= "
+                     f"{fmt(window['temperature_K'][1], 'g')} K")
+    if not parts:
+        return "all points"
+    return "; ".join(parts) + f" ({window.get('n_points_outside')} points outside)"
+
+
 def _data_section(data: Json, run: ReportRun, figures: _Figures) -> str:
     inp = data.get("input") or {}
     out = ['<h2 id="data"><span class="num">3</span>The measurements</h2>',
@@ -485,6 +499,7 @@ def _data_section(data: Json, run: ReportRun, figures: _Figures) -> str:
         ["decades of current", num(inp.get("current_decades"), ".2f", "input.current_decades")],
         ["both polarities", "yes" if inp.get("both_polarities") else "no"],
         ["polarity fitted", esc(inp.get("polarity", "both"))],
+        ["window analysed", esc(_window_text(inp.get("window") or {}))],
         ["points excluded", num(inp.get("n_excluded"), "d", "input.n_excluded")],
     ]
     device_rows = _device_rows(data.get("device") or {})

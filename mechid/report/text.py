@@ -268,6 +268,17 @@ def _data_sentence(data: Json) -> str:
                              "alone for the comparison of shared and separate parameters",
                      "positive": "positive bias only", "negative": "negative bias only"}.get(
                          polarity, str(polarity))
+    window = inp.get("window") or {}
+    limits = []
+    if window.get("bias_abs_V"):
+        lo, hi = window["bias_abs_V"]
+        limits.append(f"{fmt(lo, 'g')} V <= |V| <= {fmt(hi, 'g')} V")
+    if window.get("temperature_K"):
+        lo, hi = window["temperature_K"]
+        limits.append(f"{fmt(lo, 'g')} K <= T <= {fmt(hi, 'g')} K")
+    if limits:
+        excluded_text += (f"; the analysis was restricted to {' and '.join(limits)}, which left "
+                          f"out {window.get('n_points_outside')} point(s)")
     return (f"The series holds {inp.get('n_points')} points at {inp.get('n_temperatures')} "
             f"temperature(s) from {fmt(t_range[0], 'g')} to {fmt(t_range[1], 'g')} K and biases "
             f"from {fmt(v_range[0], 'g')} to {fmt(v_range[1], 'g')} V, spanning "
