@@ -27,7 +27,7 @@ from mechid.catalogue.validity import ValidityCondition, within_validity
 from mechid.device import Device
 from mechid.errors import UnknownMechanismError
 
-Family = Literal["tunnelling", "emission", "hopping"]
+Family = Literal["tunnelling", "emission", "hopping", "space_charge", "ohmic"]
 FloatArray = NDArray[np.float64]
 
 #: Signature of a magnitude formula: f(|V| in V, T in K, device, **params) -> |I| in A.
