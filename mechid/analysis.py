@@ -59,9 +59,11 @@ from mechid.results import (
     NotFittedMechanism,
     ParameterSummary,
     PolarityComparison,
+    SkippedMechanism,
     Verdict,
 )
 from mechid.screening import LinearisationResult, linearise
+from mechid.screening.applicability import unmet_need
 from mechid.screening.asymmetry import PolarityAsymmetry
 
 ProgressHook = Callable[[str, int, int], None]
@@ -221,6 +223,7 @@ def run_analysis_full(
     mechanisms = _selected_mechanisms(settings)
     fits: dict[str, MechanismFit] = {}
     not_fitted: tuple[NotFittedMechanism, ...] = ()
+    skipped: tuple[SkippedMechanism, ...] = ()
     comparison: tuple[PolarityComparison, ...] = ()
     if not settings.screen_only:
         _check_area(device, mechanisms)
@@ -230,8 +233,11 @@ def run_analysis_full(
         # Most promising first (screening rank), so that mechanisms far below the leader are
         # not refined; each keeps its own random stream whatever the order.
         screening = {mid: rank for rank, mid in enumerate(lin.ranking)}
+        skipped = _skipped_mechanisms(mechanisms, lin, settings)
+        left_out = {entry.id for entry in skipped}
         jobs = sorted((FitJob(m.id, child, hints.get(m.id))
-                       for m, child in zip(mechanisms, children, strict=True)),
+                       for m, child in zip(mechanisms, children, strict=True)
+                       if m.id not in left_out),
                       key=lambda job: screening.get(job.mechanism_id, len(screening)))
         outcome = fit_candidates_in_rounds(
             jobs, series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
@@ -251,7 +257,7 @@ def run_analysis_full(
     fitted_sides = "each" if comparison else _fitted_polarities(series.voltage_V[mask])
     polarity = (polarity_assumption(leader, fitted_sides)
                 if leader is not None else "")
-    verdict = _verdict(results, settings, not_fitted, polarity) if results else None
+    verdict = _verdict(results, settings, not_fitted, polarity, skipped) if results else None
     if verdict is not None:
         verdict = _with_families(verdict, results, settings)
     result = AnalysisResult(
@@ -267,10 +273,28 @@ def run_analysis_full(
                                 leader_symmetric=None if leader is None else leader.is_odd)),
         seed=seed,
         not_fitted=not_fitted,
+        skipped=skipped,
         polarity_comparison=comparison,
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
+
+
+def _skipped_mechanisms(mechanisms: list[Mechanism], lin: LinearisationResult,
+                        settings: AnalysisSettings) -> tuple[SkippedMechanism, ...]:
+    """Mechanisms whose declared needs these data do not meet (never one asked for by name)."""
+    if settings.mechanisms is not None:
+        return ()
+    found = []
+    for mechanism in mechanisms:
+        reason = unmet_need(mechanism, lin)
+        if (reason is None and "both_polarities" in mechanism.needs
+                and settings.polarity in ("positive", "negative")):
+            reason = (f"its parameters differ between the polarities and only {settings.polarity} "
+                      "bias was fitted (--polarity)")
+        if reason is not None:
+            found.append(SkippedMechanism(mechanism.id, mechanism.family, mechanism.name, reason))
+    return tuple(found)
 
 
 def _compare_polarities(jobs: list[FitJob], shared: Mapping[str, MechanismFit],
@@ -500,7 +524,7 @@ def determination(result: MechanismResult) -> dict[str, ParameterSummary]:
 
 def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
              not_fitted: tuple[NotFittedMechanism, ...] = (),
-             polarity: str = "") -> Verdict:
+             polarity: str = "", skipped: tuple[SkippedMechanism, ...] = ()) -> Verdict:
     best = results[0]
     runner = results[1] if len(results) > 1 else None
     ln_b = -runner.ln_bayes_factor_vs_best if runner else float("inf")
@@ -523,6 +547,7 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
         + verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved,
                            n_candidates=len(results), prior_odds=odds)
         + _not_fitted_sentence(len(results), not_fitted)
+        + _skipped_sentence(skipped)
         + (f" Polarity assumption: {polarity}." if polarity else ""),
     )
 
@@ -578,6 +603,14 @@ def _not_fitted_sentence(n_fitted: int, not_fitted: tuple[NotFittedMechanism, ..
     return (f" The probabilities are among the {counted} fitted; not fitted "
             "(formula outside its validity on these data): "
             + ", ".join(m.id for m in not_fitted) + ".")
+
+
+def _skipped_sentence(skipped: tuple[SkippedMechanism, ...]) -> str:
+    """Who was left out before fitting because the data do not show what it needs (or "")."""
+    if not skipped:
+        return ""
+    return (" Not fitted because the screening rules them out on these data (see the reasons): "
+            + ", ".join(m.id for m in skipped) + ".")
 
 
 def quick_run_prefix(quick: bool) -> str:

@@ -147,6 +147,20 @@ class NotFittedMechanism:
 
 
 @dataclass(frozen=True)
+class SkippedMechanism:
+    """A mechanism not fitted because the screening found a declared need of it unmet.
+
+    See :mod:`mechid.screening.applicability`; ``reason`` says which need and what the
+    screening found. A mechanism asked for by name is never skipped.
+    """
+
+    id: str
+    family: str
+    name: str
+    reason: str
+
+
+@dataclass(frozen=True)
 class MechanismResult:
     """Everything learned about one mechanism from the joint fit (built once, never changed).
 
@@ -283,6 +297,8 @@ class AnalysisResult:
     cautions: tuple[str, ...]
     #: Mechanisms asked for but not fitted (formula outside its validity on these data).
     not_fitted: tuple[NotFittedMechanism, ...] = ()
+    #: Mechanisms left out before fitting: a declared need unmet by these data (with why).
+    skipped: tuple[SkippedMechanism, ...] = ()
     #: ``--polarity each``: shared against separate parameters, per mechanism fitted to both.
     polarity_comparison: tuple[PolarityComparison, ...] = ()
 

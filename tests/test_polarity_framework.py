@@ -178,3 +178,28 @@ def test_each_polarity_alone_against_both_together_in_one_run(tmp_path):
     data = to_plain_json(result)
     (line,) = polarity_comparison_lines(data)
     assert "separate vs shared" in line and "positive bias:" in line
+
+
+def test_declared_needs_skip_a_mechanism_with_the_reason_unless_asked_for():
+    from dataclasses import replace as dc_replace
+
+    from mechid.analysis import AnalysisSettings, _skipped_mechanisms
+    from mechid.screening import linearise
+    from mechid.screening.applicability import unmet_need
+
+    needy = dc_replace(TOY, id="toy_needy", needs=("both_polarities", "polarities_differ"))
+    symmetric = _schottky_series(1.0, seed=7)
+    asymmetric = _schottky_series(3.8, seed=7)
+    positive = SimpleNamespace(**{k: getattr(symmetric, k)[symmetric.voltage_V > 0]
+                                  for k in ("temperature_K", "voltage_V", "current_A")})
+    lin_sym, lin_asym, lin_pos = (linearise(s, DEVICE, mechanisms=[])
+                                  for s in (symmetric, asymmetric, positive))
+    assert "finds them equal" in unmet_need(needy, lin_sym)
+    assert unmet_need(needy, lin_asym) is None
+    assert "only one bias polarity" in unmet_need(needy, lin_pos)
+    assert unmet_need(TOY, lin_sym) is None  # declares no needs
+    (entry,) = _skipped_mechanisms([needy, TOY], lin_sym, AnalysisSettings())
+    assert entry.id == "toy_needy" and "finds them equal" in entry.reason
+    assert _skipped_mechanisms([needy], lin_sym, AnalysisSettings(mechanisms=("toy_needy",))) == ()
+    (only_positive,) = _skipped_mechanisms([needy], lin_asym, AnalysisSettings(polarity="positive"))
+    assert "only positive bias was fitted" in only_positive.reason

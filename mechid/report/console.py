@@ -158,6 +158,11 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
                          if data.get("mechanisms") else ""))
         for line in not_fitted:
             console.print(f"  - {escape(line)}")
+    skipped = data.get("skipped") or []
+    if skipped:
+        console.print("[bold]Not fitted: ruled out by the screening[/bold]")
+        for entry in skipped:
+            console.print(f"  - {escape(str(entry.get('id')))}: {escape(str(entry.get('reason')))}")
     compared = polarity_comparison_lines(data)
     if compared:
         console.print("[bold]Each polarity alone against both together[/bold] (ln B > 0: "

@@ -413,6 +413,13 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                          row_classes=classes))
         out.append(figures.get("comparison_bayes_factors"))
     out.append(_not_fitted_html(data))
+    skipped = data.get("skipped") or []
+    if skipped:
+        out.append("<p><b>Not fitted: ruled out by the screening:</b> each needs something these "
+                   "data do not show, so its fit could not change the comparison.</p>"
+                   "<ul class='cautions'>" + "".join(
+                       f"<li><b>{esc(e.get('name'))}</b> ({esc(e.get('id'))}): {esc(e.get('reason'))}"
+                       "</li>" for e in skipped) + "</ul>")
     compared = polarity_comparison_lines(data)
     if compared:
         out.append("<p><b>Each polarity alone against both together:</b> the evidence of the "
