@@ -270,3 +270,32 @@ def test_linearise_puts_the_analysis_in_strict_json():
     assert diode["ran"] is True and diode["forward_polarity"] == "positive"
     assert len(diode["temperatures"]) == TEMPS.size
     assert diode["richardson"]["quantities"]["barrier_height_eV"] == pytest.approx(0.75, abs=0.015)
+
+
+def test_report_figures_and_section_only_for_a_diode():
+    from mechid.data import IVSeries
+    from mechid.report.figures import diode_figures
+    from mechid.report.html import _diode_section
+
+    simulated = simulate(TEMPS, VOLTS, lambda t: 0.75, lambda t: 1.05)
+    series = IVSeries(simulated.temperature_K, simulated.voltage_V, simulated.current_A)
+    data = {"linearisation": json.loads(json.dumps(linearise(series, DEVICE).to_dict()))}
+    figures = diode_figures(data, series, DEVICE)
+    assert [f.key for f in figures] == ["data_diode_temperature", "data_diode_richardson",
+                                        "data_diode_series_resistance"]
+    assert all(f.png_bytes(dpi=40).startswith(b"\x89PNG") for f in figures)
+
+    class Figures:  # stands in for the report's figure numbering
+        def get(self, key):
+            return f"<figure {key}>"
+
+    html = _diode_section(data, Figures())
+    first = data["linearisation"]["diode"]["temperatures"][0]["semilog"]["quantities"]
+    assert f"{first['ideality_factor']:.4g}" in html and "<figure data_diode_richardson>" in html
+    # An ohmic series: the analysis does not run, so no figure and no section.
+    t = np.repeat(TEMPS, VOLTS.size)
+    v = np.tile(VOLTS, TEMPS.size)
+    ohmic = IVSeries(t, v, v / 1e3)
+    data = {"linearisation": linearise(ohmic, DEVICE).to_dict()}
+    assert diode_figures(data, ohmic, DEVICE) == []
+    assert _diode_section(data, Figures()) == ""

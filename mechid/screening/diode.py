@@ -45,6 +45,7 @@ from mechid.catalogue.base import FloatArray
 from mechid.constants import BOLTZMANN_EV
 from mechid.device import Device
 from mechid.screening.biases import MIN_TEMPERATURES, PreparedSeries
+from mechid.screening.lines import robust_line
 from mechid.screening.records import DiodeAnalysis, DiodeLine, DiodeTemperature, NordeMinimum
 
 #: Fewest points on any straight line of the analysis.
@@ -189,9 +190,11 @@ def least_squares_line(x: FloatArray, y: FloatArray) -> _Line:
                  1.0 - ss_res / ss_tot if ss_tot > 0 else 1.0)
 
 
-def _drawn(x: FloatArray, y: FloatArray, detail: str,
-           quantities: dict[str, float]) -> tuple[DiodeLine, _Line]:
-    line = least_squares_line(x, y)
+def _drawn(x: FloatArray, y: FloatArray, detail: str, quantities: dict[str, float],
+           robust: bool = False) -> tuple[DiodeLine, _Line]:
+    """The line through (x, y) as a record: least squares, or the screening's Huber line
+    (:func:`mechid.screening.lines.robust_line`) where single points may be far off."""
+    line = (robust_line(x, y) if robust else None) or least_squares_line(x, y)
     record = DiodeLine(True, detail, int(x.size), line.slope, line.slope_err, line.intercept,
                        line.intercept_err, line.r_squared, float(x.min()), float(x.max()),
                        quantities)
@@ -279,9 +282,20 @@ def rising_points(branch: ForwardBranch, from_voltage_V: float) -> tuple[FloatAr
     return v[keep], i[keep]
 
 
-def cheung_derivative_points(v: FloatArray, i: FloatArray) -> FloatArray:
-    """dV/d(ln I) at each point (second-order finite differences on the uneven ln I grid)."""
-    return np.gradient(v, np.log(i))
+def cheung_derivative_points(v: FloatArray, i: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """Currents and dV/d(ln I) from least-squares slopes of V vs ln I over sliding windows.
+
+    Each window of :data:`LOCAL_WINDOW` consecutive points gives one slope, placed at the
+    window's middle current (a local line, not a two-point difference: near the top of the
+    curve ln I changes little from point to point and a difference amplifies the noise).
+    """
+    if v.size < LOCAL_WINDOW:
+        return np.empty(0), np.empty(0)
+    x = sliding_window_view(np.log(i), LOCAL_WINDOW)
+    y = sliding_window_view(v, LOCAL_WINDOW)
+    xc = x - x.mean(axis=1, keepdims=True)
+    slope = np.sum(xc * (y - y.mean(axis=1, keepdims=True)), axis=1) / np.sum(xc**2, axis=1)
+    return i[LOCAL_WINDOW // 2: i.size - LOCAL_WINDOW // 2], slope
 
 
 def cheung_h_function(v: FloatArray, i: FloatArray, temperature_K: float, ideality: float,
@@ -309,8 +323,12 @@ def cheung_lines(branch: ForwardBranch, semilog: DiodeLine,
         reason = f"not determined: only {v.size} forward points from {semilog.x_min:.3g} V up"
         return DiodeLine(False, reason), DiodeLine(False, reason)
     vt = thermal_voltage_V(branch.temperature_K)
-    derivative, line = _drawn(i, cheung_derivative_points(v, i),
-                              f"dV/d(ln I) vs I over {v[0]:.3g}-{v[-1]:.3g} V", {})
+    centre, slope = cheung_derivative_points(v, i)
+    if centre.size < MIN_LINE_POINTS:
+        reason = f"not determined: only {centre.size} windows of {LOCAL_WINDOW} points"
+        return DiodeLine(False, reason), DiodeLine(False, reason)
+    derivative, line = _drawn(centre, slope, f"dV/d(ln I) vs I over {v[0]:.3g}-{v[-1]:.3g} V "
+                              "(robust line)", {}, robust=True)
     ideality = line.intercept / vt
     derivative = replace(derivative, **{"quantities": {
         "series_resistance_ohm": line.slope, "series_resistance_ohm_err": line.slope_err,
@@ -321,7 +339,8 @@ def cheung_lines(branch: ForwardBranch, semilog: DiodeLine,
     if not ideality > 0:
         return derivative, DiodeLine(False, "not determined: the first Cheung line gives n <= 0")
     h_values = cheung_h_function(v, i, branch.temperature_K, ideality, product)
-    h_line, fit = _drawn(i, h_values, f"H(I) vs I with n = {ideality:.3g} from dV/d(ln I)", {})
+    h_line, fit = _drawn(i, h_values, f"H(I) vs I with n = {ideality:.3g} from dV/d(ln I) "
+                         "(robust line)", {}, robust=True)
     h_line = replace(h_line, **{"quantities": {
         "series_resistance_ohm": fit.slope, "series_resistance_ohm_err": fit.slope_err,
         "barrier_height_eV": fit.intercept / ideality,
@@ -519,7 +538,8 @@ def rectifying_reason(records: Sequence[DiodeTemperature]) -> tuple[bool, str]:
                and IDEALITY_RANGE[0] <= r.semilog.quantities["ideality_factor"]
                <= IDEALITY_RANGE[1]]
     if passing:
-        return True, (f"ran: {rule}; found at " + ", ".join(f"{t:g} K" for t in passing))
+        return True, (f"ran: the data show {rule} (at " + ", ".join(f"{t:g} K" for t in passing)
+                      + ")")
     return False, f"not run: the data do not show {rule}"
 
 
