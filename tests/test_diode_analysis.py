@@ -238,6 +238,7 @@ def test_too_few_points_and_non_rectifying_data_do_not_run():
     v = np.tile(VOLTS, TEMPS.size)
     ohmic = analyse(SimpleNamespace(temperature_K=t, voltage_V=v, current_A=v / 1e3))
     assert not ohmic.ran and ohmic.richardson is None
+    assert "no straight forward region of 1.5 decades at any temperature" in ohmic.reason
 
 
 def test_negative_forward_polarity_is_found():
