@@ -22,9 +22,14 @@ Williams, *Metal-Semiconductor Contacts*, 2nd ed., Oxford 1988)::
    minimum (V0, F0, I0), phi_B = F0 + ((gamma - n)/n)(V0/gamma - kT/e) and
    R_s = (gamma - n) kT/(e I0).
 
-The equation numbers of these papers were not checked (the forms were checked against the
-abstracts found and against our own derivation, given in each function's notes): "from
-memory" for the numbering.
+What was checked, and how: Norde's F(V) = V/2 - (kT/q) ln(I/(A A** T^2)) against the
+abstract of Norde (1979); the authors, title and reference of Werner & Güttler (1991, doi
+10.1063/1.347243) against its bibliographic record, and their phi_ap = phibar - q sigma^2/(2kT)
+and the (1/n - 1) vs 1/T line with the voltage coefficients rho2, rho3 against a later paper
+quoting them; Cheung & Cheung's two functions and Bohlin's generalisation are from memory
+(and the shared reference notes), and are derived from the diode law in the functions' notes
+(the tests check them numerically). Equation numbers of all four papers: from memory, not
+quoted.
 
 Every quantity is "not determined", with the reason, when the data do not allow it: fewer
 than :data:`MIN_LINE_POINTS` points on a line, fewer than :data:`MIN_TEMPERATURES`
