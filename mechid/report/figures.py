@@ -30,6 +30,7 @@ from __future__ import annotations
 import io
 import logging
 import math
+import textwrap
 import warnings
 from collections.abc import Iterator, Mapping, Sequence
 from contextlib import contextmanager
@@ -779,11 +780,13 @@ def _fitted_line(ax: Any, line: Mapping[str, Any] | None, scale: float = 1.0,
             label=label)
 
 
-def _not_determined(ax: Any, line: Mapping[str, Any] | None) -> None:
-    """Write why a line was not drawn in the middle of an empty panel."""
+def _not_determined(ax: Any, line: Mapping[str, Any] | None, width: int = 30) -> None:
+    """An empty panel (no ticks) saying why its line was not drawn."""
     detail = (line or {}).get("detail") or "not determined"
-    ax.text(0.5, 0.5, "\n".join(_wrap(detail, 38)), transform=ax.transAxes, ha="center",
-            va="center", fontsize=6.5, color=MUTED)
+    ax.text(0.5, 0.5, "\n".join(textwrap.wrap(detail, width)), transform=ax.transAxes,
+            ha="center", va="center", fontsize=6.5, color=MUTED)
+    ax.set_xticks([])
+    ax.set_yticks([])
 
 
 def _label(ax: Any, title: str, x_label: str, y_label: str) -> None:
@@ -791,17 +794,6 @@ def _label(ax: Any, title: str, x_label: str, y_label: str) -> None:
     ax.set_title(title, loc="left")
     ax.set_xlabel(x_label)
     ax.set_ylabel(y_label)
-
-
-def _wrap(text: str, width: int) -> list[str]:
-    words, lines, current = text.split(), [], ""
-    for word in words:
-        if current and len(current) + 1 + len(word) > width:
-            lines.append(current)
-            current = word
-        else:
-            current = f"{current} {word}".strip()
-    return lines + ([current] if current else [])
 
 
 def diode_temperature_figure(diode: Mapping[str, Any]) -> ReportFigure | None:
