@@ -62,8 +62,9 @@ THERMAL_VOLTAGES_ABOVE = 3.0
 #: Points in the sliding window of the local ideality factor (e/kT) dV/d ln I.
 LOCAL_WINDOW = 5
 #: The straight part of ln I vs V: the contiguous run of windows whose local ideality factor
-#: is within this fraction of its lowest value. Above it, the series resistance bends the
-#: curve (I R_s adds I R_s e/kT to the local ideality); below, a shunt does. Our threshold.
+#: is within this fraction of its lowest value, two standard errors allowed on each (see
+#: :func:`straight_region`). Above it, the series resistance bends the curve (I R_s adds
+#: I R_s e/kT to the local ideality); below, a shunt does. Our threshold.
 STRAIGHT_TOLERANCE = 0.05
 #: Fewest decades of current on a semilog line for its n and I_s to count (our threshold:
 #: over less than a decade the slope is ill-determined next to the curvature at both ends).
@@ -247,8 +248,8 @@ def semilog_line(branch: ForwardBranch, device: Device) -> DiodeLine:
     v = branch.voltage_V[first:last + 1]
     ln_i = np.log(branch.current_A[first:last + 1])
     rule = (f"straight for V = {v[0]:.3g}-{v[-1]:.3g} V (V > 3kT/e; local ideality factor "
-            f"within {STRAIGHT_TOLERANCE:.0%} of its lowest value, below the series-resistance "
-            "bend)")
+            f"within {STRAIGHT_TOLERANCE:.0%} of its lowest value, two standard errors allowed: "
+            "below the series-resistance bend)")
     if v.size < MIN_LINE_POINTS:
         return DiodeLine(False, f"not determined: only {v.size} points {rule}", int(v.size))
     decades = float((ln_i[-1] - ln_i[0]) / math.log(10.0))
@@ -256,7 +257,11 @@ def semilog_line(branch: ForwardBranch, device: Device) -> DiodeLine:
         return DiodeLine(False, f"not determined: only {decades:.2g} decades of current {rule}",
                          int(v.size))
     vt = thermal_voltage_V(branch.temperature_K)
-    line = least_squares_line(v, ln_i)
+    product = area_richardson_A_K2(device)
+    detail = f"ln I vs V {rule}"
+    if isinstance(product, str):
+        detail += f"; apparent barrier not determined: {product}"
+    record, line = _drawn(v, ln_i, detail, {})
     ideality = 1.0 / (vt * line.slope)
     quantities = {
         "ideality_factor": ideality,
@@ -265,16 +270,11 @@ def semilog_line(branch: ForwardBranch, device: Device) -> DiodeLine:
         "ln_saturation_current_err": line.intercept_err,
         "current_decades": decades,
     }
-    product = area_richardson_A_K2(device)
-    detail = f"ln I vs V {rule}"
-    if isinstance(product, str):
-        detail += f"; apparent barrier not determined: {product}"
-    else:
+    if not isinstance(product, str):
         quantities["apparent_barrier_eV"] = float(
             apparent_barrier_eV(quantities["saturation_current_A"], branch.temperature_K, product))
         quantities["apparent_barrier_eV_err"] = vt * line.intercept_err
-    record, _ = _drawn(v, ln_i, detail, quantities)
-    return record
+    return replace(record, quantities=quantities)
 
 
 def rising_points(branch: ForwardBranch, from_voltage_V: float) -> tuple[FloatArray, FloatArray]:
@@ -336,9 +336,9 @@ def cheung_lines(branch: ForwardBranch, semilog: DiodeLine,
     derivative, line = _drawn(centre, slope, f"dV/d(ln I) vs I over {v[0]:.3g}-{v[-1]:.3g} V "
                               "(robust line)", {}, robust=True)
     ideality = line.intercept / vt
-    derivative = replace(derivative, **{"quantities": {
+    derivative = replace(derivative, quantities={
         "series_resistance_ohm": line.slope, "series_resistance_ohm_err": line.slope_err,
-        "ideality_factor": ideality, "ideality_factor_err": line.intercept_err / vt}})
+        "ideality_factor": ideality, "ideality_factor_err": line.intercept_err / vt})
     product = area_richardson_A_K2(device)
     if isinstance(product, str):
         return derivative, DiodeLine(False, f"not determined: {product}")
@@ -347,10 +347,10 @@ def cheung_lines(branch: ForwardBranch, semilog: DiodeLine,
     h_values = cheung_h_function(v, i, branch.temperature_K, ideality, product)
     h_line, fit = _drawn(i, h_values, f"H(I) vs I with n = {ideality:.3g} from dV/d(ln I) "
                          "(robust line)", {}, robust=True)
-    h_line = replace(h_line, **{"quantities": {
+    h_line = replace(h_line, quantities={
         "series_resistance_ohm": fit.slope, "series_resistance_ohm_err": fit.slope_err,
         "barrier_height_eV": fit.intercept / ideality,
-        "barrier_height_eV_err": fit.intercept_err / ideality}})
+        "barrier_height_eV_err": fit.intercept_err / ideality})
     return derivative, h_line
 
 
@@ -461,10 +461,10 @@ def richardson_line(records: Sequence[DiodeTemperature], device: Device) -> Diod
         return few
     record, line = _drawn(1.0 / t, np.log(current / t**2),
                           "ln(I_s/T^2) vs 1/T over the temperatures with a semilog line", {})
-    return replace(record, **{"quantities": {
+    return replace(record, quantities={
         "barrier_height_eV": -line.slope * BOLTZMANN_EV,
         "barrier_height_eV_err": line.slope_err * BOLTZMANN_EV,
-        **_richardson_constant(line.intercept, line.intercept_err, device)}})
+        **_richardson_constant(line.intercept, line.intercept_err, device)})
 
 
 def inverse_2kt_per_eV(temperature_K: FloatArray) -> FloatArray:
@@ -498,7 +498,7 @@ def barrier_vs_inverse_2kt(records: Sequence[DiodeTemperature], device: Device) 
         quantities |= {"barrier_spread_V": sigma, "barrier_spread_V_err": line.slope_err / (2 * sigma)}
     else:
         detail += "; barrier spread not determined: phi_ap does not fall with 1/(2kT)"
-    return replace(record, **{"detail": detail, "quantities": quantities})
+    return replace(record, detail=detail, quantities=quantities)
 
 
 def ideality_vs_inverse_2kt(records: Sequence[DiodeTemperature]) -> DiodeLine:
@@ -508,9 +508,9 @@ def ideality_vs_inverse_2kt(records: Sequence[DiodeTemperature]) -> DiodeLine:
     if few is not None:
         return few
     record, line = _drawn(inverse_2kt_per_eV(t), 1.0 / ideality - 1.0, "1/n - 1 vs 1/(2kT)", {})
-    return replace(record, **{"quantities": {
+    return replace(record, quantities={
         "rho2": -line.intercept, "rho2_err": line.intercept_err,
-        "rho3_V": line.slope, "rho3_V_err": line.slope_err}})
+        "rho3_V": line.slope, "rho3_V_err": line.slope_err})
 
 
 def modified_richardson_line(records: Sequence[DiodeTemperature], spread: DiodeLine,
@@ -528,10 +528,10 @@ def modified_richardson_line(records: Sequence[DiodeTemperature], spread: DiodeL
         return few
     y = np.log(current / t**2) - 0.5 * (sigma / thermal_voltage_V(t)) ** 2
     record, line = _drawn(1.0 / t, y, f"with sigma = {sigma:.3g} V", {})
-    return replace(record, **{"quantities": {
+    return replace(record, quantities={
         "mean_barrier_eV": -line.slope * BOLTZMANN_EV,
         "mean_barrier_eV_err": line.slope_err * BOLTZMANN_EV,
-        **_richardson_constant(line.intercept, line.intercept_err, device)}})
+        **_richardson_constant(line.intercept, line.intercept_err, device)})
 
 
 # --------------------------------------------------------------------------------------------
