@@ -53,13 +53,15 @@ from mechid.results import (
     MechanismResult,
     NotFittedMechanism,
     ParameterSummary,
+    PolarityComparison,
     Verdict,
 )
 from mechid.screening import LinearisationResult, linearise
+from mechid.screening.asymmetry import PolarityAsymmetry
 
 ProgressHook = Callable[[str, int, int], None]
 
-Polarity = Literal["both", "positive", "negative"]
+Polarity = Literal["both", "positive", "negative", "each"]
 
 
 
@@ -75,8 +77,10 @@ class AnalysisSettings:
         Shorter ladder (rougher evidences, for a first look).
     screen_only : bool
         Run only the linearisation tests.
-    polarity : {"both", "positive", "negative"}
-        Which bias points enter the fit (both: joint fit of a symmetric device).
+    polarity : {"both", "positive", "negative", "each"}
+        Which bias points enter the fit (both: joint fit of a symmetric device). ``"each"``:
+        the joint fit, and every mechanism fitted again to each polarity alone, the two
+        compared by evidence (:class:`~mechid.results.PolarityComparison`).
     prior_odds : dict, optional
         Relative prior weight per mechanism id (equal when omitted).
     workers : int
@@ -123,13 +127,13 @@ class AnalysisRun:
 
 def select_polarity(series: IVSeries, polarity: Polarity) -> np.ndarray:
     """Boolean mask of the points that enter the fit."""
-    if polarity == "both":
+    if polarity in ("both", "each"):
         return np.ones(series.n_points, dtype=bool)
     if polarity == "positive":
         return series.voltage_V > 0
     if polarity == "negative":
         return series.voltage_V < 0
-    raise MechidError(f"--polarity must be both, positive or negative, got {polarity!r}")
+    raise MechidError(f"--polarity must be both, positive, negative or each, got {polarity!r}")
 
 
 def run_analysis(
@@ -167,6 +171,7 @@ def run_analysis_full(
     mechanisms = _selected_mechanisms(settings)
     fits: dict[str, MechanismFit] = {}
     not_fitted: tuple[NotFittedMechanism, ...] = ()
+    comparison: tuple[PolarityComparison, ...] = ()
     if not settings.screen_only:
         _check_area(device, mechanisms)
         master = np.random.default_rng(seed)
@@ -183,12 +188,20 @@ def run_analysis_full(
             device, settings.ladder(), settings.search(),
             workers=settings.workers or default_workers(), progress=progress,
         )
+        if settings.polarity == "each":
+            comparison = _compare_polarities(jobs, outcome.fits, series, device, settings,
+                                             master, progress)
         # A mechanism whose formula holds nowhere on the data is listed as not fitted, why.
         fits = {m.id: outcome.fits[m.id] for m in mechanisms if m.id in outcome.fits}
         not_fitted = tuple(outcome.not_fitted[m.id] for m in mechanisms
                            if m.id in outcome.not_fitted)
     results = _ranked_results(fits, settings)
-    verdict = _verdict(results, settings, not_fitted) if results else None
+    by_id = {m.id: m for m in mechanisms}
+    leader = by_id[results[0].id] if results else None
+    fitted_sides = "each" if comparison else _fitted_polarities(series.voltage_V[mask])
+    polarity = (polarity_assumption(leader, fitted_sides)
+                if leader is not None else "")
+    verdict = _verdict(results, settings, not_fitted, polarity) if results else None
     result = AnalysisResult(
         input={**series.summary(), "polarity": settings.polarity,
                "n_points_fitted": int(mask.sum())},
@@ -198,12 +211,72 @@ def run_analysis_full(
         verdict=verdict,
         settings={**asdict(settings), "ladder": asdict(settings.ladder()),
                   "wall_time_s": time.perf_counter() - started},
-        cautions=tuple(cautions(series, device, results, verdict)),
+        cautions=tuple(cautions(series, device, results, verdict, lin.polarity_asymmetry,
+                                leader_symmetric=None if leader is None else leader.is_odd)),
         seed=seed,
         not_fitted=not_fitted,
+        polarity_comparison=comparison,
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
+
+
+def _compare_polarities(jobs: list[FitJob], shared: Mapping[str, MechanismFit],
+                        series: IVSeries, device: Device, settings: AnalysisSettings,
+                        master: np.random.Generator,
+                        progress: ProgressHook | None) -> tuple[PolarityComparison, ...]:
+    """Fit every jointly fitted mechanism to each polarity alone; compare with the joint fit.
+
+    Each side gets fresh random streams spawned after the joint fit's (so the joint numbers
+    are those of ``--polarity both`` with the same seed). Mechanisms declared by a signed
+    formula are left out: their parameters already differ between the polarities.
+    """
+    wanted = [job for job in jobs if job.mechanism_id in shared
+              and get_mechanism(job.mechanism_id).is_odd]
+    if not wanted:
+        return ()
+    sides = {}
+    for side, keep in (("positive", series.voltage_V > 0), ("negative", series.voltage_V < 0)):
+        if keep.sum() < 3:
+            raise MechidError(f"--polarity each needs data at both polarities; the {side} "
+                              "bias has fewer than 3 points")
+        children = master.spawn(len(wanted))
+        side_jobs = [replace(job, rng=child) for job, child in zip(wanted, children, strict=True)]
+        sides[side] = fit_candidates_in_rounds(
+            side_jobs, series.voltage_V[keep], series.temperature_K[keep], series.current_A[keep],
+            device, settings.ladder(), settings.search(),
+            workers=settings.workers or default_workers(), progress=progress,
+        ).fits
+    found = []
+    for job in wanted:
+        joint = shared[job.mechanism_id].result
+        pos, neg = (sides[side].get(job.mechanism_id) for side in ("positive", "negative"))
+        if pos is None or neg is None:
+            continue  # the formula holds nowhere on one side's data
+        ln_b = pos.result.log_evidence + neg.result.log_evidence - joint.log_evidence
+        err = math.sqrt(pos.result.log_evidence_err**2 + neg.result.log_evidence_err**2
+                        + joint.log_evidence_err**2)
+        preferred = ("undecided" if abs(ln_b) <= 2 * err
+                     else "separate" if ln_b > 0 else "shared")
+        found.append(PolarityComparison(
+            mechanism_id=job.mechanism_id,
+            ln_evidence_shared=joint.log_evidence, ln_evidence_shared_err=joint.log_evidence_err,
+            ln_evidence_positive=pos.result.log_evidence,
+            ln_evidence_positive_err=pos.result.log_evidence_err,
+            ln_evidence_negative=neg.result.log_evidence,
+            ln_evidence_negative_err=neg.result.log_evidence_err,
+            ln_bayes_factor_separate_vs_shared=ln_b, ln_bayes_factor_separate_vs_shared_err=err,
+            preferred=preferred,
+            parameters_positive=determination(pos.result),
+            parameters_negative=determination(neg.result),
+        ))
+    return tuple(found)
+
+
+def _fitted_polarities(voltage_V: np.ndarray) -> str:
+    """``"both"``, ``"positive"`` or ``"negative"``: the bias signs among the fitted points."""
+    positive, negative = bool(np.any(voltage_V > 0)), bool(np.any(voltage_V < 0))
+    return "both" if positive and negative else "positive" if positive else "negative"
 
 
 def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:
@@ -374,7 +447,8 @@ def determination(result: MechanismResult) -> dict[str, ParameterSummary]:
 
 
 def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
-             not_fitted: tuple[NotFittedMechanism, ...] = ()) -> Verdict:
+             not_fitted: tuple[NotFittedMechanism, ...] = (),
+             polarity: str = "") -> Verdict:
     best = results[0]
     runner = results[1] if len(results) > 1 else None
     ln_b = -runner.ln_bayes_factor_vs_best if runner else float("inf")
@@ -387,6 +461,7 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
                 else f"most probable of the {len(results)} mechanisms fitted" if runner
                 else "the only mechanism fitted")
     return Verdict(
+        polarity_assumption=polarity,
         id=best.id, family=best.family, probability=best.probability,
         ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=ln_b_err,
         runner_up=runner.id if runner else None, strength=strength, resolved=resolved,
@@ -395,8 +470,31 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
         sentence=quick_run_prefix(settings.quick)
         + verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved,
                            n_candidates=len(results), prior_odds=odds)
-        + _not_fitted_sentence(len(results), not_fitted),
+        + _not_fitted_sentence(len(results), not_fitted)
+        + (f" Polarity assumption: {polarity}." if polarity else ""),
     )
+
+
+def polarity_assumption(mechanism: Mechanism, fitted_polarities: str) -> str:
+    """How ``mechanism`` treats the two bias polarities, and which ones were fitted.
+
+    Parameters
+    ----------
+    mechanism : Mechanism
+        The leading hypothesis.
+    fitted_polarities : str
+        ``"both"``, ``"positive"`` or ``"negative"``: the bias points that were fitted.
+    """
+    law = ("symmetric in bias, I(-V) = -I(V), with one parameter set for both polarities"
+           if mechanism.is_odd else
+           "not symmetric in bias: its formula (and any parameter declared per electrode) "
+           "differs between the polarities")
+    fitted = {"both": "both polarities fitted jointly",
+              "each": "both polarities fitted jointly, and each alone (see the polarity "
+                      "comparison)",
+              "positive": "positive bias only fitted",
+              "negative": "negative bias only fitted"}.get(fitted_polarities, fitted_polarities)
+    return f"{law}; {fitted}"
 
 
 def _not_fitted_sentence(n_fitted: int, not_fitted: tuple[NotFittedMechanism, ...]) -> str:
@@ -515,8 +613,12 @@ def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b
 
 
 def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
-             verdict: Verdict | None) -> list[str]:
+             verdict: Verdict | None, asymmetry: PolarityAsymmetry | None = None, *,
+             leader_symmetric: bool | None = None) -> list[str]:
     """Plain statements of what these data cannot distinguish, then how they were taken.
+
+    ``asymmetry`` (the screening's polarity diagnostic) adds a caution when the polarities
+    differ but the leading hypothesis is symmetric in bias (``leader_symmetric``).
 
     The second part, :func:`mechid.measurement.measurement_cautions`, names high voltage, high
     current density, cryogenic temperatures and disagreeing repeats when the data show them.
@@ -536,6 +638,12 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
     if not (np.any(series.voltage_V > 0) and np.any(series.voltage_V < 0)):
         notes.append("only one bias polarity was measured: bulk-limited (symmetric) and "
                      "electrode-limited (asymmetric) conduction cannot be told apart")
+    if asymmetry is not None and asymmetry.asymmetric and verdict is not None and leader_symmetric:
+        notes.append(f"the two bias polarities carry different currents ({asymmetry.sentence()}) "
+                     f"but the leading hypothesis, {verdict.id}, is symmetric in bias: its "
+                     "parameters average over both electrodes; compare the hypotheses whose "
+                     "parameters differ between the polarities, or fit each polarity alone "
+                     "(--polarity positive / negative)")
     emission_fitted = any(r.family == "emission" for r in results) or not results
     if device.optical_dielectric_constant is None and emission_fitted:
         notes.append("no optical dielectric constant was given: the dielectric constants read from "

@@ -287,7 +287,8 @@ def analyze_command(
     quick: Annotated[bool, typer.Option(
         "--quick", help="Shorter chains and fewer temperatures on the ladder (rougher evidences).")] = False,
     polarity: Annotated[str, typer.Option(
-        "--polarity", help="both (joint fit), positive or negative: which bias points to fit.")] = "both",
+        "--polarity", help="both (joint fit), positive, negative, or each (joint fit, then "
+                           "each polarity alone, compared by evidence).")] = "both",
     prior_odds: Annotated[list[str], typer.Option(
         "--prior-odds", metavar="ID=WEIGHT", help="Relative prior weight of a mechanism (repeatable; "
                              "default: equal odds).")] = [],  # noqa: B006

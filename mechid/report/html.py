@@ -43,6 +43,7 @@ from mechid.report.text import (
     mechanism_name,
     methods_paragraph,
     parameter_symbol,
+    polarity_comparison_lines,
     priors_paragraph,
     references,
     results_paragraph,
@@ -412,6 +413,13 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                          row_classes=classes))
         out.append(figures.get("comparison_bayes_factors"))
     out.append(_not_fitted_html(data))
+    compared = polarity_comparison_lines(data)
+    if compared:
+        out.append("<p><b>Each polarity alone against both together:</b> the evidence of the "
+                   "two polarities fitted as independent series against one parameter set for "
+                   "both (ln B &gt; 0: the parameters differ between the polarities).</p>"
+                   "<ul class='cautions'>" + "".join(f"<li>{esc(line)}</li>" for line in compared)
+                   + "</ul>")
     out.append(_screening_table(data))
     return "".join(out)
 

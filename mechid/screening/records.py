@@ -14,6 +14,7 @@ from typing import Any
 import numpy as np
 
 from mechid.catalogue.base import ParameterHints
+from mechid.screening.asymmetry import PolarityAsymmetry
 
 
 def _json_float(value: float | None) -> float | None:
@@ -407,6 +408,9 @@ class LinearisationResult:
         Mechanism ids, best screening score first.
     diode : DiodeAnalysis or None
         The rectifying-contact analysis (:mod:`mechid.screening.diode`).
+    polarity_asymmetry : PolarityAsymmetry or None
+        Do the two bias polarities carry the same current
+        (:func:`mechid.screening.asymmetry.polarity_asymmetry`).
     """
 
     mechanisms: tuple[MechanismLinearisation, ...]
@@ -415,6 +419,7 @@ class LinearisationResult:
     activation_energies: tuple[ActivationEnergy, ...]
     ranking: tuple[str, ...]
     diode: DiodeAnalysis | None = None
+    polarity_asymmetry: PolarityAsymmetry | None = None
 
     @property
     def best(self) -> str | None:
@@ -442,6 +447,8 @@ class LinearisationResult:
             "ranking": list(self.ranking),
             "best": self.best,
             "diode": None if self.diode is None else self.diode.to_dict(),
+            "polarity_asymmetry": (None if self.polarity_asymmetry is None
+                                   else self.polarity_asymmetry.to_dict()),
         }
 
 
