@@ -92,8 +92,9 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
     -------
     LinearisationResult
         Lines, checks and scores of every mechanism, the Zabrodskii analysis, transition
-        voltages, apparent activation energies, the screening ranking and the
-        rectifying-contact analysis (:func:`mechid.screening.diode.diode_analysis`).
+        voltages, apparent activation energies, the screening ranking, the polarity
+        asymmetry and the rectifying-contact analysis
+        (:func:`mechid.screening.diode.diode_analysis`).
 
     Notes
     -----
