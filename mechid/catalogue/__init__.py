@@ -4,7 +4,8 @@ Each mechanism is declared once, in the module of its family:
 
 * :mod:`mechid.catalogue.tunnelling` -- ``direct_tunnelling``, ``fowler_nordheim``
 * :mod:`mechid.catalogue.emission` -- ``schottky_emission``, ``poole_frenkel``
-* :mod:`mechid.catalogue.hopping` -- ``nearest_neighbour_hopping``, ``mott_vrh``, ``es_vrh``
+* :mod:`mechid.catalogue.hopping` -- ``nearest_neighbour_hopping``, ``mott_vrh``,
+  ``mott_vrh_2d``, ``es_vrh``
 """
 
 from __future__ import annotations
@@ -14,7 +15,7 @@ from contextlib import contextmanager
 
 from mechid.catalogue.base import Mechanism, Parameter, StraightenedPlot
 from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
-from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, NEAREST_NEIGHBOUR_HOPPING
+from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, MOTT_VRH_2D, NEAREST_NEIGHBOUR_HOPPING
 from mechid.catalogue.tunnelling import DIRECT_TUNNELLING, FOWLER_NORDHEIM
 from mechid.errors import UnknownMechanismError
 
@@ -26,6 +27,7 @@ MECHANISMS: tuple[Mechanism, ...] = (
     POOLE_FRENKEL,
     NEAREST_NEIGHBOUR_HOPPING,
     MOTT_VRH,
+    MOTT_VRH_2D,
     ES_VRH,
 )
 

@@ -43,6 +43,7 @@ from mechid.report.text import (
     mechanism_name,
     methods_paragraph,
     parameter_symbol,
+    polarity_comparison_lines,
     priors_paragraph,
     references,
     results_paragraph,
@@ -413,6 +414,20 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
         out.append(figures.get("comparison_bayes_factors"))
         out.append(prior_sensitivity_html(data))
     out.append(_not_fitted_html(data))
+    skipped = data.get("skipped") or []
+    if skipped:
+        out.append("<p><b>Not fitted: ruled out by the screening:</b> each needs something these "
+                   "data do not show, so its fit could not change the comparison.</p>"
+                   "<ul class='cautions'>" + "".join(
+                       f"<li><b>{esc(e.get('name'))}</b> ({esc(e.get('id'))}): {esc(e.get('reason'))}"
+                       "</li>" for e in skipped) + "</ul>")
+    compared = polarity_comparison_lines(data)
+    if compared:
+        out.append("<p><b>Each polarity alone against both together:</b> the evidence of the "
+                   "two polarities fitted as independent series against one parameter set for "
+                   "both (ln B &gt; 0: the parameters differ between the polarities).</p>"
+                   "<ul class='cautions'>" + "".join(f"<li>{esc(line)}</li>" for line in compared)
+                   + "</ul>")
     out.append(_screening_table(data))
     return "".join(out)
 
@@ -485,6 +500,20 @@ def _screening_table(data: Json) -> str:
                     numeric=(0, 2, 3)))
 
 
+def _window_text(window: Json) -> str:
+    """``"1.5 <= |V| <= 6 V; 77 <= T <= 300 K (12 points outside)"`` or ``"all points"``."""
+    parts = []
+    if window.get("bias_abs_V"):
+        parts.append(f"{fmt(window['bias_abs_V'][0], 'g')} <= |V| <= "
+                     f"{fmt(window['bias_abs_V'][1], 'g')} V")
+    if window.get("temperature_K"):
+        parts.append(f"{fmt(window['temperature_K'][0], 'g')} <= T <= "
+                     f"{fmt(window['temperature_K'][1], 'g')} K")
+    if not parts:
+        return "all points"
+    return "; ".join(parts) + f" ({window.get('n_points_outside')} points outside)"
+
+
 def _data_section(data: Json, run: ReportRun, figures: _Figures) -> str:
     inp = data.get("input") or {}
     out = ['<h2 id="data"><span class="num">3</span>The measurements</h2>',
@@ -500,6 +529,7 @@ def _data_section(data: Json, run: ReportRun, figures: _Figures) -> str:
         ["decades of current", num(inp.get("current_decades"), ".2f", "input.current_decades")],
         ["both polarities", "yes" if inp.get("both_polarities") else "no"],
         ["polarity fitted", esc(inp.get("polarity", "both"))],
+        ["window analysed", esc(_window_text(inp.get("window") or {}))],
         ["points excluded", num(inp.get("n_excluded"), "d", "input.n_excluded")],
     ]
     device_rows = _device_rows(data.get("device") or {})
@@ -513,6 +543,7 @@ def _data_section(data: Json, run: ReportRun, figures: _Figures) -> str:
     if zab:
         out.append("<h3>Temperature dependence</h3>" + zab)
     out.append(_activation_table(data))
+    out.append(_diode_section(data, figures))
     return "".join(out)
 
 
@@ -814,3 +845,89 @@ def render_html(data: Json, run: ReportRun, figures: Sequence[ReportFigure],
             "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">"
             f"<title>{esc(title)}</title><style>{STYLESHEET}</style></head><body>"
             + "".join(body) + "</body></html>\n")
+
+
+# --------------------------------------------------------------------------------------------
+# Rectifying contact (mechid.screening.diode)
+# --------------------------------------------------------------------------------------------
+
+#: The per-temperature columns of the rectifying-contact table: (header, record, quantity).
+DIODE_COLUMNS: tuple[tuple[str, str, str], ...] = (
+    ("n", "semilog", "ideality_factor"),
+    ("φ_ap [eV]", "semilog", "apparent_barrier_eV"),
+    ("decades", "semilog", "current_decades"),
+    ("R_s Cheung dV/d(ln I) [Ω]", "cheung_derivative", "series_resistance_ohm"),
+    ("R_s Cheung H(I) [Ω]", "cheung_h", "series_resistance_ohm"),
+    ("φ_B Cheung H(I) [eV]", "cheung_h", "barrier_height_eV"),
+)
+
+#: The lines across temperature: (JSON key, title, quantity keys shown).
+DIODE_LINES: tuple[tuple[str, str, tuple[str, ...]], ...] = (
+    ("richardson", "Richardson plot ln(I_s/T²) vs 1/T",
+     ("barrier_height_eV", "richardson_constant_A_cm2_K2", "area_times_richardson_A_K2")),
+    ("barrier_vs_inverse_2kt", "φ_ap vs 1/(2kT) (Werner & Güttler 1991)",
+     ("mean_barrier_eV", "barrier_spread_V")),
+    ("ideality_vs_inverse_2kt", "1/n − 1 vs 1/(2kT) (Werner & Güttler 1991)",
+     ("rho2", "rho3_V")),
+    ("modified_richardson", "modified Richardson plot (Werner & Güttler 1991)",
+     ("mean_barrier_eV", "richardson_constant_A_cm2_K2", "area_times_richardson_A_K2")),
+)
+
+
+def _value_with_error(quantities: Json, key: str, path: str) -> str:
+    """``value ± err`` of a quantity and its ``<key>_err`` (each tagged with its JSON path)."""
+    if not is_number(quantities.get(key)):
+        return "–"
+    text = num(quantities.get(key), ".4g", f"{path}.{key}")
+    if is_number(quantities.get(f"{key}_err")):
+        text += " ± " + num(quantities.get(f"{key}_err"), ".2g", f"{path}.{key}_err")
+    return text
+
+
+def _diode_section(data: Json, figures: _Figures) -> str:
+    """The rectifying-contact analysis: shown only when the screening ran it."""
+    diode = (data.get("linearisation") or {}).get("diode") or {}
+    if not diode.get("ran"):
+        return ""
+    base = "linearisation.diode"
+    out = ["<h3>Rectifying contact: the classical diode analysis</h3>",
+           f"<p>The forward branch ({esc(diode.get('forward_polarity'))} bias) analysed as a "
+           "Schottky contact with the straightened plots practitioners draw by hand, before "
+           f"any fit. Why it ran: {esc(str(diode.get('reason')).removeprefix('ran: '))}.</p>",
+           figures.get("data_diode_temperature"), figures.get("data_diode_richardson"),
+           figures.get("data_diode_series_resistance")]
+    rows, notes = [], []
+    for k, entry in enumerate(diode.get("temperatures") or []):
+        path = f"{base}.temperatures.{k}"
+        row = [num(entry.get("temperature_K"), "g")]
+        for _, record, key in DIODE_COLUMNS:
+            row.append(_value_with_error((entry.get(record) or {}).get("quantities") or {}, key,
+                                         f"{path}.{record}.quantities"))
+        norde = entry.get("norde") or {}
+        row.append(num(norde.get("barrier_height_eV"), ".4g", f"{path}.norde.barrier_height_eV",
+                       missing="–"))
+        row.append(num(norde.get("series_resistance_ohm"), ".4g",
+                       f"{path}.norde.series_resistance_ohm", missing="–"))
+        rows.append(row)
+        for record in ("semilog", "cheung_derivative", "cheung_h", "norde"):
+            part = entry.get(record) or {}
+            if not part.get("determined"):
+                notes.append(f"{fmt(entry.get('temperature_K'), 'g')} K, {record.replace('_', ' ')}: "
+                             f"{part.get('detail')}")
+    headers = (["T [K]"] + [esc(h) for h, _, _ in DIODE_COLUMNS]
+               + ["φ_B Norde [eV]", "R_s Norde [Ω]"])
+    out.append("<p>Per temperature (± one standard error of the line fit):</p>"
+               + table(headers, rows, numeric=tuple(range(len(headers)))))
+    line_rows = []
+    for key, title, shown in DIODE_LINES:
+        line = diode.get(key) or {}
+        quantities = line.get("quantities") or {}
+        values = "; ".join(f"{esc(q)} = {_value_with_error(quantities, q, f'{base}.{key}.quantities')}"
+                           for q in shown if q in quantities)
+        line_rows.append([esc(title), badge(line.get("determined"), "drawn", "not determined"),
+                          values or "–", esc(line.get("detail"))])
+    out.append("<p>Across temperatures:</p>"
+               + table(["plot", "", "quantities", "how / why not"], line_rows))
+    if notes:
+        out.append("<p class='meta'>Not determined: " + esc("; ".join(notes)) + ".</p>")
+    return "".join(out)
