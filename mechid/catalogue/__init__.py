@@ -5,6 +5,8 @@ Each mechanism is declared once, in the module of its family:
 * :mod:`mechid.catalogue.tunnelling` -- ``direct_tunnelling``, ``fowler_nordheim``
 * :mod:`mechid.catalogue.emission` -- ``schottky_emission``, ``poole_frenkel``
 * :mod:`mechid.catalogue.hopping` -- ``nearest_neighbour_hopping``, ``mott_vrh``, ``es_vrh``
+* :mod:`mechid.catalogue.diode` -- ``schottky_diode``, ``inhomogeneous_schottky_diode``,
+  ``lateral_2d_schottky_diode`` (rectifying contacts, signed formulas)
 """
 
 from __future__ import annotations
@@ -13,6 +15,11 @@ from collections.abc import Iterator
 from contextlib import contextmanager
 
 from mechid.catalogue.base import Mechanism, Parameter, StraightenedPlot
+from mechid.catalogue.diode import (
+    INHOMOGENEOUS_SCHOTTKY_DIODE,
+    LATERAL_2D_SCHOTTKY_DIODE,
+    SCHOTTKY_DIODE,
+)
 from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
 from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, NEAREST_NEIGHBOUR_HOPPING
 from mechid.catalogue.tunnelling import DIRECT_TUNNELLING, FOWLER_NORDHEIM
@@ -27,6 +34,9 @@ MECHANISMS: tuple[Mechanism, ...] = (
     NEAREST_NEIGHBOUR_HOPPING,
     MOTT_VRH,
     ES_VRH,
+    SCHOTTKY_DIODE,
+    INHOMOGENEOUS_SCHOTTKY_DIODE,
+    LATERAL_2D_SCHOTTKY_DIODE,
 )
 
 _BY_ID = {m.id: m for m in MECHANISMS}
