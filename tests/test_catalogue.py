@@ -34,7 +34,7 @@ EXPECTED = {
                                     "richardson_constant_A_cm2_K2", "series_resistance_ohm",
                                     "shunt_resistance_ohm")),
     "inhomogeneous_schottky_diode": ("emission", (
-        "mean_barrier_height_eV", "barrier_sd_V", "voltage_coefficient_rho2",
+        "mean_barrier_height_eV", "barrier_variance_V2", "voltage_coefficient_rho2",
         "voltage_coefficient_rho3_V", "richardson_constant_A_cm2_K2", "series_resistance_ohm",
         "shunt_resistance_ohm")),
     "lateral_2d_schottky_diode": ("emission", ("barrier_height_eV", "ideality_factor",

@@ -225,7 +225,7 @@ def test_homogeneous_limit_of_the_inhomogeneous_diode():
         barrier_height_eV=0.7, ideality_factor=1.25, richardson_constant_A_cm2_K2=40.0,
         series_resistance_ohm=30.0, shunt_resistance_ohm=1e9), DEVICE)
     inhomogeneous = INHOMOGENEOUS_SCHOTTKY_DIODE.current(v, t, dict(
-        mean_barrier_height_eV=0.7, barrier_sd_V=0.0, voltage_coefficient_rho2=1 - 1 / 1.25,
+        mean_barrier_height_eV=0.7, barrier_variance_V2=0.0, voltage_coefficient_rho2=1 - 1 / 1.25,
         voltage_coefficient_rho3_V=0.0, richardson_constant_A_cm2_K2=40.0,
         series_resistance_ohm=30.0, shunt_resistance_ohm=1e9), DEVICE)
     np.testing.assert_allclose(inhomogeneous, plain, rtol=1e-12)
@@ -233,7 +233,7 @@ def test_homogeneous_limit_of_the_inhomogeneous_diode():
 
 def test_inhomogeneous_validity_refuses_removed_barrier_and_ideality_below_one():
     v = np.array([-1.0, 0.3])
-    base = dict(mean_barrier_height_eV=0.3, barrier_sd_V=0.1, voltage_coefficient_rho2=0.0,
+    base = dict(mean_barrier_height_eV=0.3, barrier_variance_V2=0.01, voltage_coefficient_rho2=0.0,
                 voltage_coefficient_rho3_V=0.0, richardson_constant_A_cm2_K2=40.0,
                 series_resistance_ohm=30.0, shunt_resistance_ohm=1e9)
     # sigma^2/(2kT) = 0.01/(2 x 3.45 meV) = 1.45 eV > 0.3 eV at 40 K; 0.19 eV < 0.3 at 300 K
@@ -246,7 +246,7 @@ def test_inhomogeneous_validity_refuses_removed_barrier_and_ideality_below_one()
     assert found[0].extreme_value == pytest.approx(0.01 / (2 * K_EV * 40.0) / 0.3, rel=1e-12)
     # rho3 > 0 gives 1/n - 1 > 0, i.e. n < 1: refused; rho3 so negative that 1/n <= 0: refused
     for rho3 in (0.004, -0.03):
-        params = {**base, "barrier_sd_V": 0.0, "voltage_coefficient_rho3_V": rho3}
+        params = {**base, "barrier_variance_V2": 0.0, "voltage_coefficient_rho3_V": rho3}
         assert np.all(np.isnan(INHOMOGENEOUS_SCHOTTKY_DIODE.current(
             v, np.full(2, 100.0), params, DEVICE)))
         assert INHOMOGENEOUS_SCHOTTKY_DIODE.current(
