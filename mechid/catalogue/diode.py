@@ -39,6 +39,7 @@ from numpy.typing import ArrayLike
 from scipy import special
 
 from mechid.catalogue.base import FloatArray, Mechanism, Parameter
+from mechid.catalogue.checks import ThermallyActivated
 from mechid.catalogue.validity import ValidityCondition
 from mechid.constants import BOLTZMANN_EV, RICHARDSON_A_CM2_K2
 from mechid.device import Device
@@ -618,6 +619,7 @@ SCHOTTKY_DIODE = Mechanism(
     formula=_DIODE_FORMULA + ";  I_s = A A** T^2 exp(-phi_B/kT), n constant",
     source=_DIODE_SOURCE,
     parameters=(_BARRIER, _IDEALITY, _RICHARDSON, _SERIES, _SHUNT),
+    checks=(ThermallyActivated(),),  # thermionic emission: the saturation current is activated
     signed_current=_schottky_diode_current,
     temperature_dependence=(
         "strong: activated saturation current, ln(I_s/T^2) linear in 1/T with slope -phi_B/k; "
@@ -663,6 +665,7 @@ INHOMOGENEOUS_SCHOTTKY_DIODE = Mechanism(
         ),
         _RICHARDSON, _SERIES, _SHUNT,
     ),
+    checks=(ThermallyActivated(),),  # thermionic emission: the saturation current is activated
     signed_current=_inhomogeneous_diode_current,
     temperature_dependence=(
         "strong: apparent barrier falls and ideality rises on cooling; ln(I_s/T^2) "
@@ -690,6 +693,7 @@ LATERAL_2D_SCHOTTKY_DIODE = Mechanism(
         ),
         _SERIES, _SHUNT,
     ),
+    checks=(ThermallyActivated(),),  # thermionic emission: the saturation current is activated
     signed_current=_lateral_2d_diode_current,
     needs_area=False,
     temperature_dependence=(
