@@ -546,9 +546,9 @@ INHOMOGENEOUS_VALIDITY = (
         bound="upper",
         reason=(
             "the Gaussian average of exp(-e phi/kT) lowers the apparent barrier by "
-            "e sigma^2/2kT (Werner & Guettler 1991); at or beyond the mean barrier the "
-            "distribution's weight sits at negative barriers, where there is no barrier "
-            "to emit over"
+            "e sigma^2/2kT (Werner & Guettler 1991); once that reaches the mean barrier the "
+            "apparent barrier is gone and the current would come from the Gaussian's tail "
+            "at negative barriers (patches with no barrier), where the model has no meaning"
         ),
         evaluate=_spread_lowering_fraction,
     ),
@@ -571,6 +571,14 @@ INHOMOGENEOUS_VALIDITY = (
 # Declarations
 # --------------------------------------------------------------------------------------
 
+#: n in [1, 3]: thermionic emission gives n >= 1 (image-force lowering and interface states
+#: push it a little above 1; recombination in the depletion region gives n = 2, Rhoderick &
+#: Williams 1988, from memory); apparent values up to ~3 are reported for contacts whose
+#: current is partly tunnelling or inhomogeneous, which the other hypotheses describe
+#: explicitly. A constant n (no T-dependence) is the plain hypothesis on purpose: the
+#: published T-dependences (the T0 effect; Werner & Guettler's n_ap(T); thermionic-field
+#: emission) are the competing hypotheses, and folding one into this declaration would make
+#: the comparison between them meaningless.
 _IDEALITY = Parameter(
     name="ideality_factor", unit="1", symbol="n",
     description="ideality factor, constant in temperature (1 for ideal thermionic emission)",
@@ -645,13 +653,18 @@ INHOMOGENEOUS_SCHOTTKY_DIODE = Mechanism(
             description="mean of the Gaussian barrier distribution at zero bias",
             lower=0.1, upper=2.0, typical=0.8,
         ),
+        # sigma <= 0.2 V and |rho3| <= 10 mV: reported barrier spreads are ~0.05-0.15 V and
+        # rho3 a few mV, mostly negative (the T0 effect), rho2 a few hundredths to tenths
+        # (from memory of Werner & Guettler 1991 and later tabulations, not re-checked); the
+        # ranges are kept near those values because wider ones are mostly refused at low T
+        # (n_ap < 1 or phi_ap <= 0), which starves the mode search.
         Parameter(
             name="barrier_variance_V2", unit="V^2", symbol="sigma^2",
             description=(
                 "variance of the Gaussian barrier distribution (sigma = its square root, "
-                "at most 0.3 V)"
+                "at most 0.2 V)"
             ),
-            lower=0.0, upper=0.09, typical=0.0064,
+            lower=0.0, upper=0.04, typical=0.0064,
         ),
         Parameter(
             name="voltage_coefficient_rho2", unit="1", symbol="rho2",
@@ -661,7 +674,7 @@ INHOMOGENEOUS_SCHOTTKY_DIODE = Mechanism(
         Parameter(
             name="voltage_coefficient_rho3_V", unit="V", symbol="rho3",
             description="bias coefficient of the barrier variance, d sigma^2/dV",
-            lower=-0.03, upper=0.03, typical=-0.002,
+            lower=-0.01, upper=0.01, typical=-0.002,
         ),
         _RICHARDSON, _SERIES, _SHUNT,
     ),
