@@ -491,11 +491,10 @@ def _inhomogeneous_diode_current(
                                                  np.sqrt(barrier_variance_V2))
     ideality = inhomogeneous_ideality_factor(temperature_K, voltage_coefficient_rho2,
                                              voltage_coefficient_rho3_V)
-    log_saturation = log_thermionic_saturation_current_A(
-        temperature_K, apparent, richardson_constant_A_cm2_K2, device.require_area())
-    return diode_current_from_log_saturation_A(voltage_V, temperature_K, log_saturation,
-                                               ideality, series_resistance_ohm,
-                                               shunt_resistance_ohm)
+    return _schottky_diode_current(
+        voltage_V, temperature_K, device, barrier_height_eV=apparent, ideality_factor=ideality,
+        richardson_constant_A_cm2_K2=richardson_constant_A_cm2_K2,
+        series_resistance_ohm=series_resistance_ohm, shunt_resistance_ohm=shunt_resistance_ohm)
 
 
 def _lateral_2d_diode_current(
