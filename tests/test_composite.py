@@ -81,3 +81,70 @@ def test_only_odd_paths_can_be_composed():
     signed = replace(NN, magnitude=None, signed_current=lambda v, t, d, **p: v)
     with pytest.raises(ValueError, match="odd in V"):
         parallel_paths(PF, signed, id="x", name="x")
+
+
+def test_regime_map_names_the_dominant_path_and_the_failing_cells():
+    from mechid.catalogue import temporarily_registered
+    from mechid.inference.regimes import regime_map
+
+    pf, nn, values = _params()
+    pf.update(trap_depth_eV=1.2, dielectric_constant=4.2, prefactor_S_per_cm=1.0, thickness_nm=30.0)
+    values.update(pf)
+    nn["thickness_nm"] = 30.0
+    values["leak_prefactor_A_per_cm2"] = 1e-3
+    values["leak_activation_energy_eV"] = 0.3
+    nn.update(prefactor_A_per_cm2=1e-3, activation_energy_eV=0.3)
+    comp = parallel_paths(PF, NN, id="pf_leak_for_map", name="x")
+    draws = {k: np.full(50, v) for k, v in values.items()}
+    v = np.concatenate([-np.geomspace(0.5, 12, 10), np.geomspace(0.5, 12, 10)])
+    t = np.repeat([300.0, 450.0], 10)
+    z = np.zeros(v.size)
+    z[:3] = 5.0  # three failing points, at 300 K
+    with temporarily_registered(comp):
+        found = regime_map(("pf_leak_for_map", 0.9, draws), ("poole_frenkel", z), v, t, DEVICE,
+                           seed=1)
+    assert found.paths == ("poole_frenkel", "nearest_neighbour_hopping")
+    grid_v = np.array(found.bias_abs_V)
+    for i, temperature in enumerate(found.temperatures_K):
+        main = PF.current(grid_v, temperature, pf, DEVICE)
+        leak = NN.current(grid_v, temperature, nn, DEVICE)
+        expected = np.where(np.abs(leak) > np.abs(main), 1, 0)
+        assert list(found.dominant_path[i]) == list(expected)
+        assert set(found.dominant_probability[i]) == {1.0}  # identical draws agree
+    # This leak carries the low biases at 300 K (PF ~ 1e-17 A there) and not the top ones.
+    assert found.dominant_path[0][0] == 1 and found.dominant_path[0][-1] == 0
+    flagged = [(i, j) for i, row in enumerate(found.residual_failure)
+               for j, share in enumerate(row) if share]
+    assert flagged and all(i == 0 for i, _ in flagged)
+    assert found.residual_failure[1][0] in (None, 0.0)
+
+
+def test_window_condition_refuses_a_path_that_never_leads():
+    from mechid.inference.likelihood import MechanismTarget
+    from mechid.inference.priors import mechanism_priors
+
+    pf, nn, values = _params()
+    pf.update(trap_depth_eV=1.2, dielectric_constant=4.2, prefactor_S_per_cm=1.0, thickness_nm=30.0)
+    values.update(pf)
+    v = np.concatenate([-np.geomspace(0.5, 12, 10), np.geomspace(0.5, 12, 10)])
+    t = np.repeat([300.0, 450.0], 10)
+    current = PF.current(v, t, pf, DEVICE)
+    priors = mechanism_priors(COMPOSITE, DEVICE, np.full(v.size, 1e-14))
+    target = MechanismTarget(COMPOSITE, v, t, current, DEVICE, priors)
+    leading = dict(values, leak_activation_energy_eV=0.3, leak_prefactor_A_per_cm2=1e-3)
+    silent = dict(values, leak_activation_energy_eV=1.9, leak_prefactor_A_per_cm2=1e-4)
+    ok = COMPOSITE.window_condition(np.abs(v), t, DEVICE, **{
+        k: np.array([[leading[k]], [silent[k]]]) for k in COMPOSITE.parameter_names})
+    assert list(ok) == [True, False]
+    # The likelihood refuses the silent-leak set however well it fits (it is PF alone).
+    names = target.names
+    rows = []
+    for chosen in (leading, silent):
+        row = []
+        for prior in target.free:
+            value = chosen.get(prior.name, {"noise_relative": 0.02, "noise_floor_A": 1e-14}.get(
+                prior.name))
+            row.append(float(prior.to_internal(value)))
+        rows.append(row)
+    loglike = target.log_likelihood(np.array(rows))
+    assert np.isfinite(loglike[0]) and loglike[1] == -np.inf, names

@@ -6,6 +6,8 @@ Each mechanism is declared once, in the module of its family:
 * :mod:`mechid.catalogue.emission` -- ``schottky_emission``, ``poole_frenkel``
 * :mod:`mechid.catalogue.hopping` -- ``nearest_neighbour_hopping``, ``mott_vrh``,
   ``mott_vrh_2d``, ``es_vrh``
+* :mod:`mechid.catalogue.diode` -- ``schottky_diode``, ``inhomogeneous_schottky_diode``,
+  ``lateral_2d_schottky_diode`` (rectifying contacts, signed formulas)
 """
 
 from __future__ import annotations
@@ -14,6 +16,11 @@ from collections.abc import Iterator
 from contextlib import contextmanager
 
 from mechid.catalogue.base import Mechanism, Parameter, StraightenedPlot
+from mechid.catalogue.diode import (
+    INHOMOGENEOUS_SCHOTTKY_DIODE,
+    LATERAL_2D_SCHOTTKY_DIODE,
+    SCHOTTKY_DIODE,
+)
 from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
 from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, MOTT_VRH_2D, NEAREST_NEIGHBOUR_HOPPING
 from mechid.catalogue.tunnelling import DIRECT_TUNNELLING, FOWLER_NORDHEIM
@@ -29,6 +36,9 @@ MECHANISMS: tuple[Mechanism, ...] = (
     MOTT_VRH,
     MOTT_VRH_2D,
     ES_VRH,
+    SCHOTTKY_DIODE,
+    INHOMOGENEOUS_SCHOTTKY_DIODE,
+    LATERAL_2D_SCHOTTKY_DIODE,
 )
 
 _BY_ID = {m.id: m for m in MECHANISMS}

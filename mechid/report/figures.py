@@ -669,6 +669,65 @@ def ranking_figure(mechanisms: Sequence[Mapping[str, Any]]) -> ReportFigure | No
                         fig, "comparison")
 
 
+def regime_figure(regimes: Mapping[str, Any] | None) -> ReportFigure | None:
+    """The regime map on the measured (|V|, T) plane (:mod:`mechid.inference.regimes`).
+
+    Left panel (when a composite was fitted): the path carrying the larger share of the
+    current, shaded by the posterior probability of that statement. Right panel: the share of
+    the leading single mechanism's points whose standardised residual exceeds 3. None when
+    there is nothing to draw.
+    """
+    if not regimes or not regimes.get("temperatures_K"):
+        return None
+    temperatures = np.array(regimes["temperatures_K"], dtype=float)
+    biases = np.array(regimes["bias_abs_V"], dtype=float)
+    composite = regimes.get("composite")
+    failure = np.array([[np.nan if x is None else x for x in row]
+                        for row in regimes.get("residual_failure") or []], dtype=float)
+    single = regimes.get("single_mechanism")
+    panels = (["paths"] if composite else []) + (["residuals"] if single else [])
+    if not panels:
+        return None
+    rows = np.arange(temperatures.size)
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN, 0.22 * temperatures.size + 1.9))
+        _margins(fig, 0.7, 0.75, 0.5, 0.42, wspace=0.15)
+        axes = np.atleast_1d(fig.subplots(1, len(panels), sharey=True))
+        for ax, panel in zip(axes, panels, strict=True):
+            if panel == "paths":
+                index = np.array(regimes["dominant_path"], dtype=float)
+                probability = np.array(regimes["dominant_probability"], dtype=float)
+                colours = np.array([[0.14, 0.34, 0.65], [0.80, 0.45, 0.10]])
+                rgb = colours[index.astype(int) % 2]
+                alpha = np.clip((probability - 0.5) * 2, 0.15, 1.0)[..., None]
+                ax.imshow(rgb * alpha + (1 - alpha), aspect="auto", origin="lower",
+                          interpolation="nearest")
+                paths = regimes.get("paths") or []
+                ax.set_title(f"{composite}:\n{paths[0]} (blue) or {paths[1]} (orange)",
+                             fontsize=7, loc="left")
+            else:
+                image = ax.imshow(failure, aspect="auto", origin="lower", cmap="Reds",
+                                  vmin=0.0, vmax=1.0, interpolation="nearest")
+                fig.colorbar(image, ax=ax, fraction=0.05, pad=0.02, label="share |z| > 3")
+                ax.set_title(f"{single}:\nresidual failures", fontsize=7, loc="left")
+            ticks = np.linspace(0, biases.size - 1, min(5, biases.size)).round().astype(int)
+            ax.set_xticks(ticks, [f"{biases[k]:.3g}" for k in ticks])
+            ax.set_xlabel("|V| [V]")
+            ax.grid(False)
+        axes[0].set_yticks(rows, [f"{t:g}" for t in temperatures])
+        axes[0].set_ylabel("T [K]")
+    caption = ("Regime map over the measured temperatures and biases. "
+               + ("Left: which path of the leading composite hypothesis carries the larger share "
+                  "of the current; pale cells are those where the posterior draws disagree "
+                  "(colour strength: probability of the path shown, from 0.5 to 1). "
+                  if composite else "")
+               + (f"{'Right' if composite else 'The panel'}: share of the data points of each "
+                  f"cell where {single}, the leading single mechanism, misses by more than three "
+                  "standard deviations (common-practice threshold); white: no data." if single
+                  else ""))
+    return ReportFigure("comparison_regime_map", "Regime map", caption, fig, "comparison")
+
+
 def _finite_or(value: Any, default: float) -> float:
     return float(value) if isinstance(value, int | float) and math.isfinite(value) else default
 
@@ -712,6 +771,9 @@ def build_figures(run: ReportRun, result_dict: Mapping[str, Any] | None = None
     ranking = ranking_figure(data.get("mechanisms") or [])
     if ranking is not None:
         figures.append(ranking)
+    regimes = regime_figure(data.get("regime_map"))
+    if regimes is not None:
+        figures.append(regimes)
     for mechanism_id in mechanism_order(data):
         figures.extend(mechanism_figures(run, data, mechanism_id))
     return figures

@@ -412,6 +412,7 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                           "parameters", "case against"], rows, numeric=(1, 2, 3),
                          row_classes=classes))
         out.append(figures.get("comparison_bayes_factors"))
+        out.append(figures.get("comparison_regime_map"))
         out.append(prior_sensitivity_html(data))
     out.append(_not_fitted_html(data))
     skipped = data.get("skipped") or []
