@@ -115,10 +115,21 @@ def test_wider_ranges_give_the_width_term_when_the_posterior_is_clear_of_the_edg
     # log10 range [-3, 3] becomes [-6, 6].
     assert record.ranges["energy_eV"] == pytest.approx((0.0, 15.5), rel=1e-12)
     assert record.ranges["prefactor_S"] == pytest.approx((1e-6, 1e6), rel=1e-12)
-    assert record.limits and "positive quantity" in record.limits[0]
+    assert record.limits and "cannot be negative" in record.limits[0]
     exact = _log_evidence(_new_priors(record, priors), means, sds) - ln_z
     assert exact == pytest.approx(math.log(10 / 15.5) + math.log(6 / 12), abs=1e-9)
     assert record.ln_evidence_shift == pytest.approx(exact, abs=1e-9)
+
+
+@pytest.mark.parametrize(("name", "lower", "upper", "expected"), [
+    ("dielectric_constant", 1.0, 20.0, (1.0, 29.5)),       # eps_r >= 1 (vacuum)
+    ("ideality_factor", 1.0, 3.0, (1.0, 4.0)),             # n >= 1 (thermionic emission)
+    ("voltage_coefficient_rho2", -0.5, 0.5, (-1.0, 1.0)),  # no limit below zero
+])
+def test_doubled_ranges_stop_at_the_physical_limits(name, lower, upper, expected):
+    prior = Prior(name, "1", "uniform", lower, upper, origin="catalogue range")
+    wider, _ = rescaled_prior(prior, 2.0, np.array([0.0]))
+    assert (wider.lower, wider.upper) == pytest.approx(expected, rel=1e-12)
 
 
 def test_edge_criterion_fires_on_a_posterior_piled_at_a_bound():

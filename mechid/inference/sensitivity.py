@@ -35,7 +35,8 @@ Choices (stated in the report):
 * narrower: the new interval of half the width is centred on the posterior median, shifted to
   lie inside the old range (so the reweighting is exact);
 * wider: twice the width about the centre of the declared range, cut at the physical hard
-  limits (:func:`hard_lower_limit`: a relative permittivity is at least 1; the other
+  limits (:func:`hard_lower_limit`: a relative permittivity and an ideality factor are at
+  least 1; the other
   linear-scale catalogue quantities -- energies, lengths, mass ratios -- are positive, so the
   range stops at zero; log-uniform ranges have no limit in log10); the width actually used is
   recorded;
@@ -83,6 +84,14 @@ LOG_SAMPLED_FLOOR_SHARE = 1e-6
 #: The origin of a prior that this analysis rescales.
 CATALOGUE_ORIGIN = "catalogue range"
 
+#: Linear-scale parameters that cannot fall below 1, and why.
+UNIT_LOWER_LIMITS = {
+    "dielectric_constant": "a relative permittivity is at least 1",
+    # Sze & Ng, Physics of Semiconductor Devices, 3rd ed. (2007): n = 1 for pure thermionic
+    # emission, larger when other transport adds (from memory).
+    "ideality_factor": "an ideality factor is at least 1 (pure thermionic emission)",
+}
+
 REWEIGHTING = "reweighting"
 REWEIGHTING_WIDTH_TERM = "width term (posterior clear of the old edges)"
 QUICK_RERUN = "quick re-run with the wider ranges"
@@ -118,17 +127,18 @@ def flat_bounds(prior: Prior) -> tuple[float, float]:
 def hard_lower_limit(prior: Prior) -> tuple[float | None, str]:
     """The physical lower limit a widened range stops at (flat coordinate), and why.
 
-    A relative permittivity is at least 1 (vacuum); every other linear-scale catalogue
-    quantity with a non-negative declared range (barrier heights, trap depths, activation
-    energies, lengths, effective-mass ratios) is positive, so its range stops at 0. A
-    log-uniform range has no limit in log10.
+    A relative permittivity and a diode ideality factor are at least 1
+    (:data:`UNIT_LOWER_LIMITS`); every other linear-scale catalogue quantity with a
+    non-negative declared range (barrier heights, trap depths, activation energies, lengths,
+    effective-mass ratios, variances) is non-negative, so its range stops at 0. A log-uniform
+    range has no limit in log10; a range declared below zero has none either.
     """
     if prior.kind == "log_uniform":
         return None, ""
-    if prior.name == "dielectric_constant":
-        return 1.0, "a relative permittivity is at least 1"
+    if prior.name in UNIT_LOWER_LIMITS:
+        return 1.0, UNIT_LOWER_LIMITS[prior.name]
     if prior.lower >= 0:
-        return 0.0, "a positive quantity"
+        return 0.0, "a quantity that cannot be negative"
     return None, ""
 
 
