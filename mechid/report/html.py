@@ -905,10 +905,9 @@ def _diode_section(data: Json, figures: _Figures) -> str:
             row.append(_value_with_error((entry.get(record) or {}).get("quantities") or {}, key,
                                          f"{path}.{record}.quantities"))
         norde = entry.get("norde") or {}
-        row.append(num(norde.get("barrier_height_eV"), ".4g", f"{path}.norde.barrier_height_eV",
-                       missing="–"))
+        row.append(num(norde.get("barrier_height_eV"), ".4g", f"{path}.norde.barrier_height_eV"))
         row.append(num(norde.get("series_resistance_ohm"), ".4g",
-                       f"{path}.norde.series_resistance_ohm", missing="–"))
+                       f"{path}.norde.series_resistance_ohm"))
         rows.append(row)
         for record in ("semilog", "cheung_derivative", "cheung_h", "norde"):
             part = entry.get(record) or {}
