@@ -26,11 +26,21 @@ EXPECTED = {
                                        "richardson_constant_ratio", "thickness_nm")),
     "poole_frenkel": ("emission", ("trap_depth_eV", "dielectric_constant",
                                    "prefactor_S_per_cm", "thickness_nm")),
+    "ohmic_activated": ("ohmic", ("activation_energy_eV", "prefactor_S")),
+    "sclc_shallow_traps": ("space_charge", ("trap_depth_eV",
+                                            "permittivity_mobility_prefactor_cm2_per_Vs",
+                                            "thickness_nm")),
+    "sclc_exponential_traps": ("space_charge", ("characteristic_trap_temperature_K",
+                                                "trap_density_per_cm3", "dielectric_constant",
+                                                "mobility_band_density_per_V_s_cm",
+                                                "thickness_nm")),
     "nearest_neighbour_hopping": ("hopping", ("activation_energy_eV", "hopping_distance_nm",
                                               "prefactor_A_per_cm2", "thickness_nm")),
     "mott_vrh": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
     "mott_vrh_2d": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
     "es_vrh": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
+    "trap_assisted_tunnelling": ("tunnelling", ("trap_energy_eV", "prefactor_A_per_cm2",
+                                                "thickness_nm", "effective_mass_ratio")),
 }
 
 ALL = [*MECHANISMS, mott_vrh_variant(1)]
@@ -117,7 +127,7 @@ def test_broadcasting_equals_loop_of_scalars(mechanism):
 @pytest.mark.parametrize("mechanism", MECHANISMS, ids=[m.id for m in MECHANISMS])
 def test_area_needed_exactly_for_density_formulas(mechanism):
     params = mechanism.typical_parameters()
-    if mechanism.id in ("mott_vrh", "mott_vrh_2d", "es_vrh"):
+    if mechanism.id in ("mott_vrh", "mott_vrh_2d", "es_vrh", "ohmic_activated"):
         assert np.isfinite(mechanism.current(1.0, 300.0, params, Device()))
     else:
         with pytest.raises(DeviceError, match="area"):
@@ -155,4 +165,5 @@ def test_interpret_returns_plain_floats_with_unit_suffixed_keys(mechanism):
             for key, value in found.items():
                 assert isinstance(key, str) and isinstance(value, float)
                 assert key.endswith(("_eV", "_nm", "_K", "_S", "_S_per_cm", "_per_V2",
-                                     "_A_per_cm2_K2", "_ratio", "dielectric_constant"))
+                                     "_A_per_cm2_K2", "_ratio", "dielectric_constant",
+                                     "_exponent", "_cm2_per_Vs"))
