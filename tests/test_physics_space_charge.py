@@ -162,3 +162,14 @@ def test_sclc_arrhenius_plot_reads_depth_and_prefactor():
 def test_registered_under_the_space_charge_family():
     assert get_mechanism("sclc_shallow_traps").family == "space_charge"
     assert get_mechanism("sclc_exponential_traps").family == "space_charge"
+
+
+def test_mark_helfrich_refused_beyond_the_trap_filled_limit():
+    # V_TFL = e N_t d^2/(2 eps0 eps_r) (Lampert 1956): 1e16 cm^-3, 100 nm, eps_r 3 gives 0.30 V.
+    params = {"characteristic_trap_temperature_K": 1000.0, "trap_density_per_cm3": 1e16,
+              "dielectric_constant": 3.0, "mobility_band_density_per_V_s_cm": 1e19,
+              "thickness_nm": 100.0}
+    v_tfl = sc.e * 1e22 * (100e-9) ** 2 / (2 * sc.epsilon_0 * 3.0)
+    v = np.array([0.9 * v_tfl, 1.1 * v_tfl])
+    i = SCLC_EXPONENTIAL_TRAPS.current(v, np.full(2, 50.0), params, DEVICE)
+    assert np.isfinite(i[0]) and np.isnan(i[1])

@@ -141,8 +141,11 @@ def mark_helfrich_current_density_A_per_m2(
     (prefactor from memory, in the form widely reproduced; it could not be checked against
     the paper. It is dimensionally consistent -- A/m^2 for every l -- and for l -> 0 it tends
     to ``e mu N_c V/d``, the ohmic current of the band density, both checked in the tests).
-    Evaluated in logarithms. The law needs ``l > 1`` (traps deeper than kT); the declaration
-    refuses ``T <= T_t`` violations.
+    Evaluated in logarithms. The law needs ``l > 1`` (a trap tail broader than kT) and a bias
+    below the trap-filled limit (:func:`trap_filled_limit_voltage_V`), where the bracket
+    ``eps l V/(e N_t (l+1) d^2)`` stays below 1/2; the declaration refuses points with
+    ``T > T_t`` or ``V > V_TFL``. Beyond ``V_TFL`` the formula grows without bound as
+    ``(V/V_TFL)^l`` (it overflows at low T), which is why it is not used there.
     """
     t = np.asarray(temperature_K, dtype=float)
     ell = np.asarray(characteristic_trap_temperature_K, dtype=float) / t
@@ -320,6 +323,29 @@ def _trap_temperature_ratio(voltage_V: FloatArray, temperature_K: FloatArray, de
     return characteristic_trap_temperature_K / temperature_K + 0.0 * voltage_V
 
 
+def _bias_over_trap_filled_limit(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    trap_density_per_cm3: FloatArray, dielectric_constant: FloatArray, thickness_nm: FloatArray,
+    **params: FloatArray,
+) -> FloatArray:
+    """``V/V_TFL``: the bias over Lampert's trap-filled-limit voltage."""
+    return voltage_V / trap_filled_limit_voltage_V(trap_density_per_cm3, thickness_nm,
+                                                   dielectric_constant)
+
+
+_TRAPS_NOT_FILLED = ValidityCondition(
+    id="below_trap_filled_limit",
+    quantity="V/V_TFL (bias over the trap-filled-limit voltage e N_t d^2/(2 eps0 eps_r))",
+    limit=1.0,
+    bound="upper",
+    reason=(
+        "the Mark-Helfrich (1962) law assumes most injected charge sits in traps that are far "
+        "from filled; at Lampert's trap-filled limit (1956) the traps are full and the current "
+        "rises to the trap-free square law instead"
+    ),
+    evaluate=_bias_over_trap_filled_limit,
+)
+
 _DRIFT_ONLY = ValidityCondition(
     id="drift_dominates_diffusion",
     quantity="eV/kT (bias in units of the thermal voltage)",
@@ -402,7 +428,7 @@ SCLC_EXPONENTIAL_TRAPS = Mechanism(
     name="Space-charge-limited current (Mark-Helfrich, exponential trap distribution)",
     formula=(
         "J = e^(1-l) mu N_c (eps l/(N_t (l+1)))^l ((2l+1)/(l+1))^(l+1) V^(l+1)/d^(2l+1);"
-        "  l = T_t/T;  valid for l >= 1, eV/kT >= 10"
+        "  l = T_t/T;  valid for l >= 1, eV/kT >= 10, V <= V_TFL = e N_t d^2/(2 eps)"
     ),
     source="Mark & Helfrich, J. Appl. Phys. 33, 205 (1962)",
     parameters=(
@@ -439,5 +465,5 @@ SCLC_EXPONENTIAL_TRAPS = Mechanism(
                         name="trap_limited_voltage_exponent"),
         ThermallyActivated(),
     ),
-    validity=(_DRIFT_ONLY, _DEEP_TRAP_TAIL),
+    validity=(_DRIFT_ONLY, _DEEP_TRAP_TAIL, _TRAPS_NOT_FILLED),
 )
