@@ -604,6 +604,7 @@ def _vrh_estimates(plot_id: str) -> tuple[PlotEstimate, ...]:
 
 
 _MOTT_EXPONENTS = {1: (0.5, "1/2"), 2: (1.0 / 3.0, "1/3"), 3: (0.25, "1/4")}
+_MEASURE = {1: "length", 2: "area", 3: "volume"}
 
 
 def mott_vrh_variant(dimension: int) -> Mechanism:
@@ -635,7 +636,8 @@ def mott_vrh_variant(dimension: int) -> Mechanism:
         id="mott_vrh" if dimension == 3 else f"mott_vrh_{dimension}d",
         family="hopping",
         name=f"Mott variable-range hopping ({dimension}D)",
-        formula=f"I = G0 V exp(-(T0/T)^({text}));  T0 = beta/(k N(E_F) xi^3) in 3D",
+        formula=(f"I = G0 V exp(-(T0/T)^({text}));  T0 = beta/(k N(E_F) xi^{dimension}), "
+                 f"N(E_F) the density of states per energy and per unit {_MEASURE[dimension]}"),
         source=(
             "Mott, Phil. Mag. 19, 835 (1969); Mott, J. Non-Cryst. Solids 1, 1 (1968)"
         ),
