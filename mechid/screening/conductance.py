@@ -18,7 +18,7 @@ nor mass. With the device thickness and effective mass, ``A0`` is known and
 Per temperature: the numerical dI/dV of the I-V points (second-order differences on the
 sorted biases, :func:`numpy.gradient`), an ordinary-least-squares parabola of G against V
 in a low-bias window, its minimum and the asymmetry with standard errors from the fit
-(delta method). The window starts at :data:`INITIAL_WINDOW_V` (or the smaller of the two
+(HC3 covariance, delta method). The window starts at :data:`INITIAL_WINDOW_V` (or the smaller of the two
 polarities' largest bias) and shrinks until ``c2 V^2 <= BDR_MAX_QUADRATIC_TERM``, the limit
 the mechanism ``dissimilar_electrode_tunnelling`` declares for the expansion.
 """
@@ -65,12 +65,19 @@ def numerical_conductance(voltage_V: FloatArray, current_A: FloatArray
 
 
 def _parabola(v: FloatArray, g: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """OLS ``g0 + g1 V + g2 V^2``: coefficients and their covariance (residual variance)."""
+    """OLS ``g0 + g1 V + g2 V^2``: coefficients and their heteroscedasticity-consistent covariance.
+
+    The noise of a numerical conductance grows with the current (relative noise on I), so the
+    covariance is the HC3 sandwich (White, Econometrica 48, 817 (1980); MacKinnon & White,
+    J. Econometrics 29, 305 (1985)): ``(X'X)^-1 X' diag(r_i^2/(1 - h_ii)^2) X (X'X)^-1``.
+    """
     design = np.column_stack([np.ones_like(v), v, v**2])
     coefficients, *_ = np.linalg.lstsq(design, g, rcond=None)
     residual = g - design @ coefficients
-    variance = float(residual @ residual) / (v.size - 3)
-    return coefficients, variance * np.linalg.inv(design.T @ design)
+    bread = np.linalg.inv(design.T @ design)
+    leverage = np.einsum("ij,jk,ik->i", design, bread, design)
+    scaled = design * (residual / (1.0 - leverage))[:, None]
+    return coefficients, bread @ (scaled.T @ scaled) @ bread
 
 
 def _window_points(v: FloatArray, window: float) -> tuple[FloatArray, str | None]:
