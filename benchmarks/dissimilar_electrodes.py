@@ -18,7 +18,7 @@ coverage of the barriers on asymmetric data, how often the symmetric hypothesis 
 (ln B > 0 and > 2.3, i.e. B > 10) on asymmetric data, and how often the resolved one wins on
 symmetric data (the false rate).
 
-Measured (seed 2026-12-02 run, ``--seed 52771 --budget-minutes 15``, 53 cases, 2 shared
+Measured (run of 2026-12-02, ``--seed 52771 --budget-minutes 15``, 53 cases, 2 shared
 cores, 7-36 s per case): 95 % coverage of phi1 and phi2 on asymmetric data 67/72 intervals
 (36 cases; the misses: cases 9, 13, 33 one barrier each, case 48 both); the symmetric
 hypothesis loses on 36/36 asymmetric cases (ln B 10.8 to 112, all above ln 10); on symmetric

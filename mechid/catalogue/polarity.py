@@ -318,7 +318,10 @@ _EMISSION_NOTE = (
     "electrodes: Simmons, J. Appl. Phys. 34, 2581 (1963))"
 )
 
-#: Schottky emission with the barrier of each polarity's injecting electrode.
+#: Schottky emission with the barrier of each polarity's injecting electrode. Each side keeps
+#: the base formula's net-flux factor 1 - exp(-eV/kT) (symmetric MIM film); with unequal
+#: barriers the back-flux over the other electrode's barrier is then approximated by the
+#: injecting one's (ours), which matters only within a few kT of zero bias.
 SCHOTTKY_EMISSION_TWO_BARRIERS = electrode_resolved(
     SCHOTTKY_EMISSION, ("barrier_height_eV",), id="schottky_emission_two_barriers",
     name="Schottky emission, one barrier per electrode", source_note=_EMISSION_NOTE,
