@@ -33,7 +33,12 @@ from mechid.inference.adequacy import (
     NOISE_RESOLUTION,
     AdequacyCheck,
 )
-from mechid.inference.compare import kass_raftery_wording, rank_mechanisms
+from mechid.inference.compare import (
+    FamilyProbability,
+    family_probabilities,
+    kass_raftery_wording,
+    rank_mechanisms,
+)
 from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.priors import Prior
@@ -53,13 +58,17 @@ from mechid.results import (
     MechanismResult,
     NotFittedMechanism,
     ParameterSummary,
+    PolarityComparison,
+    SkippedMechanism,
     Verdict,
 )
 from mechid.screening import LinearisationResult, linearise
+from mechid.screening.applicability import unmet_need
+from mechid.screening.asymmetry import PolarityAsymmetry
 
 ProgressHook = Callable[[str, int, int], None]
 
-Polarity = Literal["both", "positive", "negative"]
+Polarity = Literal["both", "positive", "negative", "each"]
 
 
 
@@ -75,8 +84,10 @@ class AnalysisSettings:
         Shorter ladder (rougher evidences, for a first look).
     screen_only : bool
         Run only the linearisation tests.
-    polarity : {"both", "positive", "negative"}
-        Which bias points enter the fit (both: joint fit of a symmetric device).
+    polarity : {"both", "positive", "negative", "each"}
+        Which bias points enter the fit (both: joint fit of a symmetric device). ``"each"``:
+        the joint fit, and every mechanism fitted again to each polarity alone, the two
+        compared by evidence (:class:`~mechid.results.PolarityComparison`).
     prior_odds : dict, optional
         Relative prior weight per mechanism id (equal when omitted).
     workers : int
@@ -85,6 +96,11 @@ class AnalysisSettings:
     ladder_overrides : mapping
         Fields of :class:`~mechid.inference.settings.LadderSettings` that replace the
         preset's (:data:`~mechid.inference.settings.FULL_LADDER` or ``QUICK_LADDER``).
+    bias_window_V : (float, float), optional
+        Analyse only points with ``low <= |V| <= high`` (both polarities), e.g. the high-field
+        range of a Fowler-Nordheim analysis. Screening, fit and report all use the window.
+    temperature_window_K : (float, float), optional
+        Analyse only temperatures with ``low <= T <= high``.
     """
 
     mechanisms: tuple[str, ...] | None = None
@@ -94,6 +110,8 @@ class AnalysisSettings:
     prior_odds: dict[str, float] | None = None
     workers: int = 0
     ladder_overrides: Mapping[str, Any] = field(default_factory=dict)
+    bias_window_V: tuple[float, float] | None = None
+    temperature_window_K: tuple[float, float] | None = None
 
     def ladder(self) -> LadderSettings:
         """The tempered-ladder settings these choices imply."""
@@ -121,15 +139,51 @@ class AnalysisRun:
     predictive: dict[str, PosteriorPredictive]
 
 
+def apply_windows(series: IVSeries, settings: AnalysisSettings) -> tuple[IVSeries, dict[str, Any]]:
+    """The points inside the bias and temperature windows, and the windows as JSON.
+
+    Raises
+    ------
+    MechidError
+        If a window is not ``low < high`` with finite limits (``low >= 0`` for |V| and
+        ``low > 0`` K), or fewer than 3 points remain.
+    """
+    keep = np.ones(series.n_points, dtype=bool)
+    windows = (("--bias-window", settings.bias_window_V, np.abs(series.voltage_V), 0.0, "V"),
+               ("--temperature-window", settings.temperature_window_K, series.temperature_K,
+                1e-300, "K"))
+    for option, window, values, least, unit in windows:
+        if window is None:
+            continue
+        low, high = (float(x) for x in window)
+        if not (math.isfinite(low) and math.isfinite(high) and least <= low < high):
+            raise MechidError(f"{option} must be LOW:HIGH in {unit} with {least:g} <= LOW < HIGH"
+                              f"{' (|V|)' if unit == 'V' else ''}, got {low:g}:{high:g}")
+        keep &= (values >= low) & (values <= high)
+    record = {"bias_abs_V": None if settings.bias_window_V is None
+              else [float(x) for x in settings.bias_window_V],
+              "temperature_K": None if settings.temperature_window_K is None
+              else [float(x) for x in settings.temperature_window_K],
+              "n_points_outside": int((~keep).sum())}
+    if keep.all():
+        return series, record
+    if keep.sum() < 3:
+        raise MechidError(f"the windows keep {int(keep.sum())} of {series.n_points} points; at "
+                          "least 3 are needed (check --bias-window / --temperature-window)")
+    inside = replace(series, temperature_K=series.temperature_K[keep],
+                     voltage_V=series.voltage_V[keep], current_A=series.current_A[keep])
+    return inside, record
+
+
 def select_polarity(series: IVSeries, polarity: Polarity) -> np.ndarray:
     """Boolean mask of the points that enter the fit."""
-    if polarity == "both":
+    if polarity in ("both", "each"):
         return np.ones(series.n_points, dtype=bool)
     if polarity == "positive":
         return series.voltage_V > 0
     if polarity == "negative":
         return series.voltage_V < 0
-    raise MechidError(f"--polarity must be both, positive or negative, got {polarity!r}")
+    raise MechidError(f"--polarity must be both, positive, negative or each, got {polarity!r}")
 
 
 def run_analysis(
@@ -160,6 +214,8 @@ def run_analysis_full(
     """
     settings = settings or AnalysisSettings()
     started = time.perf_counter()
+    measured = series.summary()
+    series, window = apply_windows(series, settings)
     mask = select_polarity(series, settings.polarity)
     if mask.sum() < 3:
         raise MechidError(f"no data points left for --polarity {settings.polarity}")
@@ -167,6 +223,8 @@ def run_analysis_full(
     mechanisms = _selected_mechanisms(settings)
     fits: dict[str, MechanismFit] = {}
     not_fitted: tuple[NotFittedMechanism, ...] = ()
+    skipped: tuple[SkippedMechanism, ...] = ()
+    comparison: tuple[PolarityComparison, ...] = ()
     if not settings.screen_only:
         _check_area(device, mechanisms)
         master = np.random.default_rng(seed)
@@ -175,22 +233,35 @@ def run_analysis_full(
         # Most promising first (screening rank), so that mechanisms far below the leader are
         # not refined; each keeps its own random stream whatever the order.
         screening = {mid: rank for rank, mid in enumerate(lin.ranking)}
+        skipped = _skipped_mechanisms(mechanisms, lin, settings)
+        left_out = {entry.id for entry in skipped}
         jobs = sorted((FitJob(m.id, child, hints.get(m.id))
-                       for m, child in zip(mechanisms, children, strict=True)),
+                       for m, child in zip(mechanisms, children, strict=True)
+                       if m.id not in left_out),
                       key=lambda job: screening.get(job.mechanism_id, len(screening)))
         outcome = fit_candidates_in_rounds(
             jobs, series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
             device, settings.ladder(), settings.search(),
             workers=settings.workers or default_workers(), progress=progress,
         )
+        if settings.polarity == "each":
+            comparison = _compare_polarities(jobs, outcome.fits, series, device, settings,
+                                             master, progress)
         # A mechanism whose formula holds nowhere on the data is listed as not fitted, why.
         fits = {m.id: outcome.fits[m.id] for m in mechanisms if m.id in outcome.fits}
         not_fitted = tuple(outcome.not_fitted[m.id] for m in mechanisms
                            if m.id in outcome.not_fitted)
     results = _ranked_results(fits, settings)
-    verdict = _verdict(results, settings, not_fitted) if results else None
+    by_id = {m.id: m for m in mechanisms}
+    leader = by_id[results[0].id] if results else None
+    fitted_sides = "each" if comparison else _fitted_polarities(series.voltage_V[mask])
+    polarity = (polarity_assumption(leader, fitted_sides)
+                if leader is not None else "")
+    verdict = _verdict(results, settings, not_fitted, polarity, skipped) if results else None
+    if verdict is not None:
+        verdict = _with_families(verdict, results, settings)
     result = AnalysisResult(
-        input={**series.summary(), "polarity": settings.polarity,
+        input={**measured, "polarity": settings.polarity, "window": window,
                "n_points_fitted": int(mask.sum())},
         device=device.to_dict(),
         linearisation=lin.to_dict(),
@@ -198,12 +269,90 @@ def run_analysis_full(
         verdict=verdict,
         settings={**asdict(settings), "ladder": asdict(settings.ladder()),
                   "wall_time_s": time.perf_counter() - started},
-        cautions=tuple(cautions(series, device, results, verdict)),
+        cautions=tuple(cautions(series, device, results, verdict, lin.polarity_asymmetry,
+                                leader_symmetric=None if leader is None else leader.is_odd)),
         seed=seed,
         not_fitted=not_fitted,
+        skipped=skipped,
+        polarity_comparison=comparison,
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
+
+
+def _skipped_mechanisms(mechanisms: list[Mechanism], lin: LinearisationResult,
+                        settings: AnalysisSettings) -> tuple[SkippedMechanism, ...]:
+    """Mechanisms whose declared needs these data do not meet (never one asked for by name)."""
+    if settings.mechanisms is not None:
+        return ()
+    found = []
+    for mechanism in mechanisms:
+        reason = unmet_need(mechanism, lin)
+        if (reason is None and "both_polarities" in mechanism.needs
+                and settings.polarity in ("positive", "negative")):
+            reason = (f"its parameters differ between the polarities and only {settings.polarity} "
+                      "bias was fitted (--polarity)")
+        if reason is not None:
+            found.append(SkippedMechanism(mechanism.id, mechanism.family, mechanism.name, reason))
+    return tuple(found)
+
+
+def _compare_polarities(jobs: list[FitJob], shared: Mapping[str, MechanismFit],
+                        series: IVSeries, device: Device, settings: AnalysisSettings,
+                        master: np.random.Generator,
+                        progress: ProgressHook | None) -> tuple[PolarityComparison, ...]:
+    """Fit every jointly fitted mechanism to each polarity alone; compare with the joint fit.
+
+    Each side gets fresh random streams spawned after the joint fit's (so the joint numbers
+    are those of ``--polarity both`` with the same seed). Mechanisms declared by a signed
+    formula are left out: their parameters already differ between the polarities.
+    """
+    wanted = [job for job in jobs if job.mechanism_id in shared
+              and get_mechanism(job.mechanism_id).is_odd]
+    if not wanted:
+        return ()
+    sides = {}
+    for side, keep in (("positive", series.voltage_V > 0), ("negative", series.voltage_V < 0)):
+        if keep.sum() < 3:
+            raise MechidError(f"--polarity each needs data at both polarities; the {side} "
+                              "bias has fewer than 3 points")
+        children = master.spawn(len(wanted))
+        side_jobs = [replace(job, rng=child) for job, child in zip(wanted, children, strict=True)]
+        sides[side] = fit_candidates_in_rounds(
+            side_jobs, series.voltage_V[keep], series.temperature_K[keep], series.current_A[keep],
+            device, settings.ladder(), settings.search(),
+            workers=settings.workers or default_workers(), progress=progress,
+        ).fits
+    found = []
+    for job in wanted:
+        joint = shared[job.mechanism_id].result
+        pos, neg = (sides[side].get(job.mechanism_id) for side in ("positive", "negative"))
+        if pos is None or neg is None:
+            continue  # the formula holds nowhere on one side's data
+        ln_b = pos.result.log_evidence + neg.result.log_evidence - joint.log_evidence
+        err = math.sqrt(pos.result.log_evidence_err**2 + neg.result.log_evidence_err**2
+                        + joint.log_evidence_err**2)
+        preferred = ("undecided" if abs(ln_b) <= 2 * err
+                     else "separate" if ln_b > 0 else "shared")
+        found.append(PolarityComparison(
+            mechanism_id=job.mechanism_id,
+            ln_evidence_shared=joint.log_evidence, ln_evidence_shared_err=joint.log_evidence_err,
+            ln_evidence_positive=pos.result.log_evidence,
+            ln_evidence_positive_err=pos.result.log_evidence_err,
+            ln_evidence_negative=neg.result.log_evidence,
+            ln_evidence_negative_err=neg.result.log_evidence_err,
+            ln_bayes_factor_separate_vs_shared=ln_b, ln_bayes_factor_separate_vs_shared_err=err,
+            preferred=preferred,
+            parameters_positive=determination(pos.result),
+            parameters_negative=determination(neg.result),
+        ))
+    return tuple(found)
+
+
+def _fitted_polarities(voltage_V: np.ndarray) -> str:
+    """``"both"``, ``"positive"`` or ``"negative"``: the bias signs among the fitted points."""
+    positive, negative = bool(np.any(voltage_V > 0)), bool(np.any(voltage_V < 0))
+    return "both" if positive and negative else "positive" if positive else "negative"
 
 
 def _check_area(device: Device, mechanisms: list[Mechanism]) -> None:
@@ -374,7 +523,8 @@ def determination(result: MechanismResult) -> dict[str, ParameterSummary]:
 
 
 def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
-             not_fitted: tuple[NotFittedMechanism, ...] = ()) -> Verdict:
+             not_fitted: tuple[NotFittedMechanism, ...] = (),
+             polarity: str = "", skipped: tuple[SkippedMechanism, ...] = ()) -> Verdict:
     best = results[0]
     runner = results[1] if len(results) > 1 else None
     ln_b = -runner.ln_bayes_factor_vs_best if runner else float("inf")
@@ -387,6 +537,7 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
                 else f"most probable of the {len(results)} mechanisms fitted" if runner
                 else "the only mechanism fitted")
     return Verdict(
+        polarity_assumption=polarity,
         id=best.id, family=best.family, probability=best.probability,
         ln_bayes_factor_vs_runner_up=ln_b, ln_bayes_factor_vs_runner_up_err=ln_b_err,
         runner_up=runner.id if runner else None, strength=strength, resolved=resolved,
@@ -395,8 +546,52 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
         sentence=quick_run_prefix(settings.quick)
         + verdict_sentence(best, runner, ln_b, ln_b_err, strength, resolved,
                            n_candidates=len(results), prior_odds=odds)
-        + _not_fitted_sentence(len(results), not_fitted),
+        + _not_fitted_sentence(len(results), not_fitted)
+        + _skipped_sentence(skipped)
+        + (f" Polarity assumption: {polarity}." if polarity else ""),
     )
+
+
+def _with_families(verdict: Verdict, results: list[MechanismResult],
+                   settings: AnalysisSettings) -> Verdict:
+    """The verdict with each family's summed probability, in its fields and its sentence."""
+    families = family_probabilities(
+        {r.id: r.log_evidence for r in results}, {r.id: r.log_evidence_err for r in results},
+        {r.id: r.family for r in results}, prior_odds=settings.prior_odds)
+    return replace(verdict, family_probabilities=families,
+                   sentence=verdict.sentence + family_sentence(families))
+
+
+def family_sentence(families: tuple[FamilyProbability, ...]) -> str:
+    """``" By family: tunnelling 0.97 ± 0.01 (2 mechanisms), ..."`` (empty for one family)."""
+    if len(families) < 2:
+        return ""
+    parts = [f"{f.family} {format_probability(f.probability)} ± {f.probability_err:.2g} "
+             f"({len(f.members)} mechanism{'' if len(f.members) == 1 else 's'})"
+             for f in families]
+    return " Probability by family, summed over its members: " + ", ".join(parts) + "."
+
+
+def polarity_assumption(mechanism: Mechanism, fitted_polarities: str) -> str:
+    """How ``mechanism`` treats the two bias polarities, and which ones were fitted.
+
+    Parameters
+    ----------
+    mechanism : Mechanism
+        The leading hypothesis.
+    fitted_polarities : str
+        ``"both"``, ``"positive"`` or ``"negative"``: the bias points that were fitted.
+    """
+    law = ("symmetric in bias, I(-V) = -I(V), with one parameter set for both polarities"
+           if mechanism.is_odd else
+           "not symmetric in bias: its formula (and any parameter declared per electrode) "
+           "differs between the polarities")
+    fitted = {"both": "both polarities fitted jointly",
+              "each": "both polarities fitted jointly, and each alone (see the polarity "
+                      "comparison)",
+              "positive": "positive bias only fitted",
+              "negative": "negative bias only fitted"}.get(fitted_polarities, fitted_polarities)
+    return f"{law}; {fitted}"
 
 
 def _not_fitted_sentence(n_fitted: int, not_fitted: tuple[NotFittedMechanism, ...]) -> str:
@@ -408,6 +603,14 @@ def _not_fitted_sentence(n_fitted: int, not_fitted: tuple[NotFittedMechanism, ..
     return (f" The probabilities are among the {counted} fitted; not fitted "
             "(formula outside its validity on these data): "
             + ", ".join(m.id for m in not_fitted) + ".")
+
+
+def _skipped_sentence(skipped: tuple[SkippedMechanism, ...]) -> str:
+    """Who was left out before fitting because the data do not show what it needs (or "")."""
+    if not skipped:
+        return ""
+    return (" Not fitted because the screening rules them out on these data (see the reasons): "
+            + ", ".join(m.id for m in skipped) + ".")
 
 
 def quick_run_prefix(quick: bool) -> str:
@@ -515,8 +718,12 @@ def verdict_sentence(best: MechanismResult, runner: MechanismResult | None, ln_b
 
 
 def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
-             verdict: Verdict | None) -> list[str]:
+             verdict: Verdict | None, asymmetry: PolarityAsymmetry | None = None, *,
+             leader_symmetric: bool | None = None) -> list[str]:
     """Plain statements of what these data cannot distinguish, then how they were taken.
+
+    ``asymmetry`` (the screening's polarity diagnostic) adds a caution when the polarities
+    differ but the leading hypothesis is symmetric in bias (``leader_symmetric``).
 
     The second part, :func:`mechid.measurement.measurement_cautions`, names high voltage, high
     current density, cryogenic temperatures and disagreeing repeats when the data show them.
@@ -536,6 +743,12 @@ def cautions(series: IVSeries, device: Device, results: list[MechanismResult],
     if not (np.any(series.voltage_V > 0) and np.any(series.voltage_V < 0)):
         notes.append("only one bias polarity was measured: bulk-limited (symmetric) and "
                      "electrode-limited (asymmetric) conduction cannot be told apart")
+    if asymmetry is not None and asymmetry.asymmetric and verdict is not None and leader_symmetric:
+        notes.append(f"the two bias polarities carry different currents ({asymmetry.sentence()}) "
+                     f"but the leading hypothesis, {verdict.id}, is symmetric in bias: its "
+                     "parameters average over both electrodes; compare the hypotheses whose "
+                     "parameters differ between the polarities, or fit each polarity alone "
+                     "(--polarity positive / negative)")
     emission_fitted = any(r.family == "emission" for r in results) or not results
     if device.optical_dielectric_constant is None and emission_fitted:
         notes.append("no optical dielectric constant was given: the dielectric constants read from "

@@ -137,6 +137,8 @@ def analyse(
     workers: int = 0,
     seed: int = 0,
     progress: ProgressHook | None = None,
+    bias_window_V: tuple[float, float] | None = None,
+    temperature_window_K: tuple[float, float] | None = None,
 ) -> Analysis:
     """Analyse an I-V-T series: screening, joint fits, evidences, ranking.
 
@@ -154,6 +156,9 @@ def analyse(
         ``--screen-only``, ``--polarity``, ``--prior-odds``, ``--workers``, ``--seed``).
     progress : callable, optional
         ``progress(label, done, total)``, called as the fits advance.
+    bias_window_V, temperature_window_K : (float, float), optional
+        As ``--bias-window`` and ``--temperature-window``: analyse only
+        ``low <= |V| <= high`` volts and ``low <= T <= high`` kelvin.
 
     Returns
     -------
@@ -174,6 +179,7 @@ def analyse(
     settings = AnalysisSettings(
         mechanisms=tuple(mechanisms) if mechanisms else None, quick=quick, screen_only=screen_only,
         polarity=polarity, prior_odds=dict(prior_odds) if prior_odds else None, workers=workers,
+        bias_window_V=bias_window_V, temperature_window_K=temperature_window_K,
     )
     run = run_analysis_full(series, used_device, settings, seed=seed, progress=progress)
     inputs = (input_files(data_path, series.sources, device_path) if data_path is not None

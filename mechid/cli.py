@@ -97,6 +97,19 @@ def _parse_number_list(text: str, option: str) -> list[float]:
         ) from None
 
 
+def parse_window(option: str, text: str | None) -> tuple[float, float] | None:
+    """``"LO:HI"`` -> ``(LO, HI)`` (None when not given); a clear error otherwise."""
+    if text is None:
+        return None
+    low, colon, high = text.partition(":")
+    try:
+        if not colon:
+            raise ValueError
+        return float(low), float(high)
+    except ValueError:
+        raise _fail(f"{option} expects LO:HI with two numbers, e.g. 1.5:6, got {text!r}") from None
+
+
 def parse_prior_odds(items: list[str]) -> dict[str, float]:
     """Parse ``["mott_vrh=2", ...]`` into relative prior weights (positive numbers)."""
     odds: dict[str, float] = {}
@@ -287,7 +300,8 @@ def analyze_command(
     quick: Annotated[bool, typer.Option(
         "--quick", help="Shorter chains and fewer temperatures on the ladder (rougher evidences).")] = False,
     polarity: Annotated[str, typer.Option(
-        "--polarity", help="both (joint fit), positive or negative: which bias points to fit.")] = "both",
+        "--polarity", help="both (joint fit), positive, negative, or each (joint fit, then "
+                           "each polarity alone, compared by evidence).")] = "both",
     prior_odds: Annotated[list[str], typer.Option(
         "--prior-odds", metavar="ID=WEIGHT", help="Relative prior weight of a mechanism (repeatable; "
                              "default: equal odds).")] = [],  # noqa: B006
@@ -295,6 +309,12 @@ def analyze_command(
         "--workers", min=0, metavar="N",
         help="Processes fitting mechanisms side by side (0: one per core, at most 2). Results do "
              "not depend on it.")] = 0,
+    bias_window: Annotated[str | None, typer.Option(
+        "--bias-window", metavar="LO:HI",
+        help="Analyse only points with LO <= |V| <= HI volts (e.g. 6:9.5).")] = None,
+    temperature_window: Annotated[str | None, typer.Option(
+        "--temperature-window", metavar="LO:HI",
+        help="Analyse only temperatures LO <= T <= HI kelvin (e.g. 77:300).")] = None,
     seed: SeedOpt = 0,
 ) -> None:
     """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""
@@ -323,6 +343,8 @@ def analyze_command(
         settings = AnalysisSettings(
             mechanisms=tuple(only) or None, quick=quick, screen_only=screen_only,
             polarity=polarity, prior_odds=parse_prior_odds(prior_odds) or None, workers=workers,
+            bias_window_V=parse_window("--bias-window", bias_window),
+            temperature_window_K=parse_window("--temperature-window", temperature_window),
         )
         with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
                       TimeElapsedColumn(), console=err, transient=False,

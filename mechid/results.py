@@ -24,6 +24,7 @@ from mechid.inference.flags import SamplerFlag
 if TYPE_CHECKING:
     from mechid.catalogue.validity import ValidityViolation
     from mechid.inference.adequacy import AdequacyCheck
+    from mechid.inference.compare import FamilyProbability
     from mechid.inference.evidence import EvidenceResult
     from mechid.inference.priors import Prior
 
@@ -146,6 +147,20 @@ class NotFittedMechanism:
 
 
 @dataclass(frozen=True)
+class SkippedMechanism:
+    """A mechanism not fitted because the screening found a declared need of it unmet.
+
+    See :mod:`mechid.screening.applicability`; ``reason`` says which need and what the
+    screening found. A mechanism asked for by name is never skipped.
+    """
+
+    id: str
+    family: str
+    name: str
+    reason: str
+
+
+@dataclass(frozen=True)
 class MechanismResult:
     """Everything learned about one mechanism from the joint fit (built once, never changed).
 
@@ -211,6 +226,8 @@ class Verdict:
     and ``sentence`` leave it out when the leader is not adequate, and ``failing_statistics``
     then say which posterior predictive checks failed and what that means. ``quick_run``
     is true for a ``--quick`` run, whose sentence opens with :data:`QUICK_RUN_BANNER`.
+    ``polarity_assumption`` says how the leader treats the two bias polarities (one parameter
+    set for both, or a formula that differs between them) and which polarities were fitted.
     """
 
     id: str
@@ -229,10 +246,39 @@ class Verdict:
     failing_statistics: tuple[str, ...]
     quick_run: bool
     sentence: str
+    polarity_assumption: str = ""
+    #: Summed posterior probability per family (tunnelling, emission, hopping, ...).
+    family_probabilities: tuple[FamilyProbability, ...] = ()
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "bayes_factor_vs_runner_up",
                            _exp_or_zero(self.ln_bayes_factor_vs_runner_up))
+
+
+@dataclass(frozen=True)
+class PolarityComparison:
+    """One mechanism with one parameter set for both polarities against each polarity alone.
+
+    The separate model fits the positive-bias and the negative-bias points as two
+    independent series (every parameter, noise included, free on each side), so its
+    evidence is the product ``Z_positive * Z_negative``; the Bayes factor against the shared
+    (joint) fit is ``ln Z_positive + ln Z_negative - ln Z_shared``. Positive favours parameters
+    that differ between the polarities (e.g. two electrode barriers); ``preferred`` is
+    ``"undecided"`` when it is within twice its Monte Carlo error.
+    """
+
+    mechanism_id: str
+    ln_evidence_shared: float
+    ln_evidence_shared_err: float
+    ln_evidence_positive: float
+    ln_evidence_positive_err: float
+    ln_evidence_negative: float
+    ln_evidence_negative_err: float
+    ln_bayes_factor_separate_vs_shared: float
+    ln_bayes_factor_separate_vs_shared_err: float
+    preferred: str
+    parameters_positive: dict[str, ParameterSummary]
+    parameters_negative: dict[str, ParameterSummary]
 
 
 @dataclass(frozen=True)
@@ -251,6 +297,10 @@ class AnalysisResult:
     cautions: tuple[str, ...]
     #: Mechanisms asked for but not fitted (formula outside its validity on these data).
     not_fitted: tuple[NotFittedMechanism, ...] = ()
+    #: Mechanisms left out before fitting: a declared need unmet by these data (with why).
+    skipped: tuple[SkippedMechanism, ...] = ()
+    #: ``--polarity each``: shared against separate parameters, per mechanism fitted to both.
+    polarity_comparison: tuple[PolarityComparison, ...] = ()
 
     def mechanism(self, mechanism_id: str) -> MechanismResult:
         """The result for one mechanism id."""

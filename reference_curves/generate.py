@@ -112,6 +112,17 @@ SCENARIOS: list[dict] = [
         "noise_relative": 0.02, "noise_floor_A": 1e-15, "seed": 106,
     },
     {
+        "name": "larkfield_bilayer_mott_vrh_2d",
+        "story": "Two-layer film of a disordered layered semiconductor (about 1.5 nm, thinner "
+                 "than the hop length) on SiO2, four-probe sweep from 10 K to 200 K.",
+        "mechanism": "mott_vrh_2d",
+        "params": {"characteristic_temperature_K": 3.0e4, "prefactor_S": 1.0e-3},
+        "device": {"thickness_nm": 1.5, "area_cm2": 1e-6},
+        "temperatures_K": [10, 15, 22, 33, 50, 75, 110, 150, 200],
+        "voltages_V": _bias(0.005, 0.1, 12),
+        "noise_relative": 0.02, "noise_floor_A": 1e-15, "seed": 108,
+    },
+    {
         "name": "larkfield_granular_es_vrh",
         "story": "Granular metal film near its insulating side, measured in a helium cryostat at "
                  "3-60 K; Coulomb-gap hopping expected.",

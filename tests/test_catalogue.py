@@ -37,10 +37,11 @@ EXPECTED = {
     "nearest_neighbour_hopping": ("hopping", ("activation_energy_eV", "hopping_distance_nm",
                                               "prefactor_A_per_cm2", "thickness_nm")),
     "mott_vrh": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
+    "mott_vrh_2d": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
     "es_vrh": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
 }
 
-ALL = [*MECHANISMS, mott_vrh_variant(2)]
+ALL = [*MECHANISMS, mott_vrh_variant(1)]
 IDS = [f"{m.id}{m.options.get('dimension', '')}" for m in ALL]
 
 
@@ -128,7 +129,7 @@ def test_broadcasting_equals_loop_of_scalars(mechanism):
 @pytest.mark.parametrize("mechanism", MECHANISMS, ids=[m.id for m in MECHANISMS])
 def test_area_needed_exactly_for_density_formulas(mechanism):
     params = mechanism.typical_parameters()
-    if mechanism.id in ("mott_vrh", "es_vrh"):
+    if mechanism.id in ("mott_vrh", "mott_vrh_2d", "es_vrh"):
         assert np.isfinite(mechanism.current(1.0, 300.0, params, Device()))
     else:
         with pytest.raises(DeviceError, match="area"):

@@ -244,3 +244,9 @@ def test_conductance_test_on_a_symmetric_junction_finds_no_offset():
 def test_registered():
     assert get_mechanism("dissimilar_electrode_tunnelling") is MECHANISM
     assert not MECHANISM.is_odd
+
+
+def test_needs_both_polarities_but_not_a_large_asymmetry():
+    # The BDR asymmetry is a few per cent at low bias, far below the polarity diagnostic's
+    # factor 1.5, so only both polarities are required.
+    assert MECHANISM.needs == ("both_polarities",)

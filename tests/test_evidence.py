@@ -520,3 +520,25 @@ def test_agrees_with_dynesty_nested_sampling(model):
     delta = result.log_evidence - reference
     assert abs(delta) < 3 * math.hypot(result.log_evidence_err, reference_err)
     assert abs(delta) < 0.5
+
+
+def test_family_probability_is_the_sum_over_its_members():
+    # Hand calculation: Z_DT = Z_FN = 1, Z_hop = 1/2 (equal prior odds) gives
+    # P(tunnelling) = 2/2.5 = 0.8 and P(hopping) = 0.2 -- Bayes' rule over a partition.
+    from mechid.inference.compare import family_probabilities
+
+    logz = {"dt": 0.0, "fn": 0.0, "hop": -np.log(2.0)}
+    err = {"dt": 0.0, "fn": 0.0, "hop": 0.0}
+    fams = {"dt": "tunnelling", "fn": "tunnelling", "hop": "hopping"}
+    first, second = family_probabilities(logz, err, fams)
+    assert (first.family, second.family) == ("tunnelling", "hopping")
+    assert first.probability == pytest.approx(0.8, rel=1e-12)
+    assert second.probability == pytest.approx(0.2, rel=1e-12)
+    assert first.probability_err == pytest.approx(0.0, abs=1e-12)
+    assert set(first.members) == {"dt", "fn"}
+    # Prior odds 3:1:1 for dt: P(tunnelling) = (3 + 1)/(3 + 1 + 0.5) = 8/9
+    (top, _) = family_probabilities(logz, err, fams, prior_odds={"dt": 3.0})
+    assert top.probability == pytest.approx(8 / 9, rel=1e-12)
+    # With Monte Carlo errors the family error is smaller than the members' (anticorrelated)
+    noisy = family_probabilities(logz, {"dt": 0.5, "fn": 0.5, "hop": 0.5}, fams)
+    assert 0 < noisy[0].probability_err < 0.2

@@ -38,9 +38,9 @@ def test_pair_statistics_likelihood_equals_the_point_by_point_gaussian_sum():
     for mechanism in MECHANISMS:
         priors = mechanism_priors(mechanism, device, np.geomspace(1e-12, 1e-6, voltage.size))
         truth = mechanism.typical_parameters()
-        current = mechanism.current(np.abs(voltage), temperature,
+        current = mechanism.current(voltage, temperature,
                                     {k: np.array([[v]]) for k, v in truth.items()}, device)[0]
-        current = np.sign(voltage) * current * (1 + 0.05 * rng.standard_normal(voltage.size))
+        current = current * (1 + 0.05 * rng.standard_normal(voltage.size))
         current = current + 1e-13 * rng.standard_normal(voltage.size)
         target = MechanismTarget(mechanism, voltage, temperature, current, device, priors)
         theta = target.sample_prior(rng, 20)

@@ -179,7 +179,7 @@ def test_vrh_is_ohmic_and_needs_no_area():
 
 def test_mott_variant_dimensions():
     two_d = mott_vrh_variant(2)
-    assert two_d.id == "mott_vrh" and two_d.options == {"dimension": 2}
+    assert two_d.id == "mott_vrh_2d" and two_d.options == {"dimension": 2}
     assert MOTT_VRH.options == {"dimension": 3}
     assert two_d.parameter_names == MOTT_VRH.parameter_names
     params = {"characteristic_temperature_K": 1e6, "prefactor_S": 1.0}

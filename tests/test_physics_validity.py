@@ -26,7 +26,7 @@ from mechid.catalogue.validity import validity_violations, within_validity
 from mechid.device import Device
 
 DEVICE = Device(area_cm2=1e-4)
-ALL = [*MECHANISMS, mott_vrh_variant(2)]
+ALL = [*MECHANISMS, mott_vrh_variant(1)]
 IDS = [f"{m.id}{m.options.get('dimension', '')}" for m in ALL]
 BIASES_V = np.geomspace(1e-3, 50.0, 90)
 TEMPERATURES_K = np.array([1.0, 4.2, 77.0, 300.0, 500.0])

@@ -204,3 +204,10 @@ def test_registered_and_fitted_like_any_mechanism():
     mechanism = get_mechanism("fowler_nordheim_two_barriers")
     priors = mechanism_priors(mechanism, Device(area_cm2=1e-4), np.array([1e-9, 2e-9]))
     assert [p.name for p in priors][:2] == [POS, NEG]
+
+
+def test_declared_data_needs():
+    # A barrier per electrode: pointless without both polarities, and skipped by the screening
+    # when the polarities agree (mechid.screening.applicability).
+    for resolved in (SCHOTTKY_EMISSION_TWO_BARRIERS, FOWLER_NORDHEIM_TWO_BARRIERS):
+        assert set(resolved.needs) == {"both_polarities", "polarities_differ"}

@@ -447,6 +447,7 @@ def test_hopping_law_comes_from_the_declaration() -> None:
     laws = [spec for spec in mott_2d.checks if isinstance(spec, HoppingLaw)]
     assert [law.exponent for law in laws] == [pytest.approx(1 / 3, rel=1e-15)]
     assert hopping_laws(MECHANISMS) == {"nearest_neighbour_hopping": 1.0, "mott_vrh": 0.25,
+                                        "mott_vrh_2d": pytest.approx(1 / 3, rel=1e-15),
                                         "es_vrh": 0.5}
 
 

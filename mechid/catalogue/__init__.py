@@ -7,7 +7,8 @@ Each mechanism is declared once, in the module of its family:
 * :mod:`mechid.catalogue.emission` -- ``schottky_emission``, ``poole_frenkel``
 * :mod:`mechid.catalogue.polarity` -- ``schottky_emission_two_barriers``,
   ``fowler_nordheim_two_barriers`` (a barrier per electrode)
-* :mod:`mechid.catalogue.hopping` -- ``nearest_neighbour_hopping``, ``mott_vrh``, ``es_vrh``
+* :mod:`mechid.catalogue.hopping` -- ``nearest_neighbour_hopping``, ``mott_vrh``,
+  ``mott_vrh_2d``, ``es_vrh``
 """
 
 from __future__ import annotations
@@ -17,7 +18,7 @@ from contextlib import contextmanager
 
 from mechid.catalogue.base import Mechanism, Parameter, StraightenedPlot
 from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
-from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, NEAREST_NEIGHBOUR_HOPPING
+from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, MOTT_VRH_2D, NEAREST_NEIGHBOUR_HOPPING
 from mechid.catalogue.polarity import FOWLER_NORDHEIM_TWO_BARRIERS, SCHOTTKY_EMISSION_TWO_BARRIERS
 from mechid.catalogue.tunnelling import (
     DIRECT_TUNNELLING,
@@ -37,6 +38,7 @@ MECHANISMS: tuple[Mechanism, ...] = (
     POOLE_FRENKEL,
     NEAREST_NEIGHBOUR_HOPPING,
     MOTT_VRH,
+    MOTT_VRH_2D,
     ES_VRH,
 )
 

@@ -27,8 +27,15 @@ from mechid.catalogue.validity import ValidityCondition, within_validity
 from mechid.device import Device
 from mechid.errors import UnknownMechanismError
 
-Family = Literal["tunnelling", "emission", "hopping"]
+Family = Literal["tunnelling", "emission", "hopping", "space_charge", "ohmic"]
 FloatArray = NDArray[np.float64]
+
+#: What a mechanism may need of the data before it is worth fitting (evaluated by the
+#: screening, :mod:`mechid.screening.applicability`): ``"both_polarities"`` -- data at both bias
+#: signs (parameters declared per polarity are otherwise undetermined); ``"polarities_differ"``
+#: -- not judged symmetric by the polarity-asymmetry diagnostic (a hypothesis whose current
+#: differs between the polarities cannot win on data whose polarities agree).
+DataNeed = Literal["both_polarities", "polarities_differ"]
 
 #: Signature of a magnitude formula: f(|V| in V, T in K, device, **params) -> |I| in A.
 MagnitudeFormula = Callable[..., FloatArray]
@@ -191,7 +198,9 @@ class Mechanism:
     evaluates; every mechanism also gets the generic declared-range check.
     ``validity`` lists the conditions under which the formula holds
     (:class:`~mechid.catalogue.validity.ValidityCondition`); :meth:`current` returns NaN
-    wherever one fails, so a fit refuses those draws.
+    wherever one fails, so a fit refuses those draws. ``needs`` lists what the data must show
+    before the analysis fits it (:data:`DataNeed`); a mechanism whose needs the screening finds
+    unmet is left out with the reason recorded, unless it was asked for by name.
     """
 
     id: str
@@ -209,6 +218,7 @@ class Mechanism:
     checks: tuple[CheckSpec, ...] = ()
     validity: tuple[ValidityCondition, ...] = ()
     signed_current: SignedFormula | None = None
+    needs: tuple[DataNeed, ...] = ()
 
     def __post_init__(self) -> None:
         if (self.magnitude is None) == (self.signed_current is None):

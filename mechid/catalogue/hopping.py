@@ -216,13 +216,19 @@ def mott_hopping_distance_nm(
 
 
 def mott_hopping_energy_eV(
-    characteristic_temperature_K: ArrayLike, temperature_K: ArrayLike
+    characteristic_temperature_K: ArrayLike, temperature_K: ArrayLike, exponent: float = 0.25
 ) -> FloatArray:
-    """Mott hop energy ``W = (1/4) kT (T0/T)^(1/4)`` in eV (Mott 1969; from memory: no
-    source for the 1/4 could be checked)."""
+    """Mott hop energy ``W = p kT (T0/T)^p`` in eV, ``p = 1/(d + 1)``.
+
+    At the optimum hop of Mott's argument (Mott 1969) the energy term ``W/kT`` is the share
+    ``p`` of the exponent ``(T0/T)^p`` (the distance term ``2R/xi`` the rest), which gives
+    ``W = (1/4) kT (T0/T)^(1/4)`` in 3D and ``(1/3) kT (T0/T)^(1/3)`` in 2D (from memory; the
+    1/4 could not be checked against the paper, the split follows from minimising
+    ``2R/xi + W/kT`` with ``W`` proportional to ``R^-d``).
+    """
     t = np.asarray(temperature_K, dtype=float)
     ratio = np.asarray(characteristic_temperature_K, dtype=float) / t
-    return 0.25 * BOLTZMANN_EV * t * ratio**0.25
+    return exponent * BOLTZMANN_EV * t * ratio**exponent
 
 
 def efros_shklovskii_characteristic_temperature_K(
@@ -579,9 +585,11 @@ NEAREST_NEIGHBOUR_HOPPING = Mechanism(
 
 
 
-def _mott_hop_energy(t0: float, t: float) -> float:
-    """Mott hop energy in eV as a plain float (for the hop-energy check)."""
-    return float(mott_hopping_energy_eV(t0, t))
+def _mott_hop_energy(exponent: float) -> Callable[[float, float], float]:
+    """Mott hop energy in eV as a plain float, for the hop-energy check of exponent ``p``."""
+    def hop_energy(t0: float, t: float) -> float:
+        return float(mott_hopping_energy_eV(t0, t, exponent))
+    return hop_energy
 
 
 def _es_hop_energy(t0: float, t: float) -> float:
@@ -610,8 +618,9 @@ def mott_vrh_variant(dimension: int) -> Mechanism:
     Returns
     -------
     Mechanism
-        Id ``"mott_vrh"`` with ``options={"dimension": dimension}``; the catalogue's
-        :data:`MOTT_VRH` is the 3D one (Mott, Phil. Mag. 19, 835 (1969)).
+        Id ``"mott_vrh"`` for 3D (the catalogue's :data:`MOTT_VRH`), ``"mott_vrh_2d"`` and
+        ``"mott_vrh_1d"`` otherwise, with ``options={"dimension": dimension}`` (Mott, Phil.
+        Mag. 19, 835 (1969)).
 
     Raises
     ------
@@ -621,8 +630,9 @@ def mott_vrh_variant(dimension: int) -> Mechanism:
     if dimension not in _MOTT_EXPONENTS:
         raise ValueError(f"Mott VRH is defined for dimension 1, 2 or 3, got {dimension!r}")
     exponent, text = _MOTT_EXPONENTS[dimension]
+    plot_id = "mott_vrh_plot" if dimension == 3 else f"mott_vrh_{dimension}d_plot"
     return Mechanism(
-        id="mott_vrh",
+        id="mott_vrh" if dimension == 3 else f"mott_vrh_{dimension}d",
         family="hopping",
         name=f"Mott variable-range hopping ({dimension}D)",
         formula=f"I = G0 V exp(-(T0/T)^({text}));  T0 = beta/(k N(E_F) xi^3) in 3D",
@@ -639,23 +649,26 @@ def mott_vrh_variant(dimension: int) -> Mechanism:
         ),
         magnitude=_vrh_magnitude(exponent),
         plots=(
-            _vrh_plot("mott_vrh_plot", f"Mott plot (ln(I/V) against T^-{text})", exponent, text),
+            _vrh_plot(plot_id, f"Mott plot (ln(I/V) against T^-{text})", exponent, text),
         ),
         temperature_dependence=f"stretched exponential: ln(I/V) linear in T^(-{text})",
         options={"dimension": dimension},
         needs_area=False,
-        estimates=_vrh_estimates("mott_vrh_plot"),
+        estimates=_vrh_estimates(plot_id),
         checks=(
             ThermallyActivated(),
             HoppingLaw(exponent=exponent),
             Ohmic(),
-            HopEnergyExceedsKT("mott_vrh_plot", _mott_hop_energy,
-                               "W = kT (T0/T)^(1/4)/4, Mott 1969"),
+            HopEnergyExceedsKT(plot_id, _mott_hop_energy(exponent),
+                               f"W = kT (T0/T)^({text})/{dimension + 1}, Mott 1969"),
         ),
     )
 
 
 MOTT_VRH = mott_vrh_variant(3)
+
+#: Mott hopping in a layer thinner than the hop length (exponent 1/3).
+MOTT_VRH_2D = mott_vrh_variant(2)
 
 ES_VRH = Mechanism(
     id="es_vrh",

@@ -254,7 +254,8 @@ def electrode_resolved(base: Mechanism, split: Collection[str], *, id: str, name
         Declared by its signed formula. Plots: the base plots (on both polarities folded onto
         |V|). Estimates: a base estimate of a split parameter is given to both sides. Checks:
         see :func:`_carried_checks` (remapped or dropped where they name a split
-        parameter). Validity: every base condition once per side.
+        parameter). Validity: every base condition once per side. Needs: data at both
+        polarities that the screening does not find equal.
 
     Raises
     ------
@@ -309,6 +310,8 @@ def electrode_resolved(base: Mechanism, split: Collection[str], *, id: str, name
         checks=checks,
         validity=tuple(_side_condition(c, side, names[side])
                        for side in SIDES for c in base.validity),
+        # A barrier per electrode shows as an exponential difference between the polarities.
+        needs=tuple(dict.fromkeys((*base.needs, "both_polarities", "polarities_differ"))),
     )
 
 

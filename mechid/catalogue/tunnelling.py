@@ -1213,4 +1213,7 @@ DISSIMILAR_ELECTRODE_TUNNELLING = Mechanism(
     ),
     temperature_dependence="nearly none: rises a few per cent from 0 to 300 K (x/sin x factor)",
     validity=DISSIMILAR_ELECTRODE_VALIDITY,
+    # Not "polarities_differ": in the BDR regime |I(-V)/I(+V)| stays within a few per cent to
+    # tens of per cent of 1 (below the diagnostic's factor 1.5), yet the fit resolves it.
+    needs=("both_polarities",),
 )

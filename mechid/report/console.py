@@ -25,6 +25,7 @@ from mechid.report.text import (
     is_number,
     key_parameters,
     parameter_symbol,
+    polarity_comparison_lines,
     screening_entry,
     undetermined,
     unit_suffix,
@@ -156,6 +157,17 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
                       + (" (the probabilities above are among the mechanisms fitted)"
                          if data.get("mechanisms") else ""))
         for line in not_fitted:
+            console.print(f"  - {escape(line)}")
+    skipped = data.get("skipped") or []
+    if skipped:
+        console.print("[bold]Not fitted: ruled out by the screening[/bold]")
+        for entry in skipped:
+            console.print(f"  - {escape(str(entry.get('id')))}: {escape(str(entry.get('reason')))}")
+    compared = polarity_comparison_lines(data)
+    if compared:
+        console.print("[bold]Each polarity alone against both together[/bold] (ln B > 0: "
+                      "parameters differ between the polarities)")
+        for line in compared:
             console.print(f"  - {escape(line)}")
     verdict = data.get("verdict")
     if verdict is not None:

@@ -43,6 +43,7 @@ from mechid.report.text import (
     mechanism_name,
     methods_paragraph,
     parameter_symbol,
+    polarity_comparison_lines,
     priors_paragraph,
     references,
     results_paragraph,
@@ -412,6 +413,20 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                          row_classes=classes))
         out.append(figures.get("comparison_bayes_factors"))
     out.append(_not_fitted_html(data))
+    skipped = data.get("skipped") or []
+    if skipped:
+        out.append("<p><b>Not fitted: ruled out by the screening:</b> each needs something these "
+                   "data do not show, so its fit could not change the comparison.</p>"
+                   "<ul class='cautions'>" + "".join(
+                       f"<li><b>{esc(e.get('name'))}</b> ({esc(e.get('id'))}): {esc(e.get('reason'))}"
+                       "</li>" for e in skipped) + "</ul>")
+    compared = polarity_comparison_lines(data)
+    if compared:
+        out.append("<p><b>Each polarity alone against both together:</b> the evidence of the "
+                   "two polarities fitted as independent series against one parameter set for "
+                   "both (ln B &gt; 0: the parameters differ between the polarities).</p>"
+                   "<ul class='cautions'>" + "".join(f"<li>{esc(line)}</li>" for line in compared)
+                   + "</ul>")
     out.append(_screening_table(data))
     return "".join(out)
 
@@ -462,6 +477,20 @@ def _screening_table(data: Json) -> str:
                     numeric=(0, 2, 3)))
 
 
+def _window_text(window: Json) -> str:
+    """``"1.5 <= |V| <= 6 V; 77 <= T <= 300 K (12 points outside)"`` or ``"all points"``."""
+    parts = []
+    if window.get("bias_abs_V"):
+        parts.append(f"{fmt(window['bias_abs_V'][0], 'g')} <= |V| <= "
+                     f"{fmt(window['bias_abs_V'][1], 'g')} V")
+    if window.get("temperature_K"):
+        parts.append(f"{fmt(window['temperature_K'][0], 'g')} <= T <= "
+                     f"{fmt(window['temperature_K'][1], 'g')} K")
+    if not parts:
+        return "all points"
+    return "; ".join(parts) + f" ({window.get('n_points_outside')} points outside)"
+
+
 def _data_section(data: Json, run: ReportRun, figures: _Figures) -> str:
     inp = data.get("input") or {}
     out = ['<h2 id="data"><span class="num">3</span>The measurements</h2>',
@@ -477,6 +506,7 @@ def _data_section(data: Json, run: ReportRun, figures: _Figures) -> str:
         ["decades of current", num(inp.get("current_decades"), ".2f", "input.current_decades")],
         ["both polarities", "yes" if inp.get("both_polarities") else "no"],
         ["polarity fitted", esc(inp.get("polarity", "both"))],
+        ["window analysed", esc(_window_text(inp.get("window") or {}))],
         ["points excluded", num(inp.get("n_excluded"), "d", "input.n_excluded")],
     ]
     device_rows = _device_rows(data.get("device") or {})

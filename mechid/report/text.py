@@ -264,14 +264,50 @@ def _data_sentence(data: Json) -> str:
                          + "; ".join(f"{n}: {r}" for r, n in reasons.items()) + ")")
     polarity = inp.get("polarity", "both")
     polarity_text = {"both": "both bias polarities fitted jointly",
+                     "each": "both bias polarities fitted jointly, and each polarity fitted "
+                             "alone for the comparison of shared and separate parameters",
                      "positive": "positive bias only", "negative": "negative bias only"}.get(
                          polarity, str(polarity))
+    window = inp.get("window") or {}
+    limits = []
+    if window.get("bias_abs_V"):
+        lo, hi = window["bias_abs_V"]
+        limits.append(f"{fmt(lo, 'g')} V <= |V| <= {fmt(hi, 'g')} V")
+    if window.get("temperature_K"):
+        lo, hi = window["temperature_K"]
+        limits.append(f"{fmt(lo, 'g')} K <= T <= {fmt(hi, 'g')} K")
+    if limits:
+        excluded_text += (f"; the analysis was restricted to {' and '.join(limits)}, which left "
+                          f"out {window.get('n_points_outside')} point(s)")
     return (f"The series holds {inp.get('n_points')} points at {inp.get('n_temperatures')} "
             f"temperature(s) from {fmt(t_range[0], 'g')} to {fmt(t_range[1], 'g')} K and biases "
             f"from {fmt(v_range[0], 'g')} to {fmt(v_range[1], 'g')} V, spanning "
             f"{fmt(inp.get('current_decades'), '.1f')} decades of current{excluded_text}; "
             f"{inp.get('n_points_fitted', inp.get('n_points'))} points entered the joint fit "
             f"({polarity_text}).")
+
+
+def polarity_comparison_lines(data: Json) -> list[str]:
+    """One sentence per mechanism of a ``--polarity each`` run: shared or separate parameters."""
+    lines = []
+    for entry in data.get("polarity_comparison") or []:
+        mechanism = entry.get("mechanism_id")
+        ln_b, err = entry.get("ln_bayes_factor_separate_vs_shared"), entry.get(
+            "ln_bayes_factor_separate_vs_shared_err")
+        choice = {"separate": "the polarities need parameters of their own",
+                  "shared": "one parameter set serves both polarities",
+                  "undecided": "the data do not decide"}.get(entry.get("preferred"), "n/a")
+        sides = []
+        for side in ("positive", "negative"):
+            params = entry.get(f"parameters_{side}") or {}
+            shown = [parameter_text(name, summary) for name, summary in params.items()
+                     if not name.startswith("noise_") and not summary.get("fixed")]
+            if shown:
+                sides.append(f"{side} bias: " + "; ".join(shown))
+        lines.append(f"{mechanism_name(str(mechanism), data)}: ln B(separate vs shared) = "
+                     f"{fmt_ln(ln_b)} ± {fmt_ln(err)}: {choice}"
+                     + (" (" + " | ".join(sides) + ")" if sides else ""))
+    return lines
 
 
 def _ladder_sentence(settings: Json) -> str:

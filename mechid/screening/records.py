@@ -14,6 +14,7 @@ from typing import Any
 import numpy as np
 
 from mechid.catalogue.base import ParameterHints
+from mechid.screening.asymmetry import PolarityAsymmetry
 
 
 def _json_float(value: float | None) -> float | None:
@@ -315,6 +316,9 @@ class LinearisationResult:
         Mechanism ids, best screening score first.
     conductance_asymmetry : tuple of ConductanceAsymmetry
         The BDR conductance test, one per temperature.
+    polarity_asymmetry : PolarityAsymmetry or None
+        Do the two bias polarities carry the same current
+        (:func:`mechid.screening.asymmetry.polarity_asymmetry`).
     """
 
     mechanisms: tuple[MechanismLinearisation, ...]
@@ -323,6 +327,7 @@ class LinearisationResult:
     activation_energies: tuple[ActivationEnergy, ...]
     ranking: tuple[str, ...]
     conductance_asymmetry: tuple[ConductanceAsymmetry, ...] = ()
+    polarity_asymmetry: PolarityAsymmetry | None = None
 
     @property
     def best(self) -> str | None:
@@ -350,6 +355,8 @@ class LinearisationResult:
             "conductance_asymmetry": [c.to_dict() for c in self.conductance_asymmetry],
             "ranking": list(self.ranking),
             "best": self.best,
+            "polarity_asymmetry": (None if self.polarity_asymmetry is None
+                                   else self.polarity_asymmetry.to_dict()),
         }
 
 

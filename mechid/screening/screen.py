@@ -20,6 +20,7 @@ from mechid.screening.analyses import (
     transition_voltages,
     zabrodskii_analysis,
 )
+from mechid.screening.asymmetry import polarity_asymmetry
 from mechid.screening.biases import PreparedSeries, prepare_series
 from mechid.screening.checks import CheckContext, declared_range_checks, evaluate_check
 from mechid.screening.conductance import conductance_asymmetry
@@ -116,6 +117,7 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
             "log_log_slopes": log_log_slopes(data),
         }
         results = tuple(_analyse_mechanism(m, data, device, shared) for m in mechanisms)
+        asymmetry = polarity_asymmetry(data)
     order = sorted(range(len(results)), key=lambda k: (-results[k].score, k))
     return LinearisationResult(
         mechanisms=results,
@@ -124,4 +126,5 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
         activation_energies=tuple(shared["activation"]),
         ranking=tuple(results[k].mechanism_id for k in order),
         conductance_asymmetry=tuple(conductance_asymmetry(data, device)),
+        polarity_asymmetry=asymmetry,
     )
