@@ -42,6 +42,7 @@ from mechid.inference.compare import (
 from mechid.inference.fit import MechanismFit
 from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.priors import Prior
+from mechid.inference.regimes import RegimeMap, regime_map
 from mechid.inference.rounds import FitJob, default_workers, fit_candidates_in_rounds
 from mechid.inference.settings import (
     FULL_LADDER,
@@ -252,6 +253,8 @@ def run_analysis_full(
         not_fitted = tuple(outcome.not_fitted[m.id] for m in mechanisms
                            if m.id in outcome.not_fitted)
     results = _ranked_results(fits, settings)
+    regimes = (_regime_map(results, fits, series.voltage_V[mask], series.temperature_K[mask],
+                           device, seed) if results else None)
     by_id = {m.id: m for m in mechanisms}
     leader = by_id[results[0].id] if results else None
     fitted_sides = "each" if comparison else _fitted_polarities(series.voltage_V[mask])
@@ -275,9 +278,29 @@ def run_analysis_full(
         not_fitted=not_fitted,
         skipped=skipped,
         polarity_comparison=comparison,
+        regime_map=regimes,
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
+
+
+def _regime_map(results: list[MechanismResult], fits: Mapping[str, MechanismFit],
+                voltage_V: np.ndarray, temperature_K: np.ndarray, device: Device,
+                seed: int | None) -> RegimeMap:
+    """The regime map from the most probable composite and the most probable single law."""
+    def is_composite(result: MechanismResult) -> bool:
+        return bool(get_mechanism(result.id).options.get("paths"))
+
+    composite = next((r for r in results if is_composite(r)), None)
+    single = next((r for r in results if not is_composite(r)), None)
+    residuals = None
+    if single is not None:
+        fit = fits[single.id]
+        median = np.median(fit.draws_internal, axis=0)
+        residuals = (single.id, fit.target.standardised_residuals(median))
+    return regime_map(
+        None if composite is None else (composite.id, composite.probability, composite.draws),
+        residuals, voltage_V, temperature_K, device, seed)
 
 
 def _skipped_mechanisms(mechanisms: list[Mechanism], lin: LinearisationResult,

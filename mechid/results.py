@@ -27,6 +27,7 @@ if TYPE_CHECKING:
     from mechid.inference.compare import FamilyProbability
     from mechid.inference.evidence import EvidenceResult
     from mechid.inference.priors import Prior
+    from mechid.inference.regimes import RegimeMap
 
 SCHEMA = "mechid.result/1"
 
@@ -301,6 +302,9 @@ class AnalysisResult:
     skipped: tuple[SkippedMechanism, ...] = ()
     #: ``--polarity each``: shared against separate parameters, per mechanism fitted to both.
     polarity_comparison: tuple[PolarityComparison, ...] = ()
+    #: Which path carries the current where (leading composite), and where the leading
+    #: single law's residuals fail (:mod:`mechid.inference.regimes`).
+    regime_map: RegimeMap | None = None
 
     def mechanism(self, mechanism_id: str) -> MechanismResult:
         """The result for one mechanism id."""

@@ -37,6 +37,10 @@ FloatArray = NDArray[np.float64]
 #: differs between the polarities cannot win on data whose polarities agree).
 DataNeed = Literal["both_polarities", "polarities_differ"]
 
+#: Signature of a condition on a whole fitted window: f(V, T, device, **params) -> bool of
+#: shape (m,), whether each parameter set is admissible on these points (see Mechanism).
+WindowCondition = Callable[..., NDArray[np.bool_]]
+
 #: Signature of a magnitude formula: f(|V| in V, T in K, device, **params) -> |I| in A.
 MagnitudeFormula = Callable[..., FloatArray]
 
@@ -201,6 +205,10 @@ class Mechanism:
     wherever one fails, so a fit refuses those draws. ``needs`` lists what the data must show
     before the analysis fits it (:data:`DataNeed`); a mechanism whose needs the screening finds
     unmet is left out with the reason recorded, unless it was asked for by name.
+    ``window_condition`` restricts the prior by the fitted points as a whole (e.g. a composite
+    whose paths must each carry the larger share somewhere in the measured window); the
+    likelihood refuses the parameter sets it rejects, as it refuses those outside the validity
+    domain. It receives the distinct fitted (|V|, T) pairs (signed V for a signed formula).
     """
 
     id: str
@@ -219,6 +227,7 @@ class Mechanism:
     validity: tuple[ValidityCondition, ...] = ()
     signed_current: SignedFormula | None = None
     needs: tuple[DataNeed, ...] = ()
+    window_condition: WindowCondition | None = None
 
     def __post_init__(self) -> None:
         if (self.magnitude is None) == (self.signed_current is None):

@@ -708,7 +708,8 @@ def estimate_evidence(
             f"log-evidence not converged after {run.n_steps} production steps: batch-means "
             f"error {sigma:.3g} (target {settings.target_sigma:g}), longest log L "
             f"autocorrelation time {np.max(tau_logl):.1f} steps (need "
-            f"{settings.tau_multiple:g} x tau <= steps); raise max_production or n_walkers",
+            f"{settings.tau_multiple:g} x tau <= steps); its larger Monte Carlo error is "
+            "carried into the ranking (after --quick, run without it for a longer ladder)",
             ConvergenceWarning,
             stacklevel=2,
         )

@@ -188,6 +188,11 @@ class MechanismTarget:
             squares = (self._pair_square_sum - 2.0 * magnitude * self._pair_signed_sum
                        + self._pair_count * magnitude**2)
             loglike = summed_log_density(squares, variance, self._pair_count)
+            if self.mechanism.window_condition is not None and self.enforce_validity:
+                physical = {name: values[name] for name in self.mechanism.parameter_names}
+                admissible = self.mechanism.window_condition(
+                    self._unique_abs_voltage, self._unique_temperature, self.device, **physical)
+                loglike = np.where(admissible, loglike, -np.inf)
         return np.where(np.isfinite(loglike), loglike, -np.inf)
 
     def log_posterior(self, theta: NDArray) -> NDArray:

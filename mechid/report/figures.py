@@ -20,7 +20,9 @@ Figures
 * :func:`ranking_figure` -- ln B of every fitted mechanism against the leader, on the Kass &
   Raftery (1995) scale;
 * :func:`zabrodskii_figure` -- the reduced activation energy w(T) and its power-law slope
-  (Zabrodskii & Zinov'eva 1984).
+  (Zabrodskii & Zinov'eva 1984);
+* :func:`diode_figures` -- a rectifying contact's phi_ap(T) and n(T), Richardson and
+  Werner-Güttler plots, Cheung and Norde plots (when the screening's diode analysis ran).
 """
 
 from __future__ import annotations
@@ -28,6 +30,7 @@ from __future__ import annotations
 import io
 import logging
 import math
+import textwrap
 import warnings
 from collections.abc import Iterator, Mapping, Sequence
 from contextlib import contextmanager
@@ -43,6 +46,7 @@ from numpy.typing import NDArray
 
 from mechid.catalogue import get_mechanism
 from mechid.catalogue.base import Mechanism, StraightenedPlot
+from mechid.constants import BOLTZMANN_EV
 from mechid.data import IVSeries
 from mechid.device import Device
 from mechid.formatting import format_probability
@@ -665,6 +669,65 @@ def ranking_figure(mechanisms: Sequence[Mapping[str, Any]]) -> ReportFigure | No
                         fig, "comparison")
 
 
+def regime_figure(regimes: Mapping[str, Any] | None) -> ReportFigure | None:
+    """The regime map on the measured (|V|, T) plane (:mod:`mechid.inference.regimes`).
+
+    Left panel (when a composite was fitted): the path carrying the larger share of the
+    current, shaded by the posterior probability of that statement. Right panel: the share of
+    the leading single mechanism's points whose standardised residual exceeds 3. None when
+    there is nothing to draw.
+    """
+    if not regimes or not regimes.get("temperatures_K"):
+        return None
+    temperatures = np.array(regimes["temperatures_K"], dtype=float)
+    biases = np.array(regimes["bias_abs_V"], dtype=float)
+    composite = regimes.get("composite")
+    failure = np.array([[np.nan if x is None else x for x in row]
+                        for row in regimes.get("residual_failure") or []], dtype=float)
+    single = regimes.get("single_mechanism")
+    panels = (["paths"] if composite else []) + (["residuals"] if single else [])
+    if not panels:
+        return None
+    rows = np.arange(temperatures.size)
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN, 0.22 * temperatures.size + 1.9))
+        _margins(fig, 0.7, 0.75, 0.5, 0.42, wspace=0.15)
+        axes = np.atleast_1d(fig.subplots(1, len(panels), sharey=True))
+        for ax, panel in zip(axes, panels, strict=True):
+            if panel == "paths":
+                index = np.array(regimes["dominant_path"], dtype=float)
+                probability = np.array(regimes["dominant_probability"], dtype=float)
+                colours = np.array([[0.14, 0.34, 0.65], [0.80, 0.45, 0.10]])
+                rgb = colours[index.astype(int) % 2]
+                alpha = np.clip((probability - 0.5) * 2, 0.15, 1.0)[..., None]
+                ax.imshow(rgb * alpha + (1 - alpha), aspect="auto", origin="lower",
+                          interpolation="nearest")
+                paths = regimes.get("paths") or []
+                ax.set_title(f"{composite}:\n{paths[0]} (blue) or {paths[1]} (orange)",
+                             fontsize=7, loc="left")
+            else:
+                image = ax.imshow(failure, aspect="auto", origin="lower", cmap="Reds",
+                                  vmin=0.0, vmax=1.0, interpolation="nearest")
+                fig.colorbar(image, ax=ax, fraction=0.05, pad=0.02, label="share |z| > 3")
+                ax.set_title(f"{single}:\nresidual failures", fontsize=7, loc="left")
+            ticks = np.linspace(0, biases.size - 1, min(5, biases.size)).round().astype(int)
+            ax.set_xticks(ticks, [f"{biases[k]:.3g}" for k in ticks])
+            ax.set_xlabel("|V| [V]")
+            ax.grid(False)
+        axes[0].set_yticks(rows, [f"{t:g}" for t in temperatures])
+        axes[0].set_ylabel("T [K]")
+    caption = ("Regime map over the measured temperatures and biases. "
+               + ("Left: which path of the leading composite hypothesis carries the larger share "
+                  "of the current; pale cells are those where the posterior draws disagree "
+                  "(colour strength: probability of the path shown, from 0.5 to 1). "
+                  if composite else "")
+               + (f"{'Right' if composite else 'The panel'}: share of the data points of each "
+                  f"cell where {single}, the leading single mechanism, misses by more than three "
+                  "standard deviations (common-practice threshold); white: no data." if single
+                  else ""))
+    return ReportFigure("comparison_regime_map", "Regime map", caption, fig, "comparison")
+
+
 def _finite_or(value: Any, default: float) -> float:
     return float(value) if isinstance(value, int | float) and math.isfinite(value) else default
 
@@ -704,9 +767,13 @@ def build_figures(run: ReportRun, result_dict: Mapping[str, Any] | None = None
     zabrodskii = zabrodskii_figure(data.get("linearisation") or {})
     if zabrodskii is not None:
         figures.append(zabrodskii)
+    figures.extend(diode_figures(data, run.series, run.device))
     ranking = ranking_figure(data.get("mechanisms") or [])
     if ranking is not None:
         figures.append(ranking)
+    regimes = regime_figure(data.get("regime_map"))
+    if regimes is not None:
+        figures.append(regimes)
     for mechanism_id in mechanism_order(data):
         figures.extend(mechanism_figures(run, data, mechanism_id))
     return figures
@@ -746,3 +813,234 @@ def linearisation_entry(data: Mapping[str, Any], mechanism_id: str) -> Mapping[s
         if entry.get("mechanism_id") == mechanism_id:
             return entry
     return None
+
+
+# --------------------------------------------------------------------------------------------
+# Rectifying contact (mechid.screening.diode)
+# --------------------------------------------------------------------------------------------
+
+
+def _diode_rows(diode: Mapping[str, Any], key: str) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """Temperatures, a semilog quantity and its standard error where determined."""
+    rows = []
+    for entry in diode.get("temperatures") or []:
+        semilog = entry.get("semilog") or {}
+        q = semilog.get("quantities") or {}
+        if semilog.get("determined") and q.get(key) is not None:
+            rows.append((entry["temperature_K"], q[key], q.get(f"{key}_err") or 0.0))
+    table = np.array(rows, dtype=float).reshape(-1, 3)
+    return table[:, 0], table[:, 1], table[:, 2]
+
+
+def _fitted_line(ax: Any, line: Mapping[str, Any] | None, scale: float = 1.0,
+                 label: str | None = None) -> None:
+    """Draw a diode-analysis line y = a + b x over its x range; x drawn as scale * x."""
+    if not line or not line.get("determined"):
+        return
+    x = np.linspace(line["x_min"], line["x_max"], 2)
+    ax.plot(x * scale, line["intercept"] + line["slope"] * x, "-", color=LEADER_COLOUR, lw=1.0,
+            label=label)
+
+
+def _not_determined(ax: Any, line: Mapping[str, Any] | None, width: int = 30) -> None:
+    """An empty panel (no ticks) saying why its line was not drawn."""
+    detail = (line or {}).get("detail") or "not determined"
+    ax.text(0.5, 0.5, "\n".join(textwrap.wrap(detail, width)), transform=ax.transAxes,
+            ha="center", va="center", fontsize=6.5, color=MUTED)
+    ax.set_xticks([])
+    ax.set_yticks([])
+
+
+def _label(ax: Any, title: str, x_label: str, y_label: str) -> None:
+    """Panel title (left) and axis labels."""
+    ax.set_title(title, loc="left")
+    ax.set_xlabel(x_label)
+    ax.set_ylabel(y_label)
+
+
+def diode_temperature_figure(diode: Mapping[str, Any]) -> ReportFigure | None:
+    """Apparent barrier phi_ap(T) and ideality factor n(T) from the semilog lines, with errors.
+
+    Returns None when the rectifying-contact analysis did not run or no semilog line exists.
+    """
+    if not diode.get("ran"):
+        return None
+    t_n, n, n_err = _diode_rows(diode, "ideality_factor")
+    if t_n.size == 0:
+        return None
+    t_b, barrier, barrier_err = _diode_rows(diode, "apparent_barrier_eV")
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN, 2.7))
+        _margins(fig, 0.62, 0.12, 0.45, 0.28, wspace=0.32)
+        ax_b, ax_n = fig.subplots(1, 2)
+        if t_b.size:
+            ax_b.errorbar(t_b, barrier, yerr=barrier_err, fmt="o", color=INK, capsize=2,
+                          elinewidth=0.8)
+        else:
+            _not_determined(ax_b, {"detail": "apparent barrier not determined: "
+                                   "area and Richardson constant needed"})
+        ax_n.errorbar(t_n, n, yerr=n_err, fmt="o", color=INK, capsize=2, elinewidth=0.8)
+        ax_n.axhline(1.0, color=MUTED, lw=0.7, ls="--")
+        _label(ax_b, "(a) apparent barrier (kT/e) ln(A A** T²/I_s)", "T [K]", "φ_ap [eV]")
+        _label(ax_n, "(b) ideality factor from the ln I–V slope", "T [K]", "ideality factor n")
+    caption = ("From the straight part of ln I vs V at each temperature (forward bias, "
+               "V > 3kT/e, below the series-resistance bend): (a) the apparent barrier "
+               "φ_ap = (kT/e) ln(A A** T²/I_s), (b) the ideality factor n = e/(kT × slope); "
+               "error bars: one standard error of the line fit (A** taken as exact). The "
+               "dashed line is n = 1 (pure thermionic emission). A barrier that rises and an n "
+               "that falls with T point to a spread of barrier heights (Werner & Güttler 1991).")
+    return ReportFigure("data_diode_temperature", "Rectifying contact: barrier and ideality "
+                        "against temperature", caption, fig, "data")
+
+
+def diode_richardson_figure(diode: Mapping[str, Any]) -> ReportFigure | None:
+    """Richardson, modified Richardson and the two Werner & Güttler plots with their lines.
+
+    Returns None when the analysis did not run or fewer than two temperatures have a line.
+    """
+    if not diode.get("ran"):
+        return None
+    t, current, _ = _diode_rows(diode, "saturation_current_A")
+    if t.size < 2:
+        return None
+    spread = (diode.get("barrier_vs_inverse_2kt") or {}).get("quantities") or {}
+    sigma = spread.get("barrier_spread_V")
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN, 5.2))
+        _margins(fig, 0.7, 0.12, 0.45, 0.28, wspace=0.32, hspace=0.55)
+        (ax_r, ax_m), (ax_b, ax_n) = fig.subplots(2, 2)
+        ax_r.plot(1000.0 / t, np.log(current / t**2), "o", color=INK)
+        _fitted_line(ax_r, diode.get("richardson"), 1000.0)
+        ax_r.set_title("(a) Richardson plot", loc="left")
+        ax_r.set_ylabel("ln(I_s/T²)  [I_s in A]")
+        modified = diode.get("modified_richardson") or {}
+        if sigma is not None and modified.get("determined"):
+            vt = BOLTZMANN_EV * t
+            ax_m.plot(1000.0 / t, np.log(current / t**2) - 0.5 * (sigma / vt) ** 2, "o",
+                      color=INK)
+            _fitted_line(ax_m, modified, 1000.0)
+        else:
+            _not_determined(ax_m, modified)
+        ax_m.set_title("(b) modified Richardson plot", loc="left")
+        ax_m.set_ylabel("ln(I_s/T²) − e²σ²/(2k²T²)")
+        for ax in (ax_r, ax_m):
+            ax.set_xlabel("1000/T [1/K]")
+        t_b, barrier, barrier_err = _diode_rows(diode, "apparent_barrier_eV")
+        if t_b.size:
+            ax_b.errorbar(1.0 / (2 * BOLTZMANN_EV * t_b), barrier, yerr=barrier_err, fmt="o",
+                          color=INK, capsize=2, elinewidth=0.8)
+            _fitted_line(ax_b, diode.get("barrier_vs_inverse_2kt"))
+        else:
+            _not_determined(ax_b, diode.get("barrier_vs_inverse_2kt"))
+        ax_b.set_title("(c) apparent barrier against 1/(2kT)", loc="left")
+        ax_b.set_ylabel("φ_ap [eV]")
+        t_n, n, n_err = _diode_rows(diode, "ideality_factor")
+        ax_n.errorbar(1.0 / (2 * BOLTZMANN_EV * t_n), 1.0 / n - 1.0, yerr=n_err / n**2, fmt="o",
+                      color=INK, capsize=2, elinewidth=0.8)
+        _fitted_line(ax_n, diode.get("ideality_vs_inverse_2kt"))
+        ax_n.set_title("(d) ideality factor against 1/(2kT)", loc="left")
+        ax_n.set_ylabel("1/n − 1")
+        for ax in (ax_b, ax_n):
+            ax.set_xlabel("1/(2kT) [1/eV]")
+    caption = ("Saturation currents I_s and ideality factors from the semilog lines; blue "
+               "lines: least-squares fits (at least 3 temperatures). (a) Richardson plot: slope "
+               "−eφ_B/k, intercept ln(A A**). (b) Modified Richardson plot (Werner & Güttler "
+               "1991) with the barrier spread σ of panel (c): slope −eφ̄_B/k, intercept "
+               "ln(A A**). (c) φ_ap = φ̄_B − eσ²/(2kT): slope −σ², intercept the mean barrier "
+               "φ̄_B. (d) 1/n − 1 = −ρ₂ + eρ₃/(2kT): slope ρ₃, intercept −ρ₂. Straight (a) "
+               "with a sensible A** means a homogeneous barrier; a curved (a) with straight "
+               "(b)-(d) means a Gaussian spread of barriers. A spread σ below about 0.03 V is "
+               "within the bias of the semilog lines (measured on simulated homogeneous "
+               "diodes) and is not resolved.")
+    return ReportFigure("data_diode_richardson", "Rectifying contact: Richardson and "
+                        "Werner–Güttler plots", caption, fig, "data")
+
+
+def diode_series_resistance_figure(diode: Mapping[str, Any], series: IVSeries,
+                                   device: Device) -> ReportFigure | None:
+    """Cheung & Cheung's dV/d(ln I) and H(I), and Norde's F(V), at every temperature.
+
+    The points are recomputed from the series with the screening's own functions; the lines
+    and minima are those of the JSON. Returns None when the analysis did not run.
+    """
+    from mechid.screening.biases import prepare_series
+    from mechid.screening.diode import (
+        THERMAL_VOLTAGES_ABOVE,
+        area_richardson_A_K2,
+        cheung_derivative_points,
+        cheung_h_function,
+        forward_branches,
+        norde_function_V,
+        rising_points,
+    )
+
+    if not diode.get("ran") or diode.get("forward_polarity") is None:
+        return None
+    records = {float(e["temperature_K"]): e for e in diode.get("temperatures") or []}
+    branches = forward_branches(prepare_series(series, 0), diode["forward_polarity"])
+    product = area_richardson_A_K2(device)
+    colours = temperature_colours([b.temperature_K for b in branches])
+    with _style():
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN, 3.45))
+        _margins(fig, 0.62, 0.12, 0.95, 0.28, wspace=0.42)
+        ax_d, ax_h, ax_f = fig.subplots(1, 3)
+        for branch in branches:
+            entry = records.get(branch.temperature_K) or {}
+            colour = colours[branch.temperature_K]
+            derivative = entry.get("cheung_derivative") or {}
+            if derivative.get("determined"):
+                v, i = rising_points(branch, (entry.get("semilog") or {}).get("x_min"))
+                centre, slope = cheung_derivative_points(v, i)
+                ax_d.plot(centre * 1e3, slope, "o", color=colour, ms=2.2,
+                          label=_temperature_label(branch.temperature_K))
+                _scaled_line(ax_d, derivative, colour)
+                ideality = derivative["quantities"].get("ideality_factor")
+                h_line = entry.get("cheung_h") or {}
+                if h_line.get("determined") and not isinstance(product, str):
+                    ax_h.plot(i * 1e3, cheung_h_function(v, i, branch.temperature_K, ideality,
+                                                         product), "o", color=colour, ms=2.2)
+                    _scaled_line(ax_h, h_line, colour)
+            norde = entry.get("norde") or {}
+            if norde.get("determined") and not isinstance(product, str):
+                v, i = rising_points(branch, THERMAL_VOLTAGES_ABOVE * BOLTZMANN_EV
+                                     * branch.temperature_K)
+                ax_f.plot(v, norde_function_V(v, i, branch.temperature_K, norde["gamma"],
+                                              product), "-", color=colour, lw=0.9)
+                ax_f.plot(norde["voltage_V"], norde["function_V"], "v", color=colour, ms=4.5)
+        for ax in (ax_h, ax_f):
+            if not ax.lines:
+                _not_determined(ax, {"detail": "not determined: "
+                                     + (product if isinstance(product, str)
+                                        else "no line at any temperature")})
+        _label(ax_d, "(a) Cheung: dV/d(ln I)", "I [mA]", "dV/d(ln I) [V]")
+        _label(ax_h, "(b) Cheung: H(I)", "I [mA]", "H(I) [V]")
+        _label(ax_f, "(c) Norde: F(V)", "V [V]", "F(V) [V]")
+        if ax_d.lines:
+            handles, labels = ax_d.get_legend_handles_labels()
+            fig.legend(handles, labels, loc="lower center",
+                       ncol=len(labels) if len(labels) <= 10 else math.ceil(len(labels) / 2),
+                       handlelength=1.0, columnspacing=0.8, title="temperature")
+    caption = ("Series resistance from the forward branch, one colour per temperature. (a) "
+               "Cheung & Cheung (1986): dV/d(ln I) = I R_s + n kT/e, lines give R_s (slope) and "
+               "n (intercept). (b) H(I) = V − (n kT/e) ln(I/(A A** T²)) = I R_s + n φ_B with n "
+               "from (a): slope R_s, intercept n φ_B. (c) Norde (1979) function F(V) = V/γ − "
+               "(kT/e) ln(I/(A A** T²)), γ the smallest integer above n (Bohlin 1986); triangles "
+               "mark the minima, which give φ_B = F0 + ((γ − n)/n)(V0/γ − kT/e) and "
+               "R_s = (γ − n) kT/(e I0).")
+    return ReportFigure("data_diode_series_resistance", "Rectifying contact: Cheung and Norde "
+                        "plots", caption, fig, "data")
+
+
+def _scaled_line(ax: Any, line: Mapping[str, Any], colour: Any) -> None:
+    """A line fitted against I in A, drawn against I in mA."""
+    x = np.array([line["x_min"], line["x_max"]], dtype=float)
+    ax.plot(x * 1e3, line["intercept"] + line["slope"] * x, "-", color=colour, lw=0.9)
+
+
+def diode_figures(data: Mapping[str, Any], series: IVSeries, device: Device
+                  ) -> list[ReportFigure]:
+    """Every figure of the rectifying-contact analysis that applies (empty when it did not run)."""
+    diode = (data.get("linearisation") or {}).get("diode") or {}
+    made = (diode_temperature_figure(diode), diode_richardson_figure(diode),
+            diode_series_resistance_figure(diode, series, device))
+    return [f for f in made if f is not None]

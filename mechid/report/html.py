@@ -412,6 +412,7 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                           "parameters", "case against"], rows, numeric=(1, 2, 3),
                          row_classes=classes))
         out.append(figures.get("comparison_bayes_factors"))
+        out.append(figures.get("comparison_regime_map"))
     out.append(_not_fitted_html(data))
     skipped = data.get("skipped") or []
     if skipped:
@@ -520,6 +521,7 @@ def _data_section(data: Json, run: ReportRun, figures: _Figures) -> str:
     if zab:
         out.append("<h3>Temperature dependence</h3>" + zab)
     out.append(_activation_table(data))
+    out.append(_diode_section(data, figures))
     return "".join(out)
 
 
@@ -821,3 +823,89 @@ def render_html(data: Json, run: ReportRun, figures: Sequence[ReportFigure],
             "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">"
             f"<title>{esc(title)}</title><style>{STYLESHEET}</style></head><body>"
             + "".join(body) + "</body></html>\n")
+
+
+# --------------------------------------------------------------------------------------------
+# Rectifying contact (mechid.screening.diode)
+# --------------------------------------------------------------------------------------------
+
+#: The per-temperature columns of the rectifying-contact table: (header, record, quantity).
+DIODE_COLUMNS: tuple[tuple[str, str, str], ...] = (
+    ("n", "semilog", "ideality_factor"),
+    ("φ_ap [eV]", "semilog", "apparent_barrier_eV"),
+    ("decades", "semilog", "current_decades"),
+    ("R_s Cheung dV/d(ln I) [Ω]", "cheung_derivative", "series_resistance_ohm"),
+    ("R_s Cheung H(I) [Ω]", "cheung_h", "series_resistance_ohm"),
+    ("φ_B Cheung H(I) [eV]", "cheung_h", "barrier_height_eV"),
+)
+
+#: The lines across temperature: (JSON key, title, quantity keys shown).
+DIODE_LINES: tuple[tuple[str, str, tuple[str, ...]], ...] = (
+    ("richardson", "Richardson plot ln(I_s/T²) vs 1/T",
+     ("barrier_height_eV", "richardson_constant_A_cm2_K2", "area_times_richardson_A_K2")),
+    ("barrier_vs_inverse_2kt", "φ_ap vs 1/(2kT) (Werner & Güttler 1991)",
+     ("mean_barrier_eV", "barrier_spread_V")),
+    ("ideality_vs_inverse_2kt", "1/n − 1 vs 1/(2kT) (Werner & Güttler 1991)",
+     ("rho2", "rho3_V")),
+    ("modified_richardson", "modified Richardson plot (Werner & Güttler 1991)",
+     ("mean_barrier_eV", "richardson_constant_A_cm2_K2", "area_times_richardson_A_K2")),
+)
+
+
+def _value_with_error(quantities: Json, key: str, path: str) -> str:
+    """``value ± err`` of a quantity and its ``<key>_err`` (each tagged with its JSON path)."""
+    if not is_number(quantities.get(key)):
+        return "–"
+    text = num(quantities.get(key), ".4g", f"{path}.{key}")
+    if is_number(quantities.get(f"{key}_err")):
+        text += " ± " + num(quantities.get(f"{key}_err"), ".2g", f"{path}.{key}_err")
+    return text
+
+
+def _diode_section(data: Json, figures: _Figures) -> str:
+    """The rectifying-contact analysis: shown only when the screening ran it."""
+    diode = (data.get("linearisation") or {}).get("diode") or {}
+    if not diode.get("ran"):
+        return ""
+    base = "linearisation.diode"
+    out = ["<h3>Rectifying contact: the classical diode analysis</h3>",
+           f"<p>The forward branch ({esc(diode.get('forward_polarity'))} bias) analysed as a "
+           "Schottky contact with the straightened plots practitioners draw by hand, before "
+           f"any fit. Why it ran: {esc(str(diode.get('reason')).removeprefix('ran: '))}.</p>",
+           figures.get("data_diode_temperature"), figures.get("data_diode_richardson"),
+           figures.get("data_diode_series_resistance")]
+    rows, notes = [], []
+    for k, entry in enumerate(diode.get("temperatures") or []):
+        path = f"{base}.temperatures.{k}"
+        row = [num(entry.get("temperature_K"), "g")]
+        for _, record, key in DIODE_COLUMNS:
+            row.append(_value_with_error((entry.get(record) or {}).get("quantities") or {}, key,
+                                         f"{path}.{record}.quantities"))
+        norde = entry.get("norde") or {}
+        row.append(num(norde.get("barrier_height_eV"), ".4g", f"{path}.norde.barrier_height_eV",
+                       missing="–"))
+        row.append(num(norde.get("series_resistance_ohm"), ".4g",
+                       f"{path}.norde.series_resistance_ohm", missing="–"))
+        rows.append(row)
+        for record in ("semilog", "cheung_derivative", "cheung_h", "norde"):
+            part = entry.get(record) or {}
+            if not part.get("determined"):
+                notes.append(f"{fmt(entry.get('temperature_K'), 'g')} K, {record.replace('_', ' ')}: "
+                             f"{part.get('detail')}")
+    headers = (["T [K]"] + [esc(h) for h, _, _ in DIODE_COLUMNS]
+               + ["φ_B Norde [eV]", "R_s Norde [Ω]"])
+    out.append("<p>Per temperature (± one standard error of the line fit):</p>"
+               + table(headers, rows, numeric=tuple(range(len(headers)))))
+    line_rows = []
+    for key, title, shown in DIODE_LINES:
+        line = diode.get(key) or {}
+        quantities = line.get("quantities") or {}
+        values = "; ".join(f"{esc(q)} = {_value_with_error(quantities, q, f'{base}.{key}.quantities')}"
+                           for q in shown if q in quantities)
+        line_rows.append([esc(title), badge(line.get("determined"), "drawn", "not determined"),
+                          values or "–", esc(line.get("detail"))])
+    out.append("<p>Across temperatures:</p>"
+               + table(["plot", "", "quantities", "how / why not"], line_rows))
+    if notes:
+        out.append("<p class='meta'>Not determined: " + esc("; ".join(notes)) + ".</p>")
+    return "".join(out)

@@ -25,6 +25,11 @@ def _json_float(value: float | None) -> float | None:
     return value if math.isfinite(value) else None
 
 
+def _json_floats(record: Any, names: tuple[str, ...]) -> dict[str, float | None]:
+    """The named float attributes of a record in plain-JSON form."""
+    return {name: _json_float(getattr(record, name)) for name in names}
+
+
 @dataclass(frozen=True)
 class LineFit:
     """One straight line through a straightened plot.
@@ -248,6 +253,135 @@ class ConductanceAsymmetry:
 
 
 @dataclass(frozen=True)
+class DiodeLine:
+    """One straight line of the rectifying-contact analysis, or why it was not drawn.
+
+    Parameters
+    ----------
+    determined : bool
+        False when the data do not allow the line (too few points, a missing device value);
+        then the numbers are NaN and ``detail`` says why.
+    detail : str
+        How the line was drawn (region, rule) or why it could not be.
+    n_points : int
+        Points on the line.
+    slope, slope_err, intercept, intercept_err, r_squared : float
+        The least-squares line and its standard errors (NaN when not determined).
+    x_min, x_max : float
+        Range of the plot's x over the points used.
+    quantities : mapping
+        What the line gives (keys with unit suffixes; ``<key>_err`` for standard errors).
+    """
+
+    determined: bool
+    detail: str
+    n_points: int = 0
+    slope: float = math.nan
+    slope_err: float = math.nan
+    intercept: float = math.nan
+    intercept_err: float = math.nan
+    r_squared: float = math.nan
+    x_min: float = math.nan
+    x_max: float = math.nan
+    quantities: Mapping[str, float] = field(default_factory=dict)
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain-JSON form (non-finite numbers become None)."""
+        return {
+            "determined": self.determined, "detail": self.detail,
+            "n_points": int(self.n_points),
+            **_json_floats(self, ("slope", "slope_err", "intercept", "intercept_err",
+                                  "r_squared", "x_min", "x_max")),
+            "quantities": {k: _json_float(v) for k, v in self.quantities.items()},
+        }
+
+
+@dataclass(frozen=True)
+class NordeMinimum:
+    """The minimum of the Norde (1979) function as generalised by Bohlin (1986).
+
+    ``determined`` False (with ``detail``) when F(V) has no minimum inside the measured range
+    or a device value is missing; the numbers are then NaN.
+    """
+
+    determined: bool
+    detail: str
+    gamma: float = math.nan
+    voltage_V: float = math.nan
+    function_V: float = math.nan
+    current_A: float = math.nan
+    barrier_height_eV: float = math.nan
+    series_resistance_ohm: float = math.nan
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain-JSON form."""
+        return {"determined": self.determined, "detail": self.detail,
+                **_json_floats(self, ("gamma", "voltage_V", "function_V", "current_A",
+                                      "barrier_height_eV", "series_resistance_ohm"))}
+
+
+@dataclass(frozen=True)
+class DiodeTemperature:
+    """Rectifying-contact analysis of the forward branch at one temperature.
+
+    ``semilog`` is the straight part of ln I vs V (ideality factor, saturation current,
+    apparent barrier); ``cheung_derivative`` and ``cheung_h`` the two Cheung & Cheung (1986)
+    lines; ``norde`` the minimum of the Norde function.
+    """
+
+    temperature_K: float
+    semilog: DiodeLine
+    cheung_derivative: DiodeLine
+    cheung_h: DiodeLine
+    norde: NordeMinimum
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain-JSON form."""
+        return {"temperature_K": _json_float(self.temperature_K),
+                "semilog": self.semilog.to_dict(),
+                "cheung_derivative": self.cheung_derivative.to_dict(),
+                "cheung_h": self.cheung_h.to_dict(), "norde": self.norde.to_dict()}
+
+
+@dataclass(frozen=True)
+class DiodeAnalysis:
+    """The straightened-plot analysis of a rectifying contact over temperature.
+
+    Parameters
+    ----------
+    ran : bool
+        Whether the data looked like a rectifying contact (the rule is in ``reason``).
+    reason : str
+        Why the analysis ran or not.
+    forward_polarity : {"positive", "negative"} or None
+        The bias polarity taken as forward (the one carrying the larger current).
+    temperatures : tuple of DiodeTemperature
+        One per temperature (empty when the analysis did not run).
+    richardson, barrier_vs_inverse_2kt, ideality_vs_inverse_2kt, modified_richardson : DiodeLine
+        The lines across temperatures (Richardson plot; Werner & Güttler's three plots).
+    """
+
+    ran: bool
+    reason: str
+    forward_polarity: str | None = None
+    temperatures: tuple[DiodeTemperature, ...] = ()
+    richardson: DiodeLine | None = None
+    barrier_vs_inverse_2kt: DiodeLine | None = None
+    ideality_vs_inverse_2kt: DiodeLine | None = None
+    modified_richardson: DiodeLine | None = None
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain-JSON form."""
+        lines = ("richardson", "barrier_vs_inverse_2kt", "ideality_vs_inverse_2kt",
+                 "modified_richardson")
+        return {"ran": self.ran, "reason": self.reason,
+                "forward_polarity": self.forward_polarity,
+                "temperatures": [t.to_dict() for t in self.temperatures],
+                **{key: (None if getattr(self, key) is None else getattr(self, key).to_dict())
+                   for key in lines}}
+
+
+@dataclass(frozen=True)
 class MechanismLinearisation:
     """Straightened-plot analysis of one mechanism.
 
@@ -316,6 +450,8 @@ class LinearisationResult:
         Mechanism ids, best screening score first.
     conductance_asymmetry : tuple of ConductanceAsymmetry
         The BDR conductance test, one per temperature.
+    diode : DiodeAnalysis or None
+        The rectifying-contact analysis (:mod:`mechid.screening.diode`).
     polarity_asymmetry : PolarityAsymmetry or None
         Do the two bias polarities carry the same current
         (:func:`mechid.screening.asymmetry.polarity_asymmetry`).
@@ -327,6 +463,7 @@ class LinearisationResult:
     activation_energies: tuple[ActivationEnergy, ...]
     ranking: tuple[str, ...]
     conductance_asymmetry: tuple[ConductanceAsymmetry, ...] = ()
+    diode: DiodeAnalysis | None = None
     polarity_asymmetry: PolarityAsymmetry | None = None
 
     @property
@@ -355,6 +492,7 @@ class LinearisationResult:
             "conductance_asymmetry": [c.to_dict() for c in self.conductance_asymmetry],
             "ranking": list(self.ranking),
             "best": self.best,
+            "diode": None if self.diode is None else self.diode.to_dict(),
             "polarity_asymmetry": (None if self.polarity_asymmetry is None
                                    else self.polarity_asymmetry.to_dict()),
         }

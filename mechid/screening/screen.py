@@ -24,6 +24,7 @@ from mechid.screening.asymmetry import polarity_asymmetry
 from mechid.screening.biases import PreparedSeries, prepare_series
 from mechid.screening.checks import CheckContext, declared_range_checks, evaluate_check
 from mechid.screening.conductance import conductance_asymmetry
+from mechid.screening.diode import diode_analysis
 from mechid.screening.hints import parameter_hints
 from mechid.screening.plots import plot_lines
 from mechid.screening.records import LinearisationResult, LineFit, MechanismLinearisation
@@ -92,7 +93,9 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
     -------
     LinearisationResult
         Lines, checks and scores of every mechanism, the Zabrodskii analysis, transition
-        voltages, apparent activation energies and the screening ranking.
+        voltages, apparent activation energies, the screening ranking, the polarity
+        asymmetry and the rectifying-contact analysis
+        (:func:`mechid.screening.diode.diode_analysis`).
 
     Notes
     -----
@@ -117,6 +120,7 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
             "log_log_slopes": log_log_slopes(data),
         }
         results = tuple(_analyse_mechanism(m, data, device, shared) for m in mechanisms)
+        diode = diode_analysis(data, device)
         asymmetry = polarity_asymmetry(data)
     order = sorted(range(len(results)), key=lambda k: (-results[k].score, k))
     return LinearisationResult(
@@ -126,5 +130,6 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
         activation_energies=tuple(shared["activation"]),
         ranking=tuple(results[k].mechanism_id for k in order),
         conductance_asymmetry=tuple(conductance_asymmetry(data, device)),
+        diode=diode,
         polarity_asymmetry=asymmetry,
     )
