@@ -35,6 +35,11 @@ def _bias(lo: float, hi: float, n: int) -> list[float]:
     return [float(v) for v in np.concatenate([-mags[::-1], mags])]
 
 
+def _sweep(lo: float, hi: float, n: int) -> list[float]:
+    """A linear sweep from lo to hi volts without the zero-bias point (rectifying devices)."""
+    return [float(v) for v in np.round(np.linspace(lo, hi, n), 6) if v != 0.0]
+
+
 SCENARIOS: list[dict] = [
     {
         "name": "larkfield_sinx_poole_frenkel",
@@ -132,6 +137,89 @@ SCENARIOS: list[dict] = [
         "temperatures_K": [3, 4.5, 7, 10, 15, 25, 40, 60],
         "voltages_V": _bias(0.001, 0.02, 12),
         "noise_relative": 0.02, "noise_floor_A": 1e-15, "seed": 107,
+    },
+    {
+        "name": "larkfield_gan_schottky_diode",
+        "story": "Ni dot (0.5 mm) on n-GaN with an ohmic back contact, swept -2 to +1 V at "
+                 "200-400 K; a rectifying contact with some series resistance.",
+        "mechanism": "schottky_diode",
+        "params": {"barrier_height_eV": 0.85, "ideality_factor": 1.08,
+                   "richardson_constant_A_cm2_K2": 26.4, "series_resistance_ohm": 15.0,
+                   "shunt_resistance_ohm": 5e10},
+        "device": {"area_cm2": 2e-3, "richardson_constant_A_cm2_K2": 26.4,
+                   "richardson_constant_sd_A_cm2_K2": 5.0},
+        "temperatures_K": [200, 250, 300, 350, 400],
+        "voltages_V": _sweep(-2.0, 1.0, 31),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 108,
+    },
+    {
+        "name": "larkfield_si_patchy_schottky_diode",
+        "story": "Pt on n-Si after a short silicidation anneal (patchy interface), swept -2 to "
+                 "+1 V from 80 K to 320 K; barrier inhomogeneity suspected.",
+        "mechanism": "inhomogeneous_schottky_diode",
+        "params": {"mean_barrier_height_eV": 0.85, "barrier_variance_V2": 0.0064,
+                   "voltage_coefficient_rho2": 0.05, "voltage_coefficient_rho3_V": -0.002,
+                   "richardson_constant_A_cm2_K2": 112.0, "series_resistance_ohm": 30.0,
+                   "shunt_resistance_ohm": 1e10},
+        "device": {"area_cm2": 1e-3},
+        "temperatures_K": [80, 120, 160, 200, 240, 280, 320],
+        "voltages_V": _sweep(-2.0, 1.0, 31),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 109,
+    },
+    {
+        "name": "larkfield_mos2_lateral_schottky_diode",
+        "story": "Few-layer MoS2 flake edge-contacted by Au on one side, ohmic on the other, "
+                 "swept -2 to +1 V at 100-300 K; thermionic injection into a 2D channel.",
+        "mechanism": "lateral_2d_schottky_diode",
+        "params": {"barrier_height_eV": 0.35, "ideality_factor": 1.3,
+                   "prefactor_A_per_K1_5": 1e-8, "series_resistance_ohm": 1e4,
+                   "shunt_resistance_ohm": 1e11},
+        "device": {},
+        "temperatures_K": [100, 150, 200, 250, 300],
+        "voltages_V": _sweep(-2.0, 1.0, 31),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 110,
+    },
+    {
+        "name": "larkfield_pt_alox_al_dissimilar_tunnelling",
+        "story": "Al/AlOx/Pt tunnel junction (about 1.6 nm), 10 x 10 um, low-bias sweeps from "
+                 "10 K to 300 K; the two electrodes' barriers differ.",
+        "mechanism": "dissimilar_electrode_tunnelling",
+        "params": {"mean_barrier_eV": 1.9, "barrier_difference_eV": 0.45, "thickness_nm": 1.6,
+                   "effective_mass_ratio": 0.6},
+        "device": {"thickness_nm": 1.6, "thickness_sd_nm": 0.1, "area_cm2": 1e-6,
+                   "effective_mass_ratio": 0.6, "effective_mass_sd": 0.05},
+        # Inside the BDR expansion: c2 V^2 <= 0.24 at 0.3 V (limit 0.5).
+        "temperatures_K": [10, 77, 150, 225, 300],
+        "voltages_V": _sweep(-0.3, 0.3, 31),
+        "noise_relative": 0.01, "noise_floor_A": 1e-13, "seed": 111,
+    },
+    {
+        "name": "larkfield_tin_hfo2_pt_schottky_two_barriers",
+        "story": "Sputtered HfO2 (20 nm) between TiN and Pt; emission over the barrier of "
+                 "whichever electrode injects, 250-400 K.",
+        "mechanism": "schottky_emission_two_barriers",
+        "params": {"barrier_height_positive_bias_eV": 0.75,
+                   "barrier_height_negative_bias_eV": 0.9, "dielectric_constant": 4.0,
+                   "richardson_constant_ratio": 0.5, "thickness_nm": 20.0},
+        "device": {"thickness_nm": 20.0, "thickness_sd_nm": 1.0, "area_cm2": 1e-4,
+                   "optical_dielectric_constant": 4.0, "optical_dielectric_constant_sd": 0.4},
+        "temperatures_K": [250, 275, 300, 325, 350, 375, 400],
+        "voltages_V": _bias(0.3, 6.0, 24),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 112,
+    },
+    {
+        "name": "larkfield_sio2_fowler_nordheim_two_barriers",
+        "story": "Thermal SiO2 (6 nm) between n+ poly-Si and Al; high-field ramps of both "
+                 "polarities at four temperatures, each injecting over its own barrier.",
+        "mechanism": "fowler_nordheim_two_barriers",
+        "params": {"barrier_height_positive_bias_eV": 3.1,
+                   "barrier_height_negative_bias_eV": 3.3, "thickness_nm": 6.0,
+                   "effective_mass_ratio": 0.45},
+        "device": {"thickness_nm": 6.0, "thickness_sd_nm": 0.2, "area_cm2": 1e-4,
+                   "effective_mass_ratio": 0.45, "effective_mass_sd": 0.05},
+        "temperatures_K": [77, 125, 175, 225],
+        "voltages_V": _bias(6.0, 9.5, 20),
+        "noise_relative": 0.03, "noise_floor_A": 1e-13, "seed": 113,
     },
 ]
 

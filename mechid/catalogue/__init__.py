@@ -9,6 +9,8 @@ Each mechanism is declared once, in the module of its family:
   ``fowler_nordheim_two_barriers`` (a barrier per electrode)
 * :mod:`mechid.catalogue.hopping` -- ``nearest_neighbour_hopping``, ``mott_vrh``,
   ``mott_vrh_2d``, ``es_vrh``
+* :mod:`mechid.catalogue.diode` -- ``schottky_diode``, ``inhomogeneous_schottky_diode``,
+  ``lateral_2d_schottky_diode`` (rectifying contacts, signed formulas)
 """
 
 from __future__ import annotations
@@ -17,6 +19,11 @@ from collections.abc import Iterator
 from contextlib import contextmanager
 
 from mechid.catalogue.base import Mechanism, Parameter, StraightenedPlot
+from mechid.catalogue.diode import (
+    INHOMOGENEOUS_SCHOTTKY_DIODE,
+    LATERAL_2D_SCHOTTKY_DIODE,
+    SCHOTTKY_DIODE,
+)
 from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
 from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, MOTT_VRH_2D, NEAREST_NEIGHBOUR_HOPPING
 from mechid.catalogue.polarity import FOWLER_NORDHEIM_TWO_BARRIERS, SCHOTTKY_EMISSION_TWO_BARRIERS
@@ -40,6 +47,9 @@ MECHANISMS: tuple[Mechanism, ...] = (
     MOTT_VRH,
     MOTT_VRH_2D,
     ES_VRH,
+    SCHOTTKY_DIODE,
+    INHOMOGENEOUS_SCHOTTKY_DIODE,
+    LATERAL_2D_SCHOTTKY_DIODE,
 )
 
 _BY_ID = {m.id: m for m in MECHANISMS}
