@@ -44,6 +44,7 @@ from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.priors import Prior
 from mechid.inference.regimes import RegimeMap, regime_map
 from mechid.inference.rounds import FitJob, default_workers, fit_candidates_in_rounds
+from mechid.inference.sensitivity import not_computed, sensitivity_of_fits
 from mechid.inference.settings import (
     FULL_LADDER,
     FULL_SEARCH,
@@ -223,12 +224,12 @@ def run_analysis_full(
     lin = linearise(series, device)
     mechanisms = _selected_mechanisms(settings)
     fits: dict[str, MechanismFit] = {}
+    master = np.random.default_rng(seed)
     not_fitted: tuple[NotFittedMechanism, ...] = ()
     skipped: tuple[SkippedMechanism, ...] = ()
     comparison: tuple[PolarityComparison, ...] = ()
     if not settings.screen_only:
         _check_area(device, mechanisms)
-        master = np.random.default_rng(seed)
         children = master.spawn(len(mechanisms))
         hints = _linearisation_hints(lin)
         # Most promising first (screening rank), so that mechanisms far below the leader are
@@ -263,6 +264,8 @@ def run_analysis_full(
     verdict = _verdict(results, settings, not_fitted, polarity, skipped) if results else None
     if verdict is not None:
         verdict = _with_families(verdict, results, settings)
+    sensitivity = (not_computed("screen-only run: no fit") if settings.screen_only
+                   else sensitivity_of_fits(fits, results, master))
     result = AnalysisResult(
         input={**measured, "polarity": settings.polarity, "window": window,
                "n_points_fitted": int(mask.sum())},
@@ -279,6 +282,7 @@ def run_analysis_full(
         skipped=skipped,
         polarity_comparison=comparison,
         regime_map=regimes,
+        prior_sensitivity=sensitivity,
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})

@@ -257,6 +257,66 @@ class Verdict:
 
 
 @dataclass(frozen=True)
+class EvidenceUnderRanges:
+    """One mechanism's ln Z with every catalogue range's width times ``scale``.
+
+    ``method`` says how it was obtained (:mod:`mechid.inference.sensitivity`): importance
+    reweighting (narrower ranges), the exact width term (wider ranges, posterior clear of the
+    old edges), a quick re-run, or "not computable by reweighting" (shift NaN). ``width_term``
+    is ``sum ln(w_old/w_new)``; ``ranges`` the new physical ranges by parameter; ``limits``
+    the hard limits a wider range stopped at; ``missed_mass_bound`` the edge criterion (nats).
+    """
+
+    mechanism_id: str
+    scale: float
+    method: str
+    ln_evidence_shift: float
+    ln_evidence_shift_err: float
+    effective_sample_size: float
+    width_term: float
+    edge_parameters: tuple[str, ...]
+    missed_mass_bound: float
+    ranges: dict[str, tuple[float, float]]
+    limits: tuple[str, ...]
+
+
+@dataclass(frozen=True)
+class BayesFactorUnderRanges:
+    """ln B of the leader against ``other`` at each width factor of the catalogue ranges.
+
+    ``ln_bayes_factor``, ``shift_err`` (Monte Carlo error of the change from the x1 value) and
+    ``methods`` are aligned with ``scales``; ``largest_shift`` is the largest |change| (NaN
+    when nothing could be computed), ``complete`` false when some width is not computable.
+    """
+
+    leader: str
+    other: str
+    scales: tuple[float, ...]
+    ln_bayes_factor: tuple[float, ...]
+    shift_err: tuple[float, ...]
+    methods: tuple[str, ...]
+    largest_shift: float
+    largest_shift_err: float
+    complete: bool
+
+
+@dataclass(frozen=True)
+class PriorSensitivity:
+    """How much the Bayes factors move when every catalogue range is halved or doubled.
+
+    ``computed`` is false (with the ``reason``) for screen-only runs and single fits.
+    """
+
+    computed: bool
+    reason: str
+    scales: tuple[float, ...]
+    largest_shift: float
+    sentence: str
+    comparisons: tuple[BayesFactorUnderRanges, ...]
+    evidences: tuple[EvidenceUnderRanges, ...]
+
+
+@dataclass(frozen=True)
 class PolarityComparison:
     """One mechanism with one parameter set for both polarities against each polarity alone.
 
@@ -305,6 +365,8 @@ class AnalysisResult:
     #: Which path carries the current where (leading composite), and where the leading
     #: single law's residuals fail (:mod:`mechid.inference.regimes`).
     regime_map: RegimeMap | None = None
+    #: Bayes factors under halved and doubled catalogue ranges (None: not run by this path).
+    prior_sensitivity: PriorSensitivity | None = None
 
     def mechanism(self, mechanism_id: str) -> MechanismResult:
         """The result for one mechanism id."""

@@ -180,6 +180,58 @@ SCENARIOS: list[dict] = [
         "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 110,
     },
     {
+        "name": "larkfield_zno_ohmic",
+        "story": "Lightly doped ZnO film (200 nm) between Al contacts, low-bias sweep on a heated "
+                 "stage at 250-400 K; bulk conduction by thermally excited electrons expected.",
+        "mechanism": "ohmic_activated",
+        "params": {"activation_energy_eV": 0.35, "prefactor_S": 10.0},
+        "device": {"thickness_nm": 200.0, "thickness_sd_nm": 10.0, "area_cm2": 1e-4},
+        "temperatures_K": [250, 275, 300, 325, 350, 375, 400],
+        "voltages_V": _bias(0.01, 0.5, 14),
+        "noise_relative": 0.02, "noise_floor_A": 1e-14, "seed": 109,
+    },
+    {
+        "name": "larkfield_pentacene_sclc",
+        "story": "Evaporated organic semiconductor film (300 nm) between gold electrodes (hole "
+                 "injection), swept to 30 V at 175-350 K; space-charge-limited current with "
+                 "shallow traps expected.",
+        "mechanism": "sclc_shallow_traps",
+        "params": {"trap_depth_eV": 0.3, "permittivity_mobility_prefactor_cm2_per_Vs": 100.0,
+                   "thickness_nm": 300.0},
+        "device": {"thickness_nm": 300.0, "thickness_sd_nm": 15.0, "area_cm2": 1e-4},
+        "temperatures_K": [175, 200, 225, 250, 275, 300, 325, 350],
+        "voltages_V": _bias(0.5, 30.0, 16),
+        "noise_relative": 0.02, "noise_floor_A": 1e-14, "seed": 110,
+    },
+    {
+        "name": "larkfield_polymer_trap_limited_sclc",
+        "story": "Spin-coated conjugated-polymer diode (500 nm, ohmic hole contacts), swept to "
+                 "30 V at 200-350 K; trap-limited space-charge current from a tail of states.",
+        "mechanism": "sclc_exponential_traps",
+        "params": {"characteristic_trap_temperature_K": 1500.0, "trap_density_per_cm3": 1e18,
+                   "dielectric_constant": 3.5, "mobility_band_density_per_V_s_cm": 1e21,
+                   "thickness_nm": 500.0},
+        "device": {"thickness_nm": 500.0, "thickness_sd_nm": 20.0, "area_cm2": 1e-4,
+                   "semiconductor_dielectric_constant": 3.5,
+                   "semiconductor_dielectric_constant_sd": 0.3},
+        "temperatures_K": [250, 275, 300, 325, 350, 375, 400],
+        "voltages_V": _bias(3.0, 30.0, 16),
+        "noise_relative": 0.02, "noise_floor_A": 1e-15, "seed": 111,
+    },
+    {
+        "name": "larkfield_hfo2_trap_assisted_tunnelling",
+        "story": "Atomic-layer-deposited HfO2 (8 nm) on TiN, leakage ramp at 250-400 K; "
+                 "tunnelling through oxygen-vacancy traps expected.",
+        "mechanism": "trap_assisted_tunnelling",
+        "params": {"trap_energy_eV": 1.2, "prefactor_A_per_cm2": 1e2, "thickness_nm": 8.0,
+                   "effective_mass_ratio": 0.4},
+        "device": {"thickness_nm": 8.0, "thickness_sd_nm": 0.3, "area_cm2": 1e-4,
+                   "effective_mass_ratio": 0.4, "effective_mass_sd": 0.05},
+        "temperatures_K": [250, 300, 350, 400],
+        "voltages_V": _bias(3.0, 8.0, 20),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 112,
+    },
+    {
         "name": "larkfield_pt_alox_al_dissimilar_tunnelling",
         "story": "Al/AlOx/Pt tunnel junction (about 1.6 nm), 10 x 10 um, low-bias sweeps from "
                  "10 K to 300 K; the two electrodes' barriers differ.",

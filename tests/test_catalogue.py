@@ -34,6 +34,14 @@ EXPECTED = {
         "dielectric_constant", "richardson_constant_ratio", "thickness_nm")),
     "poole_frenkel": ("emission", ("trap_depth_eV", "dielectric_constant",
                                    "prefactor_S_per_cm", "thickness_nm")),
+    "ohmic_activated": ("ohmic", ("activation_energy_eV", "prefactor_S")),
+    "sclc_shallow_traps": ("space_charge", ("trap_depth_eV",
+                                            "permittivity_mobility_prefactor_cm2_per_Vs",
+                                            "thickness_nm")),
+    "sclc_exponential_traps": ("space_charge", ("characteristic_trap_temperature_K",
+                                                "trap_density_per_cm3", "dielectric_constant",
+                                                "mobility_band_density_per_V_s_cm",
+                                                "thickness_nm")),
     "nearest_neighbour_hopping": ("hopping", ("activation_energy_eV", "hopping_distance_nm",
                                               "prefactor_A_per_cm2", "thickness_nm")),
     "mott_vrh": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
@@ -49,6 +57,8 @@ EXPECTED = {
     "lateral_2d_schottky_diode": ("emission", ("barrier_height_eV", "ideality_factor",
                                                "prefactor_A_per_K1_5", "series_resistance_ohm",
                                                "shunt_resistance_ohm")),
+    "trap_assisted_tunnelling": ("tunnelling", ("trap_energy_eV", "prefactor_A_per_cm2",
+                                                "thickness_nm", "effective_mass_ratio")),
 }
 
 ALL = [*MECHANISMS, mott_vrh_variant(1)]
@@ -178,4 +188,5 @@ def test_interpret_returns_plain_floats_with_unit_suffixed_keys(mechanism):
             for key, value in found.items():
                 assert isinstance(key, str) and isinstance(value, float)
                 assert key.endswith(("_eV", "_nm", "_K", "_S", "_S_per_cm", "_per_V2",
-                                     "_A_per_cm2_K2", "_ratio", "dielectric_constant"))
+                                     "_A_per_cm2_K2", "_ratio", "dielectric_constant",
+                                     "_exponent", "_cm2_per_Vs"))

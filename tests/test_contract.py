@@ -115,7 +115,7 @@ def test_document_lists_every_mechanism_key(result):
 @pytest.mark.parametrize("path", ["input", "device", "verdict", "linearisation",
                                   "mechanisms/adequacy", "mechanisms/sampling",
                                   "mechanisms/correlations", "mechanisms/priors",
-                                  "mechanisms/validity"])
+                                  "mechanisms/validity", "prior_sensitivity"])
 def test_document_lists_the_keys_of_nested_objects(result, path):
     block = _doc_block()
     if path.startswith("mechanisms/"):
@@ -284,3 +284,12 @@ def test_flags_in_the_json_are_plain_strings_of_the_enum(result):
     for mechanism in result["mechanisms"]:
         for flags in (mechanism["sampling"]["flags"], mechanism["evidence"]["flags"]):
             assert all(isinstance(flag, str) and SamplerFlag(flag).meaning for flag in flags)
+
+
+@pytest.mark.parametrize("key", ["comparisons", "evidences"])
+def test_document_lists_the_prior_sensitivity_records(result, key):
+    section = _section(_section(_doc_block(), "prior_sensitivity", "{", indent=2), key, "[")
+    entries = result["prior_sensitivity"][key]
+    assert result["prior_sensitivity"]["computed"] and entries
+    for entry in entries:
+        assert set(entry) == _listed(section)

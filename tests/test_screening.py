@@ -125,6 +125,36 @@ REGIMES: dict[str, Regime] = {
         np.geomspace(2, 50, 12), np.linspace(0.01, 1.0, 10),
         _device(),
     ),
+    "ohmic_activated": Regime(
+        "ohmic_activated",
+        {"activation_energy_eV": 0.35, "prefactor_S": 10.0},
+        np.linspace(250, 400, 6), np.linspace(0.01, 0.5, 12),
+        _device(),
+    ),
+    # eV >= 10 kT (the drift-only validity of Mott-Gurney) at every point.
+    "sclc_shallow_traps": Regime(
+        "sclc_shallow_traps",
+        {"trap_depth_eV": 0.3, "permittivity_mobility_prefactor_cm2_per_Vs": 100.0,
+         "thickness_nm": 300.0},
+        np.linspace(175, 350, 6), np.linspace(1.0, 30.0, 15),
+        _device(thickness_nm=300.0),
+    ),
+    "sclc_exponential_traps": Regime(
+        "sclc_exponential_traps",
+        {"characteristic_trap_temperature_K": 1500.0, "trap_density_per_cm3": 1e18,
+         "dielectric_constant": 3.5, "mobility_band_density_per_V_s_cm": 1e21,
+         "thickness_nm": 500.0},
+        np.linspace(250, 400, 6), np.linspace(3.0, 30.0, 15),
+        _device(thickness_nm=500.0),
+    ),
+    # eV >= phi_t: the barrier seen from the trap is triangular.
+    "trap_assisted_tunnelling": Regime(
+        "trap_assisted_tunnelling",
+        {"trap_energy_eV": 1.2, "prefactor_A_per_cm2": 1e2, "thickness_nm": 8.0,
+         "effective_mass_ratio": 0.4},
+        np.linspace(250, 400, 4), np.linspace(3.0, 8.0, 20),
+        _device(thickness_nm=8.0, effective_mass_ratio=0.4),
+    ),
 }
 
 
@@ -383,6 +413,12 @@ HINT_RTOL = {
     # The low-bias conductance G0 and its cubic coefficient mix barrier, thickness and mass:
     # the plot alone determines no declared parameter, so nothing is handed over.
     "direct_tunnelling": {},
+    # Exact transforms of the new laws (Arrhenius of I/V and I/V^2, log-log, ln I vs 1/V).
+    "ohmic_activated": {"activation_energy_eV": 1e-6, "prefactor_S": 1e-6},
+    "sclc_shallow_traps": {"trap_depth_eV": 1e-6,
+                           "permittivity_mobility_prefactor_cm2_per_Vs": 1e-6},
+    "sclc_exponential_traps": {"characteristic_trap_temperature_K": 1e-6},
+    "trap_assisted_tunnelling": {"trap_energy_eV": 1e-6},
 }
 
 

@@ -11,6 +11,11 @@ Each mechanism is declared once, in the module of its family:
   ``mott_vrh_2d``, ``es_vrh``
 * :mod:`mechid.catalogue.diode` -- ``schottky_diode``, ``inhomogeneous_schottky_diode``,
   ``lateral_2d_schottky_diode`` (rectifying contacts, signed formulas)
+* :mod:`mechid.catalogue.ohmic` -- ``ohmic_activated``
+* :mod:`mechid.catalogue.space_charge` -- ``sclc_shallow_traps``, ``sclc_exponential_traps``
+* :mod:`mechid.catalogue.trap_tunnelling` -- ``trap_assisted_tunnelling`` (its
+  ``FOWLER_NORDHEIM_IMAGE_FORCE`` is declared but not registered: the screening cannot tell it
+  from ``fowler_nordheim``, see that module)
 """
 
 from __future__ import annotations
@@ -26,7 +31,10 @@ from mechid.catalogue.diode import (
 )
 from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
 from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, MOTT_VRH_2D, NEAREST_NEIGHBOUR_HOPPING
+from mechid.catalogue.ohmic import OHMIC_ACTIVATED
 from mechid.catalogue.polarity import FOWLER_NORDHEIM_TWO_BARRIERS, SCHOTTKY_EMISSION_TWO_BARRIERS
+from mechid.catalogue.space_charge import SCLC_EXPONENTIAL_TRAPS, SCLC_SHALLOW_TRAPS
+from mechid.catalogue.trap_tunnelling import TRAP_ASSISTED_TUNNELLING
 from mechid.catalogue.tunnelling import (
     DIRECT_TUNNELLING,
     DISSIMILAR_ELECTRODE_TUNNELLING,
@@ -43,6 +51,9 @@ MECHANISMS: tuple[Mechanism, ...] = (
     SCHOTTKY_EMISSION,
     SCHOTTKY_EMISSION_TWO_BARRIERS,
     POOLE_FRENKEL,
+    OHMIC_ACTIVATED,
+    SCLC_SHALLOW_TRAPS,
+    SCLC_EXPONENTIAL_TRAPS,
     NEAREST_NEIGHBOUR_HOPPING,
     MOTT_VRH,
     MOTT_VRH_2D,
@@ -50,6 +61,7 @@ MECHANISMS: tuple[Mechanism, ...] = (
     SCHOTTKY_DIODE,
     INHOMOGENEOUS_SCHOTTKY_DIODE,
     LATERAL_2D_SCHOTTKY_DIODE,
+    TRAP_ASSISTED_TUNNELLING,
 )
 
 _BY_ID = {m.id: m for m in MECHANISMS}

@@ -180,6 +180,9 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
         console.print("Screening only (no Bayesian fit): "
                       + (f"the straightened plots favour {escape(str(best))}." if best
                          else "no mechanism could be assessed."))
+    sensitivity = data.get("prior_sensitivity") or {}
+    if sensitivity.get("computed"):
+        console.print(f"[bold]Prior sensitivity:[/bold] {escape(str(sensitivity.get('sentence')))}")
     cautions = data.get("cautions") or []
     if cautions:
         console.print("[bold]Cautions[/bold]")

@@ -413,6 +413,7 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                          row_classes=classes))
         out.append(figures.get("comparison_bayes_factors"))
         out.append(figures.get("comparison_regime_map"))
+        out.append(prior_sensitivity_html(data))
     out.append(_not_fitted_html(data))
     skipped = data.get("skipped") or []
     if skipped:
@@ -430,6 +431,28 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
                    + "</ul>")
     out.append(_screening_table(data))
     return "".join(out)
+
+
+def prior_sensitivity_html(data: Json) -> str:
+    """ln B of the leader against each mechanism with every catalogue range x0.5, x1, x2."""
+    record = data.get("prior_sensitivity") or {}
+    if not record.get("computed"):
+        return ""
+    rows = []
+    for k, c in enumerate(record.get("comparisons") or []):
+        path = f"prior_sensitivity.comparisons.{k}"
+        cells = [esc(c.get("other"))]
+        cells += [num(v, ".2f", f"{path}.ln_bayes_factor.{j}")
+                  for j, v in enumerate(c.get("ln_bayes_factor") or [])]
+        cells.append(num(c.get("largest_shift"), ".2f", f"{path}.largest_shift"))
+        methods = sorted({m for m in c.get("methods") or [] if m != "analysis"})
+        cells.append(esc("; ".join(methods)))
+        rows.append(cells)
+    scales = [f"ln B at x{fmt(s, 'g')}" for s in record.get("scales") or []]
+    return (f'<p data-json="prior_sensitivity.sentence">Prior sensitivity: '
+            f"{esc(record.get('sentence'))}.</p>"
+            + table(["leader against", *scales, "largest shift", "how"], rows,
+                    numeric=tuple(range(1, len(scales) + 2))))
 
 
 def _not_fitted_html(data: Json) -> str:
@@ -882,10 +905,9 @@ def _diode_section(data: Json, figures: _Figures) -> str:
             row.append(_value_with_error((entry.get(record) or {}).get("quantities") or {}, key,
                                          f"{path}.{record}.quantities"))
         norde = entry.get("norde") or {}
-        row.append(num(norde.get("barrier_height_eV"), ".4g", f"{path}.norde.barrier_height_eV",
-                       missing="–"))
+        row.append(num(norde.get("barrier_height_eV"), ".4g", f"{path}.norde.barrier_height_eV"))
         row.append(num(norde.get("series_resistance_ohm"), ".4g",
-                       f"{path}.norde.series_resistance_ohm", missing="–"))
+                       f"{path}.norde.series_resistance_ohm"))
         rows.append(row)
         for record in ("semilog", "cheung_derivative", "cheung_h", "norde"):
             part = entry.get(record) or {}

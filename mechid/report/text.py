@@ -374,9 +374,36 @@ def methods_paragraph(data: Json) -> str:
             f"differences of ln|I| (Rice 1984), required to be at most {MAX_NOISE_RATIO:g}. "
             "Posterior corner plots were drawn with corner.py (Foreman-Mackey 2016).",
         ]
+        parts += [prior_sensitivity_methods(data)] if _sensitivity(data) else []
     else:
         parts.append("No Bayesian fit was made in this run (screening only).")
     return " ".join(parts)
+
+
+def _sensitivity(data: Json) -> Json | None:
+    """The run's prior-sensitivity record when it was computed, else None."""
+    record = data.get("prior_sensitivity") or {}
+    return record if record.get("computed") else None
+
+
+def prior_sensitivity_methods(data: Json) -> str:
+    """How the Bayes factors were tested against the catalogue ranges (methods text)."""
+    return (
+        "Prior sensitivity: every uniform or log-uniform prior taken from a catalogue range "
+        "was halved and doubled in width in the coordinate in which it is flat (log10 for "
+        "log-uniform priors); the halved range was centred on the posterior median inside the "
+        "declared range, the doubled one on the declared range's centre, stopping at 0 for "
+        "non-negative quantities and at 1 for a relative permittivity or an ideality factor; "
+        "device-value and noise "
+        "priors were left unchanged. Each log-evidence was recomputed by importance "
+        "reweighting of the posterior draws, Z' = Z E_post[π'/π] (exact for a range inside "
+        "the declared one; Monte Carlo error from the weights and the chain's effective sample "
+        "size). For doubled ranges the reweighting gives the width term Σ ln(w/w') and cannot "
+        "see likelihood mass beyond the declared range; where the share of posterior draws in "
+        "the outer 1 % of a range, continued flat over the added width, bounds that mass "
+        "above 0.1 nats, the leader and the runner-up were re-fitted with the doubled ranges "
+        "(quick settings; a re-run below the exact lower bound ln Z + Σ ln(w/w') is "
+        "reported as failed) and other mechanisms are reported as not computable.")
 
 
 def priors_paragraph(data: Json) -> str:
@@ -436,6 +463,9 @@ def results_paragraph(data: Json) -> str:
                       f"({adequate})")
     if others:
         parts.append("Relative to the leader: " + "; ".join(others) + ".")
+    if _sensitivity(data):
+        sentence = str(_sensitivity(data).get("sentence"))
+        parts.append(f"Prior sensitivity: {sentence}.")
     lin = data.get("linearisation") or {}
     best_screen = lin.get("best")
     if best_screen:
