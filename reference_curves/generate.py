@@ -231,6 +231,48 @@ SCENARIOS: list[dict] = [
         "voltages_V": _bias(3.0, 8.0, 20),
         "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 112,
     },
+    {
+        "name": "larkfield_pt_alox_al_dissimilar_tunnelling",
+        "story": "Al/AlOx/Pt tunnel junction (about 1.6 nm), 10 x 10 um, low-bias sweeps from "
+                 "10 K to 300 K; the two electrodes' barriers differ.",
+        "mechanism": "dissimilar_electrode_tunnelling",
+        "params": {"mean_barrier_eV": 1.9, "barrier_difference_eV": 0.45, "thickness_nm": 1.6,
+                   "effective_mass_ratio": 0.6},
+        "device": {"thickness_nm": 1.6, "thickness_sd_nm": 0.1, "area_cm2": 1e-6,
+                   "effective_mass_ratio": 0.6, "effective_mass_sd": 0.05},
+        # Inside the BDR expansion: c2 V^2 <= 0.24 at 0.3 V (limit 0.5).
+        "temperatures_K": [10, 77, 150, 225, 300],
+        "voltages_V": _sweep(-0.3, 0.3, 31),
+        "noise_relative": 0.01, "noise_floor_A": 1e-13, "seed": 111,
+    },
+    {
+        "name": "larkfield_tin_hfo2_pt_schottky_two_barriers",
+        "story": "Sputtered HfO2 (20 nm) between TiN and Pt; emission over the barrier of "
+                 "whichever electrode injects, 250-400 K.",
+        "mechanism": "schottky_emission_two_barriers",
+        "params": {"barrier_height_positive_bias_eV": 0.75,
+                   "barrier_height_negative_bias_eV": 0.9, "dielectric_constant": 4.0,
+                   "richardson_constant_ratio": 0.5, "thickness_nm": 20.0},
+        "device": {"thickness_nm": 20.0, "thickness_sd_nm": 1.0, "area_cm2": 1e-4,
+                   "optical_dielectric_constant": 4.0, "optical_dielectric_constant_sd": 0.4},
+        "temperatures_K": [250, 275, 300, 325, 350, 375, 400],
+        "voltages_V": _bias(0.3, 6.0, 24),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 112,
+    },
+    {
+        "name": "larkfield_sio2_fowler_nordheim_two_barriers",
+        "story": "Thermal SiO2 (6 nm) between n+ poly-Si and Al; high-field ramps of both "
+                 "polarities at four temperatures, each injecting over its own barrier.",
+        "mechanism": "fowler_nordheim_two_barriers",
+        "params": {"barrier_height_positive_bias_eV": 3.1,
+                   "barrier_height_negative_bias_eV": 3.3, "thickness_nm": 6.0,
+                   "effective_mass_ratio": 0.45},
+        "device": {"thickness_nm": 6.0, "thickness_sd_nm": 0.2, "area_cm2": 1e-4,
+                   "effective_mass_ratio": 0.45, "effective_mass_sd": 0.05},
+        "temperatures_K": [77, 125, 175, 225],
+        "voltages_V": _bias(6.0, 9.5, 20),
+        "noise_relative": 0.03, "noise_floor_A": 1e-13, "seed": 113,
+    },
 ]
 
 

@@ -2,8 +2,11 @@
 
 Each mechanism is declared once, in the module of its family:
 
-* :mod:`mechid.catalogue.tunnelling` -- ``direct_tunnelling``, ``fowler_nordheim``
+* :mod:`mechid.catalogue.tunnelling` -- ``direct_tunnelling``, ``fowler_nordheim``,
+  ``dissimilar_electrode_tunnelling``
 * :mod:`mechid.catalogue.emission` -- ``schottky_emission``, ``poole_frenkel``
+* :mod:`mechid.catalogue.polarity` -- ``schottky_emission_two_barriers``,
+  ``fowler_nordheim_two_barriers`` (a barrier per electrode)
 * :mod:`mechid.catalogue.hopping` -- ``nearest_neighbour_hopping``, ``mott_vrh``,
   ``mott_vrh_2d``, ``es_vrh``
 * :mod:`mechid.catalogue.diode` -- ``schottky_diode``, ``inhomogeneous_schottky_diode``,
@@ -29,16 +32,24 @@ from mechid.catalogue.diode import (
 from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
 from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, MOTT_VRH_2D, NEAREST_NEIGHBOUR_HOPPING
 from mechid.catalogue.ohmic import OHMIC_ACTIVATED
+from mechid.catalogue.polarity import FOWLER_NORDHEIM_TWO_BARRIERS, SCHOTTKY_EMISSION_TWO_BARRIERS
 from mechid.catalogue.space_charge import SCLC_EXPONENTIAL_TRAPS, SCLC_SHALLOW_TRAPS
 from mechid.catalogue.trap_tunnelling import TRAP_ASSISTED_TUNNELLING
-from mechid.catalogue.tunnelling import DIRECT_TUNNELLING, FOWLER_NORDHEIM
+from mechid.catalogue.tunnelling import (
+    DIRECT_TUNNELLING,
+    DISSIMILAR_ELECTRODE_TUNNELLING,
+    FOWLER_NORDHEIM,
+)
 from mechid.errors import UnknownMechanismError
 
 #: All mechanisms, in the order they are listed and reported.
 MECHANISMS: tuple[Mechanism, ...] = (
     DIRECT_TUNNELLING,
+    DISSIMILAR_ELECTRODE_TUNNELLING,
     FOWLER_NORDHEIM,
+    FOWLER_NORDHEIM_TWO_BARRIERS,
     SCHOTTKY_EMISSION,
+    SCHOTTKY_EMISSION_TWO_BARRIERS,
     POOLE_FRENKEL,
     OHMIC_ACTIVATED,
     SCLC_SHALLOW_TRAPS,

@@ -207,7 +207,7 @@ def validity_violations(
     v = np.abs(v) if mechanism.is_odd else v  # signed formulas' conditions read the sign
     t = np.ravel(np.asarray(temperature_K, dtype=float))
     v, t = np.broadcast_arrays(v, t)
-    keep = v > 0
+    keep = v != 0  # zero bias skipped; a signed formula keeps its negative biases
     v, t = v[keep], t[keep]
     columns = {k: np.reshape(np.asarray(a, dtype=float), (-1, 1)) for k, a in draws.items()}
     quantities = condition_quantities(mechanism.validity, v, t, device, columns)

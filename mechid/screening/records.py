@@ -211,6 +211,48 @@ class ActivationEnergy:
 
 
 @dataclass(frozen=True)
+class ConductanceAsymmetry:
+    """The low-bias conductance parabola at one temperature and the asymmetry it implies.
+
+    ``G(V) = g0 (1 + c1 V + c2 V^2)`` fitted to the numerical dI/dV of both polarities
+    (Brinkman, Dynes & Rowell, J. Appl. Phys. 41, 1915 (1970); see
+    :mod:`mechid.screening.conductance`). Values are None where ``determined`` is False
+    (``detail`` says why) or, for the barriers, where the device thickness and mass are missing;
+    ``*_err`` are standard errors from the parabola fit alone.
+    """
+
+    temperature_K: float
+    determined: bool
+    detail: str
+    n_points: int = 0
+    window_V: float | None = None
+    zero_bias_conductance_S: float | None = None
+    linear_coefficient_per_V: float | None = None
+    quadratic_coefficient_per_V2: float | None = None
+    minimum_bias_V: float | None = None
+    minimum_bias_err_V: float | None = None
+    relative_asymmetry: float | None = None
+    relative_asymmetry_err: float | None = None
+    mean_barrier_eV: float | None = None
+    barrier_difference_eV: float | None = None
+    barrier_difference_err_eV: float | None = None
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain-JSON form."""
+        return {
+            "temperature_K": _json_float(self.temperature_K),
+            "determined": bool(self.determined),
+            "detail": self.detail,
+            "n_points": int(self.n_points),
+            **{name: _json_float(getattr(self, name)) for name in (
+                "window_V", "zero_bias_conductance_S", "linear_coefficient_per_V",
+                "quadratic_coefficient_per_V2", "minimum_bias_V", "minimum_bias_err_V",
+                "relative_asymmetry", "relative_asymmetry_err", "mean_barrier_eV",
+                "barrier_difference_eV", "barrier_difference_err_eV")},
+        }
+
+
+@dataclass(frozen=True)
 class DiodeLine:
     """One straight line of the rectifying-contact analysis, or why it was not drawn.
 
@@ -406,6 +448,8 @@ class LinearisationResult:
         Apparent activation energy at each common bias.
     ranking : tuple of str
         Mechanism ids, best screening score first.
+    conductance_asymmetry : tuple of ConductanceAsymmetry
+        The BDR conductance test, one per temperature.
     diode : DiodeAnalysis or None
         The rectifying-contact analysis (:mod:`mechid.screening.diode`).
     polarity_asymmetry : PolarityAsymmetry or None
@@ -418,6 +462,7 @@ class LinearisationResult:
     transition_voltages: tuple[TransitionVoltage, ...]
     activation_energies: tuple[ActivationEnergy, ...]
     ranking: tuple[str, ...]
+    conductance_asymmetry: tuple[ConductanceAsymmetry, ...] = ()
     diode: DiodeAnalysis | None = None
     polarity_asymmetry: PolarityAsymmetry | None = None
 
@@ -444,6 +489,7 @@ class LinearisationResult:
             "zabrodskii": self.zabrodskii.to_dict(),
             "transition_voltages": [t.to_dict() for t in self.transition_voltages],
             "activation_energies": [a.to_dict() for a in self.activation_energies],
+            "conductance_asymmetry": [c.to_dict() for c in self.conductance_asymmetry],
             "ranking": list(self.ranking),
             "best": self.best,
             "diode": None if self.diode is None else self.diode.to_dict(),

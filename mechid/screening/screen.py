@@ -23,6 +23,7 @@ from mechid.screening.analyses import (
 from mechid.screening.asymmetry import polarity_asymmetry
 from mechid.screening.biases import PreparedSeries, prepare_series
 from mechid.screening.checks import CheckContext, declared_range_checks, evaluate_check
+from mechid.screening.conductance import conductance_asymmetry
 from mechid.screening.diode import diode_analysis
 from mechid.screening.hints import parameter_hints
 from mechid.screening.plots import plot_lines
@@ -128,6 +129,7 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
         transition_voltages=tuple(shared["transitions"]),
         activation_energies=tuple(shared["activation"]),
         ranking=tuple(results[k].mechanism_id for k in order),
+        conductance_asymmetry=tuple(conductance_asymmetry(data, device)),
         diode=diode,
         polarity_asymmetry=asymmetry,
     )
