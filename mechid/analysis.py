@@ -627,9 +627,13 @@ def _not_fitted_sentence(n_fitted: int, not_fitted: tuple[NotFittedMechanism, ..
     if not not_fitted:
         return ""
     counted = f"{n_fitted} mechanism{'' if n_fitted == 1 else 's'}"
-    return (f" The probabilities are among the {counted} fitted; not fitted "
-            "(formula outside its validity on these data): "
-            + ", ".join(m.id for m in not_fitted) + ".")
+    outside = [m.id for m in not_fitted if m.violations]
+    stalled = [m.id for m in not_fitted if not m.violations]
+    parts = ([f"not fitted (formula outside its validity on these data): {', '.join(outside)}"]
+             if outside else [])
+    parts += ([f"not fitted because the sampler could not start (no physics verdict): "
+               f"{', '.join(stalled)}"] if stalled else [])
+    return f" The probabilities are among the {counted} fitted; " + "; ".join(parts) + "."
 
 
 def _skipped_sentence(skipped: tuple[SkippedMechanism, ...]) -> str:

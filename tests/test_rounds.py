@@ -8,9 +8,10 @@ import pytest
 
 from mechid.catalogue import MECHANISMS, get_mechanism
 from mechid.catalogue.base import Mechanism
-from mechid.device import device_from_values
+from mechid.device import Device, device_from_values
+from mechid.errors import MechidWarning
 from mechid.inference.rounds import FitJob, fit_in_rounds
-from mechid.inference.settings import LadderSettings, SearchSettings
+from mechid.inference.settings import QUICK_LADDER, QUICK_SEARCH, LadderSettings, SearchSettings
 from mechid.simulate import simulate_series
 
 TINY_LADDER = LadderSettings(n_temperatures=4, beta_power=2.0, n_walkers=16, n_burn=20,
@@ -68,3 +69,23 @@ def test_worker_processes_give_the_numbers_of_the_in_process_rounds(small_series
     expected = {f"fitting {i}" for i in results[1]}
     assert labels[1] == expected and labels[2] == expected
 
+
+
+def test_a_sampler_that_cannot_start_lists_the_mechanism_as_not_fitted(monkeypatch):
+    # A pilot ensemble emcee refuses (or a reference outside the prior box) must not stop the
+    # analysis: the mechanism is listed as not fitted, with a reason that is not a physics verdict.
+    import mechid.inference.rounds as rounds_module
+    from mechid.inference.reference import SamplerStartError
+
+    def refuse(*args, **kwargs):
+        raise SamplerStartError("the pilot ensemble could not start: test")
+
+    monkeypatch.setattr(rounds_module, "fit_mechanism", refuse)
+    job = rounds_module.FitJob("poole_frenkel", np.random.default_rng(0))
+    shared = rounds_module._SharedInputs(np.array([1.0, 2.0]), np.array([300.0, 300.0]),
+                                         np.array([1e-9, 2e-9]), Device(area_cm2=1e-4),
+                                         QUICK_LADDER, QUICK_SEARCH)
+    with pytest.warns(MechidWarning, match="sampler could not start"):
+        outcome = rounds_module._fit(job, shared, None, None)
+    assert outcome.id == "poole_frenkel" and outcome.violations == ()
+    assert "says nothing about the physics" in outcome.reason

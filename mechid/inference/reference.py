@@ -36,6 +36,7 @@ import numpy as np
 from numpy.typing import NDArray
 from scipy.special import gammaln
 
+from mechid.errors import MechidError
 from mechid.inference.settings import SearchSettings
 from mechid.inference.target import Target
 
@@ -45,6 +46,20 @@ REFERENCE_DOF = 10.0
 REFERENCE_WIDENING = 1.5
 #: Draws used to estimate the reference mass inside the prior support.
 MASS_DRAWS = 200_000
+#: Least share of the reference's mass inside the prior box: below it, exact draws by
+#: rejection would need more than 1000 proposals each.
+MIN_INSIDE_SHARE = 1e-3
+#: Largest batch of proposals drawn at once when sampling the truncated reference.
+MAX_BATCH = 200_000
+
+
+class SamplerStartError(MechidError):
+    """The sampler could not be started for a mechanism on these data (not a physics verdict).
+
+    Raised when the pilot ensemble cannot start or the reference distribution fitted to it
+    lies almost wholly outside the prior box; the analysis lists the mechanism as not fitted
+    with this reason instead of stopping.
+    """
 
 
 @dataclass
@@ -94,8 +109,11 @@ class StudentReference:
         self.log_mass = 0.0
         draws = self._untruncated(self.rng, MASS_DRAWS)
         inside = self._inside(draws).mean()
-        if inside <= 0:
-            raise ValueError("reference distribution has no mass inside the prior support")
+        if inside < MIN_INSIDE_SHARE:
+            raise SamplerStartError(
+                f"the reference distribution fitted to the pilot run puts {inside:.2g} of its "
+                f"mass inside the prior box (at least {MIN_INSIDE_SHARE:g} needed): the pilot "
+                "walkers did not settle inside the parameter ranges")
         self.log_mass = float(np.log(inside))
         self.mass_err = float(np.sqrt((1 - inside) / (inside * MASS_DRAWS)))
 
@@ -135,7 +153,8 @@ class StudentReference:
         kept: list[NDArray] = []
         count = 0
         while count < n:
-            batch = self._untruncated(rng, max(int(1.2 * (n - count) / acceptance) + 8, 16))
+            wanted = max(int(1.2 * (n - count) / acceptance) + 8, 16)
+            batch = self._untruncated(rng, min(wanted, MAX_BATCH))  # bounded memory
             batch = batch[self._inside(batch)]
             kept.append(batch)
             count += len(batch)
@@ -377,11 +396,17 @@ def _pilot_component(
     sampler.random_state = np.random.RandomState(int(rng.integers(2**32 - 1))).get_state()
     # Run in blocks until the ensemble's median log posterior stops rising (the walkers have
     # reached the typical set), then keep the last ``n_steps // 2`` steps.
-    state = sampler.run_mcmc(p0, n_steps // 2, progress=False)
+    try:
+        state = sampler.run_mcmc(p0, n_steps // 2, progress=False)
+    except ValueError as refused:  # emcee: the starting ensemble is (nearly) singular
+        raise SamplerStartError(f"the pilot ensemble could not start: {refused}") from None
     steps = n_steps // 2
     while steps < max_steps:
         previous = np.median(sampler.get_log_prob()[-n_steps // 4:])
-        state = sampler.run_mcmc(state, n_steps // 2, progress=False)
+        try:
+            state = sampler.run_mcmc(state, n_steps // 2, progress=False)
+        except ValueError as refused:  # the ensemble collapsed onto a lower-dimensional set
+            raise SamplerStartError(f"the pilot ensemble collapsed: {refused}") from None
         steps += n_steps // 2
         if np.median(sampler.get_log_prob()[-n_steps // 4:]) - previous < 1.0:
             break

@@ -36,6 +36,7 @@ from mechid.device import Device
 from mechid.errors import MechidWarning
 from mechid.inference.fit import MechanismFit, fit_mechanism
 from mechid.inference.likelihood import set_likelihood_threads
+from mechid.inference.reference import SamplerStartError
 from mechid.inference.settings import LadderSettings, SearchSettings
 from mechid.results import NotFittedMechanism
 
@@ -207,6 +208,12 @@ def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
         warnings.warn(str(refused), MechidWarning, stacklevel=2)
         return NotFittedMechanism(id=mechanism.id, family=mechanism.family, name=mechanism.name,
                                   reason=str(refused), violations=refused.violations)
+    except SamplerStartError as failed:
+        reason = (f"{mechanism.id} was not fitted: the sampler could not start on these data "
+                  f"({failed}); this says nothing about the physics of the mechanism")
+        warnings.warn(reason, MechidWarning, stacklevel=2)
+        return NotFittedMechanism(id=mechanism.id, family=mechanism.family, name=mechanism.name,
+                                  reason=reason, violations=())
 
 
 def _best(leader: float | None, fits: Iterable[_Outcome]) -> float | None:

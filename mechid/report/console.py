@@ -153,7 +153,10 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
         print_undetermined(data, console)
     not_fitted = not_fitted_lines(data)
     if not_fitted:
-        console.print("[bold]Not fitted: formula outside its validity on these data[/bold]"
+        validity_only = all((e.get("violations") or []) for e in data.get("not_fitted") or [])
+        heading = ("Not fitted: formula outside its validity on these data" if validity_only
+                   else "Not fitted (each with its reason)")
+        console.print(f"[bold]{heading}[/bold]"
                       + (" (the probabilities above are among the mechanisms fitted)"
                          if data.get("mechanisms") else ""))
         for line in not_fitted:

@@ -471,6 +471,11 @@ def _not_fitted_html(data: Json) -> str:
             for j, v in enumerate(entry.get("violations") or []))
         items.append(f"<li><b>{esc(entry.get('name'))}</b> ({esc(entry.get('id'))}): "
                      f"{needs or esc(entry.get('reason'))}</li>")
+    if not all(entry.get("violations") for entry in entries):
+        return ("<p><b>Not fitted (each with its reason):</b> these take no part in the "
+                "comparison; the probabilities above are among the "
+                f"{len(data.get('mechanisms') or [])} mechanisms fitted.</p>"
+                f"<ul class='cautions'>{''.join(items)}</ul>")
     return ("<p><b>Not fitted: formula outside its validity on these data:</b> no parameter "
             "set of its prior keeps the formula within the conditions its source states, so it "
             "takes no part in the comparison; the probabilities above are among the "
