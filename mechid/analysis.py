@@ -590,11 +590,14 @@ def _with_families(verdict: Verdict, results: list[MechanismResult],
 
 
 def family_sentence(families: tuple[FamilyProbability, ...]) -> str:
-    """``" By family: tunnelling 0.97 ± 0.01 (2 mechanisms), ..."`` (empty for one family)."""
+    """``" ... by family ...: tunnelling 0.97 (± 0.01; 2 mechanisms), ..."`` (empty for one)."""
     if len(families) < 2:
         return ""
-    parts = [f"{f.family} {format_probability(f.probability)} ± {f.probability_err:.2g} "
-             f"({len(f.members)} mechanism{'' if len(f.members) == 1 else 's'})"
+    def error(value: float) -> str:
+        return "MC error < 0.001" if value < 1e-3 else f"± {value:.2g}"
+
+    parts = [f"{f.family} {format_probability(f.probability)} ({error(f.probability_err)}; "
+             f"{len(f.members)} mechanism{'' if len(f.members) == 1 else 's'})"
              for f in families]
     return " Probability by family, summed over its members: " + ", ".join(parts) + "."
 
