@@ -36,3 +36,19 @@ def test_middle_probabilities_use_the_shared_three_digit_format() -> None:
     texts = _figure_texts([0.6, 0.4])
     assert f"leader, P = {format_probability(0.6)} among the candidates" in texts
     assert "P = 0.4" in texts
+
+
+def test_iv_curves_do_not_join_the_two_polarities_across_zero_bias():
+    # A line from -3 V to +3 V would draw a current through the unmeasured gap (|I| -> 0 at 0 V).
+    import numpy as np
+
+    from mechid.data import IVSeries
+    from mechid.report.figures import iv_curves_figure
+
+    v = np.array([-3.0, -2.0, -1.0, 1.0, 2.0, 3.0])
+    series = IVSeries(np.full(6, 300.0), v, 1e-9 * v)
+    figure = iv_curves_figure(series).figure
+    line = next(line for line in figure.axes[0].get_lines() if line.get_linestyle() == "-")
+    x = np.asarray(line.get_xdata(), dtype=float)
+    gaps = np.flatnonzero(np.isnan(x))
+    assert len(gaps) == 1 and x[gaps[0] - 1] < 0 < x[gaps[0] + 1]

@@ -233,6 +233,18 @@ def _positive_floor(values: FloatArray) -> float:
 # --------------------------------------------------------------------------------------------
 
 
+def _broken_at_zero_bias(voltage_V: FloatArray, current_A: FloatArray
+                         ) -> tuple[FloatArray, FloatArray]:
+    """The sweep (sorted by V) with a NaN gap wherever it changes polarity.
+
+    |I| vanishes at zero bias, so a line joining the last negative to the first positive point
+    would draw a current through an unmeasured region; the gap leaves it out.
+    """
+    crossings = np.flatnonzero(np.sign(voltage_V[:-1]) != np.sign(voltage_V[1:])) + 1
+    return (np.insert(voltage_V.astype(float), crossings, np.nan),
+            np.insert(current_A.astype(float), crossings, np.nan))
+
+
 def iv_curves_figure(series: IVSeries) -> ReportFigure:
     """Measured |I| against V at every temperature, and |I| against |V| on log-log axes.
 
@@ -252,7 +264,7 @@ def iv_curves_figure(series: IVSeries) -> ReportFigure:
             order = np.argsort(series.voltage_V[at_t])
             v, i = series.voltage_V[at_t][order], magnitude[at_t][order]
             ok = i > 0
-            ax_lin.plot(v[ok], i[ok], "o-", color=colour, ms=2.6, lw=0.8,
+            ax_lin.plot(*_broken_at_zero_bias(v[ok], i[ok]), "o-", color=colour, ms=2.6, lw=0.8,
                         label=_temperature_label(t))
             positive, negative = ok & (v > 0), ok & (v < 0)
             ax_log.plot(v[positive], i[positive], "o", color=colour, ms=2.8)
