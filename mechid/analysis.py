@@ -53,7 +53,7 @@ from mechid.inference.settings import (
     LadderSettings,
     SearchSettings,
 )
-from mechid.measurement import measurement_cautions
+from mechid.measurement import measurement_cautions, repeat_agreement
 from mechid.results import (
     QUICK_RUN_BANNER,
     AnalysisResult,
@@ -216,7 +216,8 @@ def run_analysis_full(
     """
     settings = settings or AnalysisSettings()
     started = time.perf_counter()
-    measured = series.summary()
+    measured = {**series.summary(),
+                "repeat_agreement": [asdict(a) for a in repeat_agreement(series)]}
     series, window = apply_windows(series, settings)
     mask = select_polarity(series, settings.polarity)
     if mask.sum() < 3:

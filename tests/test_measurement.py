@@ -149,3 +149,19 @@ def test_console_and_report_show_the_measurement_cautions() -> None:
     for word in ("high voltage", "thermal lag", "written procedures"):
         assert word in buffer.getvalue()
         assert word in html_text
+
+
+def test_repeat_agreement_is_a_json_field_of_the_input() -> None:
+    # The hysteresis/drift number itself, not only a sentence: same values as the diagnostic.
+    from mechid.results import to_plain_json
+
+    up = np.array([1e-9, 4e-9, 9e-9])
+    series = IVSeries(np.full(9, 300.0), np.array([1.0, 2.0, 3.0, 3.0, 2.0, 1.0, -1.0, -2.0, -3.0]),
+                      np.r_[up, 1.2 * up[::-1], -up])
+    run = run_analysis_full(series, Device(area_cm2=1e-4),
+                            AnalysisSettings(screen_only=True), seed=0)
+    (entry,) = to_plain_json(run.result)["input"]["repeat_agreement"]
+    (expected,) = repeat_agreement(series)
+    assert entry == {"temperature_K": 300.0, "n_voltages": 3,
+                     "median_relative_difference": expected.median_relative_difference}
+    assert expected.median_relative_difference == pytest.approx(0.2 / 1.1, rel=1e-13)
