@@ -266,9 +266,9 @@ def test_summary_csv_rows_equal_the_json(fitted_outputs: dict[str, Any]) -> None
 
 def test_corner_labels_carry_units_and_log10(fitted_run: AnalysisRun) -> None:
     columns, labels, _ = corner_labels(fitted_run.predictive["poole_frenkel"])
-    # Poole-Frenkel: phi_T [eV] linear, sigma0 log-uniform in S/cm
+    # Poole-Frenkel: phi_T [eV] linear, sigma0 log-uniform in S/cm: physical unit, log axis
     assert "phi_T [eV]" in labels
-    assert "log10(sigma0 / S/cm)" in labels
+    assert "sigma0 [S/cm] (log axis)" in labels
     assert not any(label.startswith("noise") for label in labels)
     assert len(columns) == len(labels)
 
@@ -352,3 +352,22 @@ def test_report_reads_the_results_and_the_predictive_view_only(
                                device=fitted_run.device, predictive=fitted_run.predictive)
     assert build_report_html(reported) == fitted_outputs["html"]
     assert set(fitted_run.predictive) == set(FITTED_MECHANISMS)
+
+
+def test_corner_ticks_and_titles_are_physical_values(fitted_run: AnalysisRun) -> None:
+    # A log10-sampled axis shows 10**x as its tick labels, the diagonal title physical values.
+    import numpy as np
+
+    from mechid.report.figures import corner_figure
+
+    view = fitted_run.predictive["poole_frenkel"]
+    figure = corner_figure(view).figure
+    n = int(round(len(figure.axes) ** 0.5))
+    names = [axis.name for axis in view.parameters]
+    k = names.index("prefactor_S_per_cm")
+    bottom = figure.axes[(n - 1) * n + k]
+    formatter = bottom.xaxis.get_major_formatter()
+    assert formatter(-3.0, 0) == "0.001" and formatter(2.0, 0) == "1e+02"
+    samples = 10.0 ** next(a.values for a in view.parameters if a.name == "prefactor_S_per_cm")
+    title = figure.axes[k * n + k].get_title()
+    assert title.startswith("sigma0 = ") and f"{np.median(samples):.3g}" in title

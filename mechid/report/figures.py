@@ -534,31 +534,40 @@ def joint_fit_figure(mechanism_result: Mapping[str, Any],
 def corner_labels(view: PosteriorPredictive) -> tuple[list[int], list[str], list[str]]:
     """Columns, axis labels with units and short titles of the physical sampled parameters.
 
-    Noise parameters are not in the view (nuisance; their summaries are in the tables). A
-    parameter sampled in log10 is labelled ``log10(symbol / unit)`` (``log10(symbol)`` when
-    dimensionless); others ``symbol [unit]``, the catalogue's :attr:`Parameter.label`.
+    Noise parameters are not in the view (nuisance; their summaries are in the tables). Every
+    axis is labelled ``symbol [unit]`` (the catalogue's :attr:`Parameter.label`) in physical
+    units; a parameter sampled in log10 is drawn on a logarithmic axis, ``(log axis)``.
     """
     mechanism = get_mechanism(view.mechanism_id)
     columns, labels, titles = [], [], []
     for column, axis in enumerate(view.parameters):
         parameter = mechanism.parameter(axis.name)
-        dimensionless = parameter.unit in ("", "1")
+        label, title = parameter.label, parameter.symbol
         if axis.log10:
-            label = (f"log10({parameter.symbol})" if dimensionless
-                     else f"log10({parameter.symbol} / {parameter.unit})")
-            title = f"log10 {parameter.symbol}"
-        else:
-            label, title = parameter.label, parameter.symbol
+            label += " (log axis)"
         columns.append(column)
         labels.append(label)
         titles.append(title)
     return columns, labels, titles
 
 
-def _quantile_title(symbol: str, values: FloatArray) -> str:
-    """``symbol = median +upper/−lower`` from the 16th, 50th and 84th percentiles (plain text)."""
+def _quantile_title(symbol: str, values: FloatArray, log10: bool = False) -> str:
+    """``symbol = median`` over ``[16th, 84th]`` percentiles, in physical units (plain text).
+
+    ``values`` in log10 (``log10=True``) are shown as the physical values they stand for.
+    """
     lo, mid, hi = np.quantile(values, [0.16, 0.5, 0.84])
-    return f"{symbol} = {mid:.3g}  +{hi - mid:.2g} / −{mid - lo:.2g}"
+    if log10:
+        lo, mid, hi = 10.0**lo, 10.0**mid, 10.0**hi
+    # Enough significant digits that the interval's ends differ from the median.
+    width = max(hi - lo, abs(mid) * 1e-12, 1e-300)
+    digits = int(min(12, max(3, math.ceil(math.log10(max(abs(mid), width) / width)) + 2)))
+    return f"{symbol} = {mid:.{digits}g}\n[{lo:.{digits}g}, {hi:.{digits}g}]"
+
+
+def _physical_log_ticks(axis: Any) -> None:
+    """Tick labels of a log10-sampled axis as the physical values (``1e-06``, ``0.3``)."""
+    axis.set_major_formatter(ticker.FuncFormatter(lambda value, _pos: f"{10.0**value:.2g}"))
 
 
 def corner_figure(view: PosteriorPredictive) -> ReportFigure | None:
@@ -591,17 +600,29 @@ def corner_figure(view: PosteriorPredictive) -> ReportFigure | None:
         for ax in fig.axes:
             ax.grid(False)
             ax.tick_params(labelsize=6)
-        diagonal = np.array(fig.axes).reshape(len(keep), len(keep)).diagonal()
-        for ax, title, column in zip(diagonal, titles, data.T, strict=True):
-            ax.set_title(_quantile_title(title, column), fontsize=7)
+        grid = np.array(fig.axes).reshape(len(keep), len(keep))
+        in_log10 = [view.parameters[columns[k]].log10 for k in keep]
+        last = len(keep) - 1
+        # corner labels only the bottom row (x) and the left column (y); the other axes keep
+        # their empty tick labels.
+        for col in range(len(keep)):
+            if in_log10[col]:
+                _physical_log_ticks(grid[last, col].xaxis)
+        for row in range(1, len(keep)):
+            if in_log10[row]:
+                _physical_log_ticks(grid[row, 0].yaxis)
+        for ax, title, column, log10 in zip(grid.diagonal(), titles, data.T, in_log10,
+                                            strict=True):
+            ax.set_title(_quantile_title(title, column, log10), fontsize=6.5)
     mechanism = get_mechanism(view.mechanism_id)
     caption = (f"Posterior of the {mechanism.name} parameters ({len(data)} draws of the "
                "β = 1 chain), drawn with corner.py (Foreman-Mackey 2016). Two-dimensional "
                "panels: contours enclosing 68 % and 95 % of the posterior mass. Diagonal: "
                "marginal histograms with the median and the 16th/84th percentiles (dashed), "
-               "quoted above each column as median +(84th − median) / −(median − 16th). "
-               "Parameters with log-uniform priors are shown as "
-               "log10(value / unit); the noise parameters are omitted (see the table).")
+               "quoted above each column as the median over [16th, 84th]. Axes are in "
+               "physical units; parameters sampled in log10 (log-uniform prefactors, and "
+               "barrier, thickness or mass where the catalogue samples them so) are drawn on "
+               "logarithmic axes. The noise parameters are omitted (see the table).")
     return ReportFigure(f"{mechanism.id}_posterior", "Posterior", caption, fig, "mechanism",
                         mechanism.id, tight=True)
 
