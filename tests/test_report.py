@@ -370,4 +370,6 @@ def test_corner_ticks_and_titles_are_physical_values(fitted_run: AnalysisRun) ->
     assert formatter(-3.0, 0) == "0.001" and formatter(2.0, 0) == "1e+02"
     samples = 10.0 ** next(a.values for a in view.parameters if a.name == "prefactor_S_per_cm")
     title = figure.axes[k * n + k].get_title()
-    assert title.startswith("sigma0 = ") and f"{np.median(samples):.3g}" in title
+    assert title.startswith("sigma0 = ")
+    shown = float(title.split("=")[1].split("\n")[0])
+    assert shown == pytest.approx(np.median(samples), rel=0.01)  # thinned draws: ~1 % apart
