@@ -38,7 +38,9 @@ from mechid.catalogue.checks import (
     QuantityInRange,
     StraightPlot,
 )
-from mechid.catalogue.tunnelling import (
+from mechid.catalogue.tunnelling import (  # one declaration of thickness and mass
+    _MASS,
+    _thickness,
     forbes_t,
     forbes_v,
     fowler_nordheim_slope_V_per_nm,
@@ -186,19 +188,6 @@ _TRAP_BELOW_BIAS = ValidityCondition(
 )
 
 
-def _thickness(lower: float, upper: float, typical: float) -> Parameter:
-    return Parameter(
-        name="thickness_nm", unit="nm", symbol="d", description="insulator thickness",
-        lower=lower, upper=upper, typical=typical, device_prior="thickness_nm",
-        sample_in_log=True,
-    )
-
-
-_MASS = Parameter(
-    name="effective_mass_ratio", unit="1", symbol="m*/m0",
-    description="tunnelling effective mass in units of the free-electron mass",
-    lower=0.05, upper=1.0, typical=0.5, device_prior="effective_mass_ratio", sample_in_log=True,
-)
 
 TRAP_ASSISTED_TUNNELLING = Mechanism(
     id="trap_assisted_tunnelling",
