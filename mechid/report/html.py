@@ -42,6 +42,7 @@ from mechid.report.text import (
     key_parameters,
     mechanism_name,
     methods_paragraph,
+    noise_law_sentence,
     parameter_symbol,
     polarity_comparison_lines,
     priors_paragraph,
@@ -596,6 +597,9 @@ def _noise_text(data: Json) -> str:
             f"{num(floor.get('median'), '.3g', 'mechanisms.0.parameters.noise_floor_A.median')} A "
             f"(posterior medians; ratio fitted / model-free = "
             f"{num(adequacy.get('noise_ratio'), '.3g')}).</p>")
+    law = noise_law_sentence(data)
+    if law:
+        text += f"<p>Noise law of every fit: {esc(law)}</p>"
     return text
 
 
