@@ -881,6 +881,10 @@ DIODE_LINES: tuple[tuple[str, str, tuple[str, ...]], ...] = (
      ("rho2", "rho3_V")),
     ("modified_richardson", "modified Richardson plot (Werner & Güttler 1991)",
      ("mean_barrier_eV", "richardson_constant_A_cm2_K2", "area_times_richardson_A_K2")),
+    ("thermionic_field_ideality",
+     "n(T) against (E₀₀/kT) coth(E₀₀/kT), thermionic-field emission (Padovani & Stratton 1966)",
+     ("characteristic_energy_eV", "characteristic_energy_from_doping_eV",
+      "rms_ideality_residual")),
 )
 
 
