@@ -40,6 +40,8 @@ from mechid.inference.compare import (
     rank_mechanisms,
 )
 from mechid.inference.fit import MechanismFit
+from mechid.inference.noise import DEFAULT_NOISE_LAW
+from mechid.inference.noise_choice import AUTO, NoiseLawChoice, as_requested, choose_noise_law
 from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.priors import Prior
 from mechid.inference.regimes import RegimeMap, regime_map
@@ -103,6 +105,10 @@ class AnalysisSettings:
         range of a Fowler-Nordheim analysis. Screening, fit and report all use the window.
     temperature_window_K : (float, float), optional
         Analyse only temperatures with ``low <= T <= high``.
+    noise_law : str
+        A law of :mod:`mechid.inference.noise` (``"gaussian"``, ``"lognormal_floor"``,
+        ``"student_t"``) or ``"auto"``: chosen by evidence on the screening's most promising
+        mechanism (:mod:`mechid.inference.noise_choice`).
     """
 
     mechanisms: tuple[str, ...] | None = None
@@ -114,6 +120,7 @@ class AnalysisSettings:
     ladder_overrides: Mapping[str, Any] = field(default_factory=dict)
     bias_window_V: tuple[float, float] | None = None
     temperature_window_K: tuple[float, float] | None = None
+    noise_law: str = DEFAULT_NOISE_LAW
 
     def ladder(self) -> LadderSettings:
         """The tempered-ladder settings these choices imply."""
@@ -229,6 +236,7 @@ def run_analysis_full(
     not_fitted: tuple[NotFittedMechanism, ...] = ()
     skipped: tuple[SkippedMechanism, ...] = ()
     comparison: tuple[PolarityComparison, ...] = ()
+    noise: NoiseLawChoice | None = None
     if not settings.screen_only:
         _check_area(device, mechanisms)
         children = master.spawn(len(mechanisms))
@@ -242,14 +250,16 @@ def run_analysis_full(
                        for m, child in zip(mechanisms, children, strict=True)
                        if m.id not in left_out),
                       key=lambda job: screening.get(job.mechanism_id, len(screening)))
+        noise = _noise_law_choice(settings, jobs, series, mask, device, master, progress)
         outcome = fit_candidates_in_rounds(
             jobs, series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
             device, settings.ladder(), settings.search(),
             workers=settings.workers or default_workers(), progress=progress,
+            noise_law=noise.law,
         )
         if settings.polarity == "each":
             comparison = _compare_polarities(jobs, outcome.fits, series, device, settings,
-                                             master, progress)
+                                             master, progress, noise)
         # A mechanism whose formula holds nowhere on the data is listed as not fitted, why.
         fits = {m.id: outcome.fits[m.id] for m in mechanisms if m.id in outcome.fits}
         not_fitted = tuple(outcome.not_fitted[m.id] for m in mechanisms
@@ -284,9 +294,31 @@ def run_analysis_full(
         polarity_comparison=comparison,
         regime_map=regimes,
         prior_sensitivity=sensitivity,
+        noise_law=noise,
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
+
+
+def _noise_law_choice(settings: AnalysisSettings, jobs: list[FitJob], series: IVSeries,
+                      mask: np.ndarray, device: Device, master: np.random.Generator,
+                      progress: ProgressHook | None) -> NoiseLawChoice:
+    """The law asked for, or (``auto``) the one the probe's evidences pick.
+
+    The probe's random stream is spawned from ``master`` only for ``auto``, after the fits'
+    streams, so a named law leaves every other number of the run as it was.
+    """
+    if settings.noise_law != AUTO or not jobs:
+        return as_requested(DEFAULT_NOISE_LAW if settings.noise_law == AUTO
+                            else settings.noise_law)
+    probe = get_mechanism(jobs[0].mechanism_id)
+    if progress is not None:
+        progress(f"noise law on {probe.id}", 0, 1)
+    choice = choose_noise_law(probe, series.voltage_V[mask], series.temperature_K[mask],
+                              series.current_A[mask], device, master.spawn(1)[0])
+    if progress is not None:
+        progress(f"noise law on {probe.id}", 1, 1)
+    return choice
 
 
 def _regime_map(results: list[MechanismResult], fits: Mapping[str, MechanismFit],
@@ -327,8 +359,8 @@ def _skipped_mechanisms(mechanisms: list[Mechanism], lin: LinearisationResult,
 
 def _compare_polarities(jobs: list[FitJob], shared: Mapping[str, MechanismFit],
                         series: IVSeries, device: Device, settings: AnalysisSettings,
-                        master: np.random.Generator,
-                        progress: ProgressHook | None) -> tuple[PolarityComparison, ...]:
+                        master: np.random.Generator, progress: ProgressHook | None,
+                        noise: NoiseLawChoice) -> tuple[PolarityComparison, ...]:
     """Fit every jointly fitted mechanism to each polarity alone; compare with the joint fit.
 
     Each side gets fresh random streams spawned after the joint fit's (so the joint numbers
@@ -350,6 +382,7 @@ def _compare_polarities(jobs: list[FitJob], shared: Mapping[str, MechanismFit],
             side_jobs, series.voltage_V[keep], series.temperature_K[keep], series.current_A[keep],
             device, settings.ladder(), settings.search(),
             workers=settings.workers or default_workers(), progress=progress,
+            noise_law=noise.law,
         ).fits
     found = []
     for job in wanted:

@@ -28,6 +28,7 @@ from mechid.catalogue import get_mechanism
 from mechid.data import IVSeries, read_series, series_from_table
 from mechid.device import Device, device_from_values, find_device_toml, read_device_toml
 from mechid.errors import DeviceError, MechidError
+from mechid.inference.noise_choice import noise_law_setting
 from mechid.outputs import InputFiles, check_output_paths, input_files
 from mechid.results import AnalysisResult, to_plain_json
 
@@ -139,6 +140,7 @@ def analyse(
     progress: ProgressHook | None = None,
     bias_window_V: tuple[float, float] | None = None,
     temperature_window_K: tuple[float, float] | None = None,
+    noise_law: str = "gaussian",
 ) -> Analysis:
     """Analyse an I-V-T series: screening, joint fits, evidences, ranking.
 
@@ -159,6 +161,9 @@ def analyse(
     bias_window_V, temperature_window_K : (float, float), optional
         As ``--bias-window`` and ``--temperature-window``: analyse only
         ``low <= |V| <= high`` volts and ``low <= T <= high`` kelvin.
+    noise_law : str
+        As ``--noise-law``: ``"gaussian"`` (default), ``"lognormal_floor"``, ``"student_t"``
+        or ``"auto"`` (chosen by evidence, :mod:`mechid.inference.noise_choice`).
 
     Returns
     -------
@@ -180,6 +185,7 @@ def analyse(
         mechanisms=tuple(mechanisms) if mechanisms else None, quick=quick, screen_only=screen_only,
         polarity=polarity, prior_odds=dict(prior_odds) if prior_odds else None, workers=workers,
         bias_window_V=bias_window_V, temperature_window_K=temperature_window_K,
+        noise_law=noise_law_setting(noise_law),
     )
     run = run_analysis_full(series, used_device, settings, seed=seed, progress=progress)
     inputs = (input_files(data_path, series.sources, device_path) if data_path is not None

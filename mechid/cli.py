@@ -236,6 +236,9 @@ def simulate_command(
         "--noise-relative", help="Relative noise sd (0.02 = 2 %).")] = 0.0,
     noise_floor: Annotated[float, typer.Option(
         "--noise-floor-A", help="Absolute noise floor sd in A.")] = 0.0,
+    noise_law: Annotated[str, typer.Option(
+        "--noise-law", metavar="LAW",
+        help="gaussian (default), lognormal-floor or student-t.")] = "gaussian",
     area: AreaOpt = None,
     seed: SeedOpt = 0,
 ) -> None:
@@ -254,10 +257,21 @@ def simulate_command(
             _parse_number_list(temperatures, "--temperatures-K"),
             _parse_number_list(voltages, "--voltages-V"),
             device, noise_relative=noise_relative, noise_floor_A=noise_floor,
-            rng=np.random.default_rng(seed),
+            rng=np.random.default_rng(seed), noise_law=_simulation_noise_law(noise_law),
         )
         write_series_csv(result, out_path)
     err.print(f"wrote {result.current_A.size} points to {out_path}", highlight=False, markup=False)
+
+
+def _simulation_noise_law(value: str):  # noqa: ANN202
+    """The named noise law for ``simulate`` ("auto" chooses by evidence, so only for fits)."""
+    from mechid.inference.noise import get_noise_law
+    from mechid.inference.noise_choice import AUTO, noise_law_setting
+
+    setting = noise_law_setting(value)
+    if setting == AUTO:
+        raise MechidError("simulate needs a named noise law (auto chooses one for fits only)")
+    return get_noise_law(setting)
 
 
 def _progress_hook(progress: Progress):  # noqa: ANN202
@@ -315,11 +329,16 @@ def analyze_command(
     temperature_window: Annotated[str | None, typer.Option(
         "--temperature-window", metavar="LO:HI",
         help="Analyse only temperatures LO <= T <= HI kelvin (e.g. 77:300).")] = None,
+    noise_law: Annotated[str, typer.Option(
+        "--noise-law", metavar="LAW",
+        help="How readings scatter: gaussian (default), lognormal-floor, student-t, or auto "
+             "(chosen by evidence on the most promising mechanism).")] = "gaussian",
     seed: SeedOpt = 0,
 ) -> None:
     """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""
     from mechid.analysis import AnalysisSettings, run_analysis_full
     from mechid.data import read_series
+    from mechid.inference.noise_choice import noise_law_setting
     from mechid.outputs import check_output_paths, input_files
 
     with _user_errors():
@@ -345,6 +364,7 @@ def analyze_command(
             polarity=polarity, prior_odds=parse_prior_odds(prior_odds) or None, workers=workers,
             bias_window_V=parse_window("--bias-window", bias_window),
             temperature_window_K=parse_window("--temperature-window", temperature_window),
+            noise_law=noise_law_setting(noise_law),
         )
         with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
                       TimeElapsedColumn(), console=err, transient=False,

@@ -26,6 +26,7 @@ if TYPE_CHECKING:
     from mechid.inference.adequacy import AdequacyCheck
     from mechid.inference.compare import FamilyProbability
     from mechid.inference.evidence import EvidenceResult
+    from mechid.inference.noise_choice import NoiseLawChoice
     from mechid.inference.priors import Prior
     from mechid.inference.regimes import RegimeMap
 
@@ -367,6 +368,8 @@ class AnalysisResult:
     regime_map: RegimeMap | None = None
     #: Bayes factors under halved and doubled catalogue ranges (None: not run by this path).
     prior_sensitivity: PriorSensitivity | None = None
+    #: The noise law every fit used and why (None: screening only).
+    noise_law: NoiseLawChoice | None = None
 
     def mechanism(self, mechanism_id: str) -> MechanismResult:
         """The result for one mechanism id."""

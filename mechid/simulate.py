@@ -1,7 +1,7 @@
-"""Simulate I-V-T series from a catalogue mechanism, optionally with the fit's noise model.
+"""Simulate I-V-T series from a catalogue mechanism, optionally with a fit's noise law.
 
-The noise model is the one the Bayesian fit assumes (:mod:`mechid.inference.noise`):
-Gaussian with standard deviation sqrt((s_rel * I)^2 + floor^2).
+The noise laws are the ones the Bayesian fit can assume (:mod:`mechid.inference.noise`); the
+default is Gaussian with standard deviation sqrt((s_rel * I)^2 + floor^2).
 """
 
 from __future__ import annotations
@@ -18,7 +18,7 @@ from mechid.data import TEMPERATURE_RANGE_K
 from mechid.device import Device
 from mechid.errors import MechidError
 from mechid.formatting import unit_suffix
-from mechid.inference.noise import add_noise, noise_sd
+from mechid.inference.noise import GAUSSIAN, LOGNORMAL_FLOOR, NoiseLaw, noise_sd
 
 
 @dataclass(frozen=True)
@@ -41,6 +41,7 @@ def simulate_series(
     noise_relative: float = 0.0,
     noise_floor_A: float = 0.0,
     rng: np.random.Generator | None = None,
+    noise_law: NoiseLaw = GAUSSIAN,
 ) -> SimulatedSeries:
     """Model currents of ``mechanism`` on the grid ``temperatures_K x voltages_V``.
 
@@ -58,6 +59,9 @@ def simulate_series(
         Noise model: standard deviation sqrt((noise_relative*I)^2 + noise_floor_A^2).
     rng : numpy.random.Generator, optional
         Source of the noise (needed only when noise is asked for).
+    noise_law : NoiseLaw
+        How the readings scatter (default Gaussian). The log-normal-with-floor law needs
+        both noise levels above zero.
 
     Returns
     -------
@@ -82,6 +86,9 @@ def simulate_series(
         raise MechidError("voltages must be finite numbers")
     if not all(np.isfinite(x) and x >= 0 for x in (noise_relative, noise_floor_A)):
         raise MechidError("noise levels must be finite numbers >= 0")
+    if noise_law is LOGNORMAL_FLOOR and min(noise_relative, noise_floor_A) <= 0:
+        raise MechidError("the lognormal-floor noise law needs a relative noise and a noise "
+                          "floor both above zero")
     _check_ranges(mechanism, params)
     t_grid, v_grid = (a.ravel() for a in np.meshgrid(temperatures, voltages, indexing="ij"))
     clean = mechanism.current(v_grid, t_grid, params, device)
@@ -94,7 +101,7 @@ def simulate_series(
     if np.any(sd > 0):
         if rng is None:
             raise MechidError("noise was requested but no random generator (seed) was given")
-        noisy = add_noise(clean, sd, rng)
+        noisy = noise_law.draw(clean, noise_relative, noise_floor_A, rng)
     else:
         noisy = clean.copy()
     return SimulatedSeries(t_grid, v_grid, noisy, clean)

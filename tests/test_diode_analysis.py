@@ -303,3 +303,60 @@ def test_report_figures_and_section_only_for_a_diode():
     data = {"linearisation": linearise(ohmic, DEVICE).to_dict()}
     assert diode_figures(data, ohmic, DEVICE) == []
     assert _diode_section(data, Figures()) == ""
+
+
+# --------------------------------------------------------------------------------------------
+# Thermionic-field signature (Padovani & Stratton, Solid-State Electron. 9, 695 (1966))
+# --------------------------------------------------------------------------------------------
+
+
+def test_characteristic_energy_from_doping_matches_the_textbook_number():
+    from mechid.screening.diode import characteristic_energy_from_doping_eV
+
+    # E00 = 18.5e-12 sqrt(N/(m_r eps_r)) eV with N in cm^-3 (Sze & Ng, metal-semiconductor
+    # chapter; the rounded number from memory). Same from scipy.constants written here.
+    assert characteristic_energy_from_doping_eV(1e18, 1.0, 1.0) == pytest.approx(18.5e-3, rel=0.005)
+    n, eps, mass = 2e19, 12.9, 0.067  # heavily doped GaAs-like values (from memory)
+    direct = constants.hbar / 2 * math.sqrt(n * 1e6 / (mass * constants.m_e * eps
+                                                       * constants.epsilon_0))
+    assert characteristic_energy_from_doping_eV(n, eps, mass) == pytest.approx(direct, rel=1e-12)
+
+
+def test_thermionic_field_ideality_has_both_limits():
+    from mechid.screening.diode import ideality_thermionic_field
+
+    # E00 << kT: thermionic emission, n -> 1 + (E00/kT)^2/3; E00 >> kT: field emission,
+    # n -> E00/kT (coth -> 1). Series of x coth x, written independently.
+    x_small = 1e-4 / (KB_EV * 300)  # the next term, -x^4/45, is below 1e-11
+    assert ideality_thermionic_field(1e-4, 300.0) == pytest.approx(1.0 + x_small**2 / 3, rel=1e-10)
+    assert ideality_thermionic_field(0.1, 20.0) == pytest.approx(0.1 / (KB_EV * 20.0), rel=1e-12)
+    x = 0.7
+    assert ideality_thermionic_field(x * KB_EV * 150.0, 150.0) == pytest.approx(
+        x * math.cosh(x) / math.sinh(x), rel=1e-12)
+
+
+def test_doping_implied_and_fitted_characteristic_energy_agree_on_a_thermionic_field_diode():
+    from mechid.screening.diode import ideality_thermionic_field
+
+    energy = 0.030  # eV: n from 1.4 at 250 K to 1.18 at 400 K
+    doping = Measured(3.0e18, 0.3e18)
+    eps, mass = Measured(12.9, 0.1), Measured(0.067, 0.002)
+    implied = 0.5 * constants.hbar * math.sqrt(3.0e24 / (0.067 * constants.m_e * 12.9
+                                                        * constants.epsilon_0))
+    device = Device(area_cm2=AREA_CM2, richardson_constant_A_cm2_K2=Measured(RICHARDSON),
+                    doping_cm3=doping, semiconductor_dielectric_constant=eps,
+                    semiconductor_effective_mass_ratio=mass)
+    series = simulate(TEMPS, np.linspace(0.01, 1.0, 100), lambda t: 0.9,
+                      lambda t: float(ideality_thermionic_field(energy, t)), rs=2.0,
+                      both_polarities=True)
+    line = analyse(series, device).thermionic_field_ideality
+    assert line.determined, line.detail
+    q = line.quantities
+    assert q["characteristic_energy_eV"] == pytest.approx(energy, rel=0.03)
+    assert q["characteristic_energy_eV_err"] > 0
+    assert q["rms_ideality_residual"] < 0.02  # measured 0.012: the semilog lines' own n bias
+    assert q["characteristic_energy_from_doping_eV"] == pytest.approx(implied, rel=1e-9)
+    assert 0 < q["characteristic_energy_from_doping_eV_err"] < 0.1 * implied
+    # Without the doping values the comparison is not made, and the line says why.
+    flat = analyse(simulate(TEMPS, VOLTS, lambda t: 0.75, lambda t: 1.05, both_polarities=True))
+    assert "not given" in flat.thermionic_field_ideality.detail

@@ -23,7 +23,6 @@ import numpy as np
 from numpy.typing import NDArray
 
 from mechid.inference.likelihood import MechanismTarget
-from mechid.inference.noise import add_noise
 from mechid.inference.priors import NOISE_RELATIVE
 
 #: Smallest posterior predictive p-value accepted (common practice).
@@ -124,12 +123,11 @@ def check_adequacy(
     theta = posterior_draws[pick]
     order, group = group_order(target.voltage_V, target.temperature_K)
     model = target.model_current(theta)[:, order]
-    sd = target.noise_sd(theta, model)
     observed = target.current_A[order]
-    replicated = add_noise(model, sd, rng)
+    replicated = target.draw_noisy(theta, model, rng)
 
-    chi2_obs = np.sum(((observed - model) / sd) ** 2, axis=1)
-    chi2_rep = np.sum(((replicated - model) / sd) ** 2, axis=1)
+    chi2_obs = np.sum(target.standardise(theta, model, observed) ** 2, axis=1)
+    chi2_rep = np.sum(target.standardise(theta, model, replicated) ** 2, axis=1)
     runs_obs = count_runs(observed - model, group)
     runs_rep = count_runs(replicated - model, group)
     p_chi2 = float(np.mean(chi2_rep >= chi2_obs))
@@ -138,7 +136,8 @@ def check_adequacy(
     median_theta = np.median(posterior_draws, axis=0)
     residuals = target.standardised_residuals(median_theta)
     dof = max(target.n_points - target.ndim, 1)
-    fitted_rel = float(np.median(target.physical_values(theta)[NOISE_RELATIVE]))
+    fitted_rel = float(np.median(target.physical_values(theta)[NOISE_RELATIVE])
+                       * target.noise_law.sd_per_scale)
     model_free = model_free_relative_noise(target.voltage_V, target.temperature_K, target.current_A)
     ratio = None
     if model_free is not None:

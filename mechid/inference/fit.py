@@ -23,6 +23,7 @@ from mechid.inference.domain import check_domain
 from mechid.inference.evidence import EvidenceResult, estimate_evidence
 from mechid.inference.flags import FAR_BELOW_MARGIN, SamplerFlag
 from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.noise import GAUSSIAN, NoiseLaw
 from mechid.inference.predictive import PosteriorPredictive, posterior_predictive
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, mechanism_priors
 from mechid.inference.reference import PilotRun, ReferencePathTarget, pilot_reference
@@ -84,6 +85,7 @@ def fit_mechanism(
     *,
     search: SearchSettings,
     leader_log_evidence: float | None = None,
+    noise_law: NoiseLaw = GAUSSIAN,
 ) -> MechanismFit:
     """Fit one mechanism jointly to all points and estimate its evidence.
 
@@ -116,9 +118,12 @@ def fit_mechanism(
         Best log-evidence of the mechanisms already fitted (earlier rounds, see
         :mod:`mechid.inference.rounds`): a mechanism far below it is not refined beyond the
         first production block (flag ``far_below``).
+    noise_law : NoiseLaw
+        How the measured currents scatter about the model (:mod:`mechid.inference.noise`).
     """
     priors = mechanism_priors(mechanism, device, current_A)
-    target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors)
+    target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors,
+                             noise_law=noise_law)
     modes = find_modes(target, rng, hints, search=search)
     if not np.isfinite(modes[0].log_posterior):
         raise _not_applicable(mechanism, target, device, rng)

@@ -1,10 +1,10 @@
 """Joint multi-temperature likelihood of one mechanism, vectorised over walkers and points.
 
-Noise model: the heteroscedastic Gaussian of :mod:`mechid.inference.noise`,
-sigma_i^2 = (s_rel I(V_i, T_i; theta))^2 + sigma_floor^2, so points near the floor (including
-negative readings at tiny bias) are weighted correctly. Both noise parameters are nuisance
-parameters with stated priors (:func:`mechid.inference.priors.noise_priors`), marginalised
-by the sampler.
+Noise model: one of the laws of :mod:`mechid.inference.noise` (by default the heteroscedastic
+Gaussian, sigma_i^2 = (s_rel I(V_i, T_i; theta))^2 + sigma_floor^2, so points near the floor,
+including negative readings at tiny bias, are weighted correctly). Both noise parameters are
+nuisance parameters with stated priors (:func:`mechid.inference.priors.noise_priors`),
+marginalised by the sampler.
 
 Physical parameters are shared across all temperatures and both polarities (a mechanism whose
 parameters differ between the polarities declares them separately, see
@@ -23,7 +23,13 @@ from numpy.typing import NDArray
 
 from mechid.catalogue.base import Mechanism
 from mechid.device import Device
-from mechid.inference.noise import noise_sd, noise_variance, summed_log_density
+from mechid.inference.noise import (
+    GAUSSIAN,
+    NoiseLaw,
+    noise_sd,
+    noise_variance,
+    summed_log_density,
+)
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, Prior
 
 _MAX_THREADS = max(1, min(4, os.cpu_count() or 1))
@@ -60,6 +66,8 @@ class MechanismTarget:
         True (what fits use): the model is NaN, so the likelihood -inf, outside the
         formula's validity domain. False: the bare formula (the domain check of
         :mod:`mechid.inference.domain` only).
+    noise_law : NoiseLaw, optional
+        How the measured currents scatter about the model (default: Gaussian in current).
     """
 
     mechanism: Mechanism
@@ -69,6 +77,7 @@ class MechanismTarget:
     device: Device
     priors: tuple[Prior, ...]
     enforce_validity: bool = True
+    noise_law: NoiseLaw = GAUSSIAN
     free: tuple[Prior, ...] = field(init=False)
 
     def __post_init__(self) -> None:
@@ -146,9 +155,23 @@ class MechanismTarget:
         return magnitude[:, self._inverse] * self._sign
 
     def noise_sd(self, theta: NDArray, model: NDArray) -> NDArray:
-        """Per-point noise standard deviation in A, shape ``(m, n)``."""
+        """Per-point ``sqrt((s_rel I)^2 + floor^2)`` in A, shape ``(m, n)``.
+
+        The standard deviation under the Gaussian law, the scale under Student-t.
+        """
         values = self.physical_values(theta)
         return noise_sd(model, values[NOISE_RELATIVE], values[NOISE_FLOOR])
+
+    def standardise(self, theta: NDArray, model: NDArray, observed: NDArray) -> NDArray:
+        """Residuals of ``observed`` about ``model`` in units of the noise law, ``(m, n)``."""
+        values = self.physical_values(theta)
+        return self.noise_law.standardise(observed, model, values[NOISE_RELATIVE],
+                                          values[NOISE_FLOOR])
+
+    def draw_noisy(self, theta: NDArray, model: NDArray, rng: np.random.Generator) -> NDArray:
+        """Measured currents simulated about ``model`` by the noise law, ``(m, n)``."""
+        values = self.physical_values(theta)
+        return self.noise_law.draw(model, values[NOISE_RELATIVE], values[NOISE_FLOOR], rng)
 
     def log_prior(self, theta: NDArray) -> NDArray:
         """Normalised log prior of internal vectors ``(m, ndim)`` -> ``(m,)``.
@@ -159,7 +182,7 @@ class MechanismTarget:
         return self._vector_prior.log_density(np.atleast_2d(theta))
 
     def log_likelihood(self, theta: NDArray) -> NDArray:
-        """Gaussian log likelihood of the series, ``(m, ndim)`` -> ``(m,)``; -inf where invalid.
+        """Log likelihood of the series under the noise law, ``(m, ndim)`` -> ``(m,)``; -inf where invalid.
 
         Large batches are split in chunks evaluated on a small thread pool: NumPy releases
         the GIL inside its array loops, so the chunks run on separate cores.
@@ -180,14 +203,25 @@ class MechanismTarget:
         return result
 
     def _log_likelihood_block(self, theta: NDArray) -> NDArray:
-        """Per pair u with n_u points: sum_i (I_i - s_i m_u)^2 = S2_u - 2 m_u S1_u + n_u m_u^2."""
+        """The summed log density of the points; -inf where the model is invalid.
+
+        Gaussian law, per pair u with n_u points:
+        sum_i (I_i - s_i m_u)^2 = S2_u - 2 m_u S1_u + n_u m_u^2 (sufficient statistics).
+        Other laws: the law's density point by point.
+        """
         with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
             values = self.physical_values(theta)
             magnitude = self._pair_magnitude(values) * self._pair_nonzero  # model 0 at V = 0
-            variance = noise_variance(magnitude, values[NOISE_RELATIVE], values[NOISE_FLOOR])
-            squares = (self._pair_square_sum - 2.0 * magnitude * self._pair_signed_sum
-                       + self._pair_count * magnitude**2)
-            loglike = summed_log_density(squares, variance, self._pair_count)
+            relative, floor = values[NOISE_RELATIVE], values[NOISE_FLOOR]
+            if self.noise_law is GAUSSIAN:
+                variance = noise_variance(magnitude, relative, floor)
+                squares = (self._pair_square_sum - 2.0 * magnitude * self._pair_signed_sum
+                           + self._pair_count * magnitude**2)
+                loglike = summed_log_density(squares, variance, self._pair_count)
+            else:
+                model = magnitude[:, self._inverse] * self._sign
+                loglike = np.sum(self.noise_law.log_density(self.current_A, model, relative,
+                                                            floor), axis=1)
             if self.mechanism.window_condition is not None and self.enforce_validity:
                 physical = {name: values[name] for name in self.mechanism.parameter_names}
                 admissible = self.mechanism.window_condition(
@@ -209,10 +243,14 @@ class MechanismTarget:
         return np.column_stack([p.sample(rng, n) for p in self.free])
 
     def standardised_residuals(self, theta: NDArray) -> NDArray:
-        """(I_obs - I_model)/sigma for one internal vector, shape ``(n,)``."""
+        """Residuals in units of the noise law for one internal vector, shape ``(n,)``.
+
+        (I_obs - I_model)/sigma for the Gaussian and Student-t laws, the glog difference over
+        s_rel for the log-normal law.
+        """
         theta = np.atleast_2d(theta)[:1]
         model = self.model_current(theta)
-        return ((self.current_A - model) / self.noise_sd(theta, model))[0]
+        return self.standardise(theta, model, self.current_A)[0]
 
 
 @dataclass(frozen=True)

@@ -18,7 +18,6 @@ import numpy as np
 from numpy.typing import NDArray
 
 from mechid.inference.likelihood import MechanismTarget
-from mechid.inference.noise import add_noise, noise_sd
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE
 
 #: Posterior draws used for the predictive band (fixed subset: same view for the same run).
@@ -186,8 +185,8 @@ def predictive_band(target: MechanismTarget, draws: NDArray, voltage_V: NDArray,
     physical = {name: values[name] for name in target.mechanism.parameter_names}
     with np.errstate(all="ignore"):
         model = target.mechanism.current(voltage_V, temperature_K, physical, target.device)
-        sd = noise_sd(model, values[NOISE_RELATIVE], values[NOISE_FLOOR])
-        noisy = add_noise(model, sd, np.random.default_rng(BAND_SEED))
+        noisy = target.noise_law.draw(model, values[NOISE_RELATIVE], values[NOISE_FLOOR],
+                                      np.random.default_rng(BAND_SEED))
     sign = np.sign(voltage_V)
     median = _nan_quantiles(model * sign, [0.5])[0]
     lower, upper = _nan_quantiles(noisy * sign, [0.025, 0.975])

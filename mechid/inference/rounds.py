@@ -36,6 +36,7 @@ from mechid.device import Device
 from mechid.errors import MechidWarning
 from mechid.inference.fit import MechanismFit, fit_mechanism
 from mechid.inference.likelihood import set_likelihood_threads
+from mechid.inference.noise import GAUSSIAN, NoiseLaw
 from mechid.inference.reference import SamplerStartError
 from mechid.inference.settings import LadderSettings, SearchSettings
 from mechid.results import NotFittedMechanism
@@ -65,6 +66,7 @@ class _SharedInputs:
     device: Device
     ladder: LadderSettings
     search: SearchSettings
+    noise_law: NoiseLaw = GAUSSIAN
 
 
 @dataclass(frozen=True)
@@ -99,6 +101,7 @@ def fit_candidates_in_rounds(
     search: SearchSettings,
     workers: int = 1,
     progress: ProgressHook | None = None,
+    noise_law: NoiseLaw = GAUSSIAN,
 ) -> RoundsOutcome:
     """Fit every job, ``ROUND_SIZE`` at a time; the fits and the mechanisms not fitted.
 
@@ -118,6 +121,8 @@ def fit_candidates_in_rounds(
         Worker processes; 1 fits in this process. The numbers do not depend on it.
     progress : callable, optional
         ``progress(label, done, total)`` while sampling.
+    noise_law : NoiseLaw
+        The noise law of every fit.
 
     Returns
     -------
@@ -126,7 +131,7 @@ def fit_candidates_in_rounds(
         these data with the conditions that fail (a MechidWarning says so too).
     """
     shared = _SharedInputs(np.asarray(voltage_V, float), np.asarray(temperature_K, float),
-                           np.asarray(current_A, float), device, ladder, search)
+                           np.asarray(current_A, float), device, ladder, search, noise_law)
     if ladder.max_production > ladder.n_production:
         rounds = [list(jobs[i: i + ROUND_SIZE]) for i in range(0, len(jobs), ROUND_SIZE)]
     else:  # no extensions, so no far-below decisions: one round, no waiting between fits
@@ -203,6 +208,7 @@ def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
             mechanism, shared.voltage_V, shared.temperature_K,
             shared.current_A, shared.device, shared.ladder, job.rng, hints=job.hints,
             progress=hook, search=shared.search, leader_log_evidence=leader,
+            noise_law=shared.noise_law,
         )
     except FormulaNotApplicableError as refused:
         warnings.warn(str(refused), MechidWarning, stacklevel=2)

@@ -400,7 +400,8 @@ def refit_log_evidence(
                                           if changed[k].lower < v < changed[k].upper})
     target = fit.target
     again = fit_mechanism(widened, target.voltage_V, target.temperature_K, target.current_A,
-                          target.device, ladder, rng, hints, search=search)
+                          target.device, ladder, rng, hints, search=search,
+                          noise_law=target.noise_law)
     return again.result.log_evidence, again.result.log_evidence_err
 
 

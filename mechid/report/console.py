@@ -24,6 +24,7 @@ from mechid.report.text import (
     fmt_probability,
     is_number,
     key_parameters,
+    noise_law_sentence,
     parameter_symbol,
     polarity_comparison_lines,
     screening_entry,
@@ -183,6 +184,9 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
         console.print("Screening only (no Bayesian fit): "
                       + (f"the straightened plots favour {escape(str(best))}." if best
                          else "no mechanism could be assessed."))
+    noise = noise_law_sentence(data)
+    if noise:
+        console.print(f"[bold]Noise law:[/bold] {escape(noise)}")
     sensitivity = data.get("prior_sensitivity") or {}
     if sensitivity.get("computed"):
         console.print(f"[bold]Prior sensitivity:[/bold] {escape(str(sensitivity.get('sentence')))}")

@@ -42,6 +42,7 @@ from mechid.report.text import (
     key_parameters,
     mechanism_name,
     methods_paragraph,
+    noise_law_sentence,
     parameter_symbol,
     polarity_comparison_lines,
     priors_paragraph,
@@ -596,6 +597,9 @@ def _noise_text(data: Json) -> str:
             f"{num(floor.get('median'), '.3g', 'mechanisms.0.parameters.noise_floor_A.median')} A "
             f"(posterior medians; ratio fitted / model-free = "
             f"{num(adequacy.get('noise_ratio'), '.3g')}).</p>")
+    law = noise_law_sentence(data)
+    if law:
+        text += f"<p>Noise law of every fit: {esc(law)}</p>"
     return text
 
 
@@ -877,6 +881,10 @@ DIODE_LINES: tuple[tuple[str, str, tuple[str, ...]], ...] = (
      ("rho2", "rho3_V")),
     ("modified_richardson", "modified Richardson plot (Werner & Güttler 1991)",
      ("mean_barrier_eV", "richardson_constant_A_cm2_K2", "area_times_richardson_A_K2")),
+    ("thermionic_field_ideality",
+     "n(T) against (E₀₀/kT) coth(E₀₀/kT), thermionic-field emission (Padovani & Stratton 1966)",
+     ("characteristic_energy_eV", "characteristic_energy_from_doping_eV",
+      "rms_ideality_residual")),
 )
 
 

@@ -33,6 +33,14 @@ Json = Mapping[str, Any]
 
 #: References of the methods, keyed by the short form used in the text.
 METHOD_REFERENCES: dict[str, str] = {
+    "Rocke & Durbin 2001": "D. M. Rocke and B. Durbin, A model for measurement error for gene "
+                           "expression arrays, J. Comput. Biol. 8, 557-569 (2001).",
+    "Durbin et al. 2002": "B. P. Durbin, J. S. Hardin, D. M. Hawkins and D. M. Rocke, A "
+                          "variance-stabilizing transformation for gene-expression microarray "
+                          "data, Bioinformatics 18, Suppl. 1, S105-S110 (2002).",
+    "Lange, Little & Taylor 1989": "K. L. Lange, R. J. A. Little and J. M. G. Taylor, Robust "
+                                   "statistical modeling using the t distribution, J. Am. Stat. "
+                                   "Assoc. 84, 881-896 (1989).",
     "Huber 1964": "P. J. Huber, Robust estimation of a location parameter, Ann. Math. Statist. "
                   "35, 73-101 (1964).",
     "Zabrodskii & Zinov'eva 1984": "A. G. Zabrodskii and K. N. Zinov'eva, Low-temperature "
@@ -335,6 +343,44 @@ def _ladder_sentence(settings: Json) -> str:
     return text + "."
 
 
+_NOISE_LAW_SENTENCES = {
+    "gaussian": "The likelihood is Gaussian in current with standard deviation "
+                "sqrt((s_rel I)^2 + σ_floor^2)",
+    "lognormal_floor": "The likelihood treats the scatter as log-normal of relative size s_rel "
+                       "that becomes Gaussian of size σ_floor near zero current (the "
+                       "two-component model of Rocke & Durbin 2001), through the generalised-log "
+                       "transform asinh(I/c), c = σ_floor/s_rel (Durbin et al. 2002)",
+    "student_t": "The likelihood is Student-t in current with 4 degrees of freedom and scale "
+                 "sqrt((s_rel I)^2 + σ_floor^2) (Lange, Little & Taylor 1989), so that a few "
+                 "wild readings do not drag the fit",
+}
+
+
+def noise_law_methods(data: Json) -> str:
+    """The methods sentences on the noise law: which one, and how it was chosen."""
+    choice = data.get("noise_law") or {}
+    law = choice.get("chosen") or "gaussian"
+    text = (_NOISE_LAW_SENTENCES.get(law, _NOISE_LAW_SENTENCES["gaussian"])
+            + "; its relative term s_rel and current floor σ_floor are nuisance parameters with "
+            "log-uniform priors set from the data and are marginalised.")
+    evidences = choice.get("log_evidence") or {}
+    if choice.get("requested") == "auto" and evidences:
+        listed = ", ".join(f"{name.replace('_', '-')} {fmt(value, '.1f')}"
+                           for name, value in evidences.items())
+        text += (f" The noise law was chosen by evidence: {choice.get('probe_mechanism')}, the "
+                 f"screening's most promising mechanism, was fitted under each law with the "
+                 f"quick settings (ln Z: {listed}); {choice.get('reason')}.")
+    return text
+
+
+def noise_law_sentence(data: Json) -> str:
+    """One line: the noise law of the fits and why ("" for a screening-only run)."""
+    choice = data.get("noise_law") or {}
+    if not choice:
+        return ""
+    return f"{choice.get('name')} ({choice.get('reason')})."
+
+
 def methods_paragraph(data: Json) -> str:
     """The methods paragraph, from the run's settings (plain text with author-year citations)."""
     mechanisms = data.get("mechanisms") or []
@@ -355,10 +401,7 @@ def methods_paragraph(data: Json) -> str:
         parts += [
             f"Bayesian comparison of {len(mechanisms)} mechanism(s): "
             + _join([f"{m.get('name')} ({m.get('source')})" for m in mechanisms]) + ". "
-            "The likelihood is Gaussian in current with standard deviation "
-            "sqrt((s_rel I)^2 + σ_floor^2), a relative term and a current floor that are "
-            "nuisance parameters with log-uniform priors set from the data and are "
-            "marginalised. " + _ladder_sentence(data.get("settings") or {}),
+            + noise_law_methods(data) + " " + _ladder_sentence(data.get("settings") or {}),
             "The log-evidence ln Z was estimated by stepping-stone sampling (Xie et al. 2011), "
             "with its Monte Carlo error from batch means over the whole ladder; corrected-"
             "trapezoid thermodynamic integration (Friel, Hurn & Wyse 2014) and bridge sampling "
@@ -532,6 +575,18 @@ def screening_results(data: Json) -> str:
 # --------------------------------------------------------------------------------------------
 
 
+def _noise_law_references(data: Json) -> list[str]:
+    """The references of the noise laws the methods paragraph names."""
+    choice = data.get("noise_law") or {}
+    laws = set(choice.get("log_evidence") or {}) | {choice.get("chosen") or "gaussian"}
+    found = []
+    if "lognormal_floor" in laws:
+        found += ["Rocke & Durbin 2001", "Durbin et al. 2002"]
+    if "student_t" in laws:
+        found.append("Lange, Little & Taylor 1989")
+    return found
+
+
 def references(data: Json) -> tuple[list[str], list[tuple[str, str]]]:
     """Method references used in the text, and (mechanism name, source) for each mechanism.
 
@@ -544,6 +599,7 @@ def references(data: Json) -> tuple[list[str], list[tuple[str, str]]]:
                  "ter Braak & Vrugt 2008", "Xie et al. 2011", "Friel, Hurn & Wyse 2014", "Meng & Wong 1996",
                  "Kass & Raftery 1995", "Gelman, Meng & Stern 1996", "Wald & Wolfowitz 1940",
                  "Rice 1984", "Foreman-Mackey 2016"]
+        used += _noise_law_references(data)
     methods = [f"{key}: {METHOD_REFERENCES[key]}" for key in used]
     ids = [m.get("id") for m in data.get("mechanisms") or []]
     ids += [e.get("mechanism_id") for e in (data.get("linearisation") or {}).get("mechanisms")

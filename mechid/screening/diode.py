@@ -21,6 +21,12 @@ Williams, *Metal-Semiconductor Contacts*, 2nd ed., Oxford 1988)::
    1223 (1986): F(V) = V/gamma - (kT/e) ln(I/(A A** T^2)) with an integer gamma > n; at its
    minimum (V0, F0, I0), phi_B = F0 + ((gamma - n)/n)(V0/gamma - kT/e) and
    R_s = (gamma - n) kT/(e I0).
+6. Thermionic-field emission, Padovani & Stratton, Solid-State Electron. 9, 695 (1966): with
+   heavy doping electrons tunnel through the top of the barrier and the forward slope is
+   e/E0 with E0 = E00 coth(E00/kT), so n(T) = (E00/kT) coth(E00/kT), and
+   E00 = (e hbar/2) sqrt(N_D/(m* eps_s)). E00 fitted to n(T) is compared with the E00 the
+   device's doping implies (:func:`thermionic_field_ideality`). This is a signature, not a
+   fit of the thermionic-field current (whose saturation-current prefactor is not checked here).
 
 What was checked, and how: Norde's F(V) = V/2 - (kT/q) ln(I/(A A** T^2)) against the
 abstract of Norde (1979); the authors, title and reference of Werner & Güttler (1991, doi
@@ -45,9 +51,10 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 from numpy.lib.stride_tricks import sliding_window_view
+from scipy import optimize
 
 from mechid.catalogue.base import FloatArray
-from mechid.constants import BOLTZMANN_EV
+from mechid.constants import BOLTZMANN_EV, ELECTRON_MASS, HBAR, VACUUM_PERMITTIVITY
 from mechid.device import Device
 from mechid.screening.biases import MIN_TEMPERATURES, PreparedSeries
 from mechid.screening.lines import robust_line
@@ -534,6 +541,80 @@ def modified_richardson_line(records: Sequence[DiodeTemperature], spread: DiodeL
         **_richardson_constant(line.intercept, line.intercept_err, device)})
 
 
+def ideality_thermionic_field(characteristic_energy_eV: float | FloatArray,
+                              temperature_K: float | FloatArray) -> float | FloatArray:
+    """n = (E00/kT) coth(E00/kT) (Padovani & Stratton 1966); 1 as E00/kT -> 0."""
+    x = np.asarray(characteristic_energy_eV / (BOLTZMANN_EV * np.asarray(temperature_K)))
+    small = np.abs(x) < 1e-4
+    safe = np.where(small, 1.0, x)
+    return np.where(small, 1.0 + x**2 / 3.0, safe / np.tanh(safe))
+
+
+def characteristic_energy_from_doping_eV(doping_cm3: float, dielectric_constant: float,
+                                         effective_mass_ratio: float) -> float:
+    """E00 = (e hbar/2) sqrt(N_D/(m* eps_s)) in eV (Padovani & Stratton 1966).
+
+    With N_D in m^-3, m* = m_r m0 and eps_s = eps_r eps0 in SI units, hbar/2 sqrt(N/(m eps))
+    is E00 in eV (the factor e cancels the conversion J -> eV).
+    """
+    doping_m3 = doping_cm3 * 1e6
+    return 0.5 * HBAR * math.sqrt(doping_m3 / (effective_mass_ratio * ELECTRON_MASS
+                                               * dielectric_constant * VACUUM_PERMITTIVITY))
+
+
+def _doping_energy(device: Device) -> dict[str, float] | str:
+    """E00 implied by the device's doping, with its error propagated (or what is missing)."""
+    values = (("doping_cm3", device.doping_cm3),
+              ("semiconductor_dielectric_constant", device.semiconductor_dielectric_constant),
+              ("semiconductor_effective_mass_ratio", device.semiconductor_effective_mass_ratio))
+    missing = [name for name, value in values if value is None]
+    if missing:
+        return " and ".join(missing) + " not given"
+    doping, eps, mass = (value for _, value in values)
+    energy = characteristic_energy_from_doping_eV(doping.value, eps.value, mass.value)
+    # E00 ~ sqrt(N / (eps m)): relative errors add in quadrature with weight 1/2.
+    relative = 0.5 * math.sqrt(sum(((m.sd or 0.0) / m.value) ** 2 for m in (doping, eps, mass)))
+    return {"characteristic_energy_from_doping_eV": energy,
+            "characteristic_energy_from_doping_eV_err": energy * relative}
+
+
+def thermionic_field_ideality(records: Sequence[DiodeTemperature], device: Device) -> DiodeLine:
+    """E00 fitted to n(T) = (E00/kT) coth(E00/kT) (Padovani & Stratton 1966), by least squares.
+
+    The standard error comes from the Gauss-Newton curvature and the residual variance
+    (n - 1 degrees of freedom). The line's ``slope`` and ``intercept`` are those of the
+    measured n against the fitted (E00/kT) coth(E00/kT): 1 and 0 when the signature holds.
+    Where the device gives the doping, the semiconductor's permittivity and effective mass,
+    the E00 they imply is reported beside the fitted one.
+    """
+    t, ideality = _semilog_table(records, "ideality_factor")
+    few = _too_few(t.size, "an ideality factor")
+    if few is not None:
+        return few
+    if np.all(ideality <= 1.0):
+        return DiodeLine(False, "not determined: every n <= 1, no thermionic-field signature")
+    fit = optimize.least_squares(
+        lambda e: ideality_thermionic_field(e[0], t) - ideality, x0=[BOLTZMANN_EV * t.mean()],
+        bounds=([0.0], [np.inf]))
+    energy = float(fit.x[0])
+    residual = fit.fun
+    dof = max(t.size - 1, 1)
+    jacobian = float(np.sum(fit.jac[:, 0] ** 2))
+    energy_err = math.sqrt(float(np.sum(residual**2)) / dof / jacobian) if jacobian > 0 else math.nan
+    predicted = ideality_thermionic_field(energy, t)
+    record, _ = _drawn(np.asarray(predicted, dtype=float), ideality,
+                       "n vs (E00/kT) coth(E00/kT) with E00 fitted", {})
+    quantities = {"characteristic_energy_eV": energy, "characteristic_energy_eV_err": energy_err,
+                  "rms_ideality_residual": float(np.sqrt(np.mean(residual**2)))}
+    implied = _doping_energy(device)
+    detail = record.detail
+    if isinstance(implied, str):
+        detail += f"; E00 from the doping not computed: {implied}"
+    else:
+        quantities |= implied
+    return replace(record, detail=detail, quantities=quantities)
+
+
 # --------------------------------------------------------------------------------------------
 # The whole series
 # --------------------------------------------------------------------------------------------
@@ -582,4 +663,5 @@ def diode_analysis(data: PreparedSeries, device: Device) -> DiodeAnalysis:
         barrier_vs_inverse_2kt=spread,
         ideality_vs_inverse_2kt=ideality_vs_inverse_2kt(records),
         modified_richardson=modified_richardson_line(records, spread, device),
+        thermionic_field_ideality=thermionic_field_ideality(records, device),
     )

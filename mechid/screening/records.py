@@ -359,6 +359,8 @@ class DiodeAnalysis:
         One per temperature (empty when the analysis did not run).
     richardson, barrier_vs_inverse_2kt, ideality_vs_inverse_2kt, modified_richardson : DiodeLine
         The lines across temperatures (Richardson plot; Werner & Güttler's three plots).
+    thermionic_field_ideality : DiodeLine
+        n(T) against Padovani & Stratton's (E00/kT) coth(E00/kT), E00 fitted.
     """
 
     ran: bool
@@ -369,11 +371,12 @@ class DiodeAnalysis:
     barrier_vs_inverse_2kt: DiodeLine | None = None
     ideality_vs_inverse_2kt: DiodeLine | None = None
     modified_richardson: DiodeLine | None = None
+    thermionic_field_ideality: DiodeLine | None = None
 
     def to_dict(self) -> dict[str, Any]:
         """Plain-JSON form."""
         lines = ("richardson", "barrier_vs_inverse_2kt", "ideality_vs_inverse_2kt",
-                 "modified_richardson")
+                 "modified_richardson", "thermionic_field_ideality")
         return {"ran": self.ran, "reason": self.reason,
                 "forward_polarity": self.forward_polarity,
                 "temperatures": [t.to_dict() for t in self.temperatures],
