@@ -106,3 +106,39 @@ def test_prints_to_pdf(browser: str, report: Path, tmp_path: Path) -> None:
     data = pdf.read_bytes()
     assert data.startswith(b"%PDF")
     assert len(re.findall(rb"/Type\s*/Page[^s]", data)) >= 3
+
+
+#: Marks every element whose box reaches past the viewport's right edge, and the page width.
+OVERFLOW_SCRIPT = (
+    "<script>addEventListener('load',function(){var w=document.documentElement.clientWidth;"
+    "var bad=[];Array.prototype.forEach.call(document.querySelectorAll('body *'),function(e){"
+    "var r=e.getBoundingClientRect();if(r.width>0&&r.right>w+1){bad.push(e.tagName+'.'+"
+    "(e.className||''));}});var d=document.createElement('div');d.id='overflow';"
+    "d.setAttribute('data-width',w);d.setAttribute('data-scroll',"
+    "document.documentElement.scrollWidth);d.setAttribute('data-bad',bad.slice(0,20).join(' '));"
+    "document.body.appendChild(d);});</script>"
+)
+
+
+def test_new_elements_render_within_1400_px(browser: str, report: Path, tmp_path: Path) -> None:
+    # Issue 11: the quick-run banner, the interval caveat, the noise-law statement and the
+    # undetermined-parameter flags are in the rendered page, and nothing reaches past the
+    # right edge of a 1400 px window (no horizontal scrolling, no clipped element).
+    probe = tmp_path / "probe.html"
+    probe.write_text(report.read_text("utf-8").replace("</body>", OVERFLOW_SCRIPT + "</body>"),
+                     "utf-8")
+    done = run_browser(browser, tmp_path / "profile", "--window-size=1400,2000",
+                       "--virtual-time-budget=10000", "--dump-dom", probe.as_uri())
+    assert done.returncode == 0, done.stderr[-2000:]
+    dom = done.stdout
+    match = re.search(r'id="overflow" data-width="(\d+)" data-scroll="(\d+)" data-bad="([^"]*)"',
+                      dom)
+    assert match, "the overflow script did not run: " + dom[-500:]
+    width, scroll, bad = int(match.group(1)), int(match.group(2)), match.group(3)
+    assert width > 1200
+    assert scroll <= width, f"page scrolls sideways ({scroll} > {width} px): {bad}"
+    assert bad == "", f"elements past the right edge: {bad}"
+    text = re.sub(r"<[^>]+>", " ", dom)
+    for phrase in ("QUICK RUN", "conditional on the model", "Noise law of every fit",
+                   "Gaussian in current"):
+        assert phrase.lower() in text.lower(), phrase
