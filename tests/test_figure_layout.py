@@ -13,6 +13,7 @@ from __future__ import annotations
 import warnings
 from collections.abc import Iterator
 from pathlib import Path
+from types import SimpleNamespace
 from typing import Any, NamedTuple
 
 import numpy as np
@@ -24,15 +25,18 @@ from matplotlib.lines import Line2D
 from matplotlib.transforms import Bbox
 
 from mechid.analysis import AnalysisRun, AnalysisSettings, run_analysis_full
+from mechid.catalogue import get_mechanism
 from mechid.data import read_series
 from mechid.device import read_device_toml
 from mechid.errors import MechidWarning
+from mechid.inference.predictive import PosteriorAxis
 from mechid.report.figures import (
     ReportFigure,
     _physical_log_ticks,
     _place_note,
     _style,
     build_figures,
+    corner_figure,
 )
 
 # --------------------------------------------------------------------------------------------
@@ -209,6 +213,21 @@ def points_under_text(figure: Figure, boxes: list[TextBox]) -> list[str]:
     return found
 
 
+def texts_over_other_axes(figure: Figure, boxes: list[TextBox]) -> list[str]:
+    """Titles and offset texts reaching into another axes' frame (a corner-plot title or
+    ``1e-5+5e-2`` over the neighbouring panel)."""
+    drawn = [index for index, axes in enumerate(figure.axes) if axes.get_visible()
+             and (axes.get_frame_on() or axes.lines or axes.collections or axes.patches)]
+    found = []
+    for box in boxes:
+        if box.role not in ("title", "x offset", "y offset"):
+            continue
+        for index in drawn:
+            if index != box.axes_index and _overlap(box.box, figure.axes[index].bbox):
+                found.append(f"{_describe(box)} reaches into axes {index}")
+    return found
+
+
 def repeated_tick_labels(boxes: list[TextBox]) -> list[str]:
     """Axes whose tick labels repeat a text (two different ticks both labelled ``1``)."""
     found = []
@@ -223,11 +242,16 @@ def repeated_tick_labels(boxes: list[TextBox]) -> list[str]:
     return found
 
 
-def layout_problems(figure: Figure) -> list[str]:
-    """Every clipped or overlapping text, ambiguous tick label and cut-off or hidden point."""
+def layout_problems(figure: Figure, tight: bool = False) -> list[str]:
+    """Every clipped or overlapping text, ambiguous tick label and cut-off or hidden point.
+
+    ``tight``: the figure is saved with a tight bounding box (corner plots), which grows the
+    image around every artist, so text beyond the canvas is not clipped.
+    """
     renderer = draw(figure)
     boxes = text_boxes(figure, renderer)
-    return (outside_canvas(figure, boxes) + overlapping(boxes) + repeated_tick_labels(boxes)
+    return ((outside_canvas(figure, boxes) if not tight else []) + overlapping(boxes)
+            + texts_over_other_axes(figure, boxes) + repeated_tick_labels(boxes)
             + points_outside_limits(figure) + points_under_text(figure, boxes))
 
 
@@ -276,7 +300,7 @@ def test_every_report_figure_has_a_clean_layout(report_figures: dict[str, Report
     problems = {}
     for key, figure in report_figures.items():
         with _style():
-            found = layout_problems(figure.figure)
+            found = layout_problems(figure.figure, figure.tight)
         if found:
             problems[key] = found
     assert problems == {}
@@ -335,3 +359,25 @@ def test_log10_axis_labels_get_digits_until_they_differ() -> None:
     labels = [t.get_text() for t in ax.xaxis.get_ticklabels() if t.get_text()]
     assert len(labels) == len(set(labels)) >= 2
     assert not [p for p in problems if "repeat" in p]
+
+
+@pytest.mark.parametrize("relative_spread", [1e-4, 0.3])
+def test_corner_plot_of_the_largest_mechanism_has_a_clean_layout(relative_spread: float
+                                                                  ) -> None:
+    # Seven parameters in a 7-inch figure, with posteriors so narrow that every label needs
+    # five or more digits (1e-4) or ordinary ones (0.3): titles, tick labels and axis labels
+    # must still keep clear of each other and of the neighbouring panels.
+    mechanism = get_mechanism("inhomogeneous_schottky_diode")
+    rng = np.random.default_rng(1)
+    axes = []
+    for parameter in mechanism.parameters:
+        log10 = bool(parameter.sample_in_log or parameter.log_scale)
+        centre = parameter.typical
+        draws = (np.log10(centre) + relative_spread * rng.normal(size=3000) / np.log(10)
+                 if log10 else centre + abs(centre) * relative_spread * rng.normal(size=3000))
+        axes.append(PosteriorAxis(parameter.name, log10, draws))
+    view = SimpleNamespace(mechanism_id=mechanism.id, parameters=tuple(axes))
+    figure = corner_figure(view)
+    assert figure is not None and len(figure.figure.axes) == len(axes) ** 2 == 49
+    with _style():
+        assert layout_problems(figure.figure, figure.tight) == []

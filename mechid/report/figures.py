@@ -726,6 +726,106 @@ def _physical_log_ticks(axis: Any) -> None:
     axis.set_major_formatter(_PhysicalFromLog10())
 
 
+#: Gap between a corner plot's tick labels and its axis label, in points.
+CORNER_LABEL_GAP_PT = 3.0
+
+#: Fraction of a corner panel at each end kept free of ticks, so that 45-degree tick labels
+#: stay clear of the neighbouring panel's.
+CORNER_TICK_MARGIN = 0.2
+
+
+class _InnerTicks(ticker.MaxNLocator):
+    """Nice ticks (MaxNLocator) inside the inner part of the view only; the one tick nearest
+    the centre when none falls inside, or when ``single``."""
+
+    def __init__(self, nbins: int, single: bool = False) -> None:
+        super().__init__(nbins)
+        self.single = single
+
+    def tick_values(self, vmin: float, vmax: float) -> NDArray[np.float64]:
+        ticks = np.asarray(super().tick_values(vmin, vmax), dtype=float)
+        low, high = sorted((vmin, vmax))
+        margin = CORNER_TICK_MARGIN * (high - low)
+        inner = ticks[(ticks >= low + margin) & (ticks <= high - margin)]
+        if (inner.size and not self.single) or not ticks.size:
+            return inner
+        return ticks[[int(np.argmin(np.abs(ticks - 0.5 * (low + high))))]]
+
+
+def _corner_axis_labels(fig: Figure, grid: NDArray[Any], labels: Sequence[str]) -> None:
+    """Keep a corner plot's axis labels clear of its tick labels and of each other.
+
+    corner.py puts every label at one fixed distance from its axes whatever the width of the
+    (45-degree) tick labels, and long labels run into the next panel's. Here ticks stay off
+    the panel ends (their labels met the neighbouring panel's), long labels are wrapped
+    to the panel size, and after one measurement on an Agg canvas each label sits just
+    beyond the widest tick label of its row or column.
+    """
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    k = grid.shape[0]
+    size_in = _axes_size_in(grid[k - 1, 0])[0]
+    # No offset text ("1e-5+5e-2" above an axis lands on the neighbouring panel): every
+    # linear tick label carries its full value.
+    for ax in grid.flat:
+        for axis in (ax.xaxis, ax.yaxis):
+            if isinstance(axis.get_major_formatter(), ticker.ScalarFormatter):
+                axis.get_major_formatter().set_useOffset(False)
+    # About one tick label per 0.4 inch of panel: 45-degree labels of five or more digits.
+    bins = max(2, min(4, int(size_in / 0.4)))
+    for row in range(k):
+        for col in range(row + 1):
+            grid[row, col].xaxis.set_major_locator(_InnerTicks(bins))
+            if col < row:
+                grid[row, col].yaxis.set_major_locator(_InnerTicks(bins))
+    for col in range(k):
+        grid[k - 1, col].set_xlabel(_wrap_to_width(labels[col], size_in, 7.5))
+    for row in range(1, k):
+        grid[row, 0].set_ylabel(_wrap_to_width(labels[row], size_in, 7.5))
+    renderer = FigureCanvasAgg(fig).get_renderer()
+    for col in range(k):
+        _thin_ticks([grid[row, col].xaxis for row in range(col, k)], renderer, bins)
+    for row in range(1, k):
+        _thin_ticks([grid[row, col].yaxis for col in reversed(range(row))], renderer, bins)
+    gap = CORNER_LABEL_GAP_PT * fig.dpi / 72.0
+    left_axes = [grid[row, 0] for row in range(1, k)]
+    bottom_axes = [grid[k - 1, col] for col in range(k)]
+    if left_axes:
+        left_edge = min(_ticks_extent(ax.yaxis, renderer).x0 for ax in left_axes) - gap
+        for ax in left_axes:
+            ax.yaxis.set_label_coords((left_edge - ax.bbox.x0) / ax.bbox.width, 0.5)
+    bottom_edge = min(_ticks_extent(ax.xaxis, renderer).y0 for ax in bottom_axes) - gap
+    for ax in bottom_axes:
+        ax.xaxis.set_label_coords(0.5, (bottom_edge - ax.bbox.y0) / ax.bbox.height)
+
+
+def _labels_collide(axis: Any, renderer: Any) -> bool:
+    """Whether two neighbouring tick labels of an axis overlap (by more than a pixel)."""
+    boxes = [label.get_window_extent(renderer) for label in axis.get_ticklabels()
+             if label.get_text()]
+    return any(min(a.x1, b.x1) - max(a.x0, b.x0) > 1 and min(a.y1, b.y1) - max(a.y0, b.y0) > 1
+               for a, b in zip(boxes, boxes[1:], strict=False))
+
+
+def _thin_ticks(axes: Sequence[Any], renderer: Any, bins: int) -> None:
+    """Fewer ticks on a corner plot's row or column until its labelled axis (the last of
+    ``axes``) has no colliding tick labels, down to the one tick nearest the centre; every
+    axis of the row or column alike."""
+    while bins > 0 and _labels_collide(axes[-1], renderer):
+        bins -= 1
+        for axis in axes:
+            axis.set_major_locator(_InnerTicks(max(bins, 1), single=bins == 0))
+
+
+def _ticks_extent(axis: Any, renderer: Any) -> Any:
+    """Display box of an axis's ticks and tick labels (its label left out)."""
+    axis.label.set_visible(False)
+    try:
+        return axis.get_tightbbox(renderer)
+    finally:
+        axis.label.set_visible(True)
+
+
 def corner_figure(view: PosteriorPredictive) -> ReportFigure | None:
     """Corner plot of the physical parameters' posterior (68 % and 95 % contours).
 
@@ -767,9 +867,14 @@ def corner_figure(view: PosteriorPredictive) -> ReportFigure | None:
         for row in range(1, len(keep)):
             if in_log10[row]:
                 _physical_log_ticks(grid[row, 0].yaxis)
+        panel_in = _axes_size_in(grid[0, 0])[0]
         for ax, title, column, log10 in zip(grid.diagonal(), titles, data.T, in_log10,
                                             strict=True):
-            ax.set_title(_quantile_title(title, column, log10), fontsize=6.5)
+            # A line wider than the panel would run over the neighbouring panel: wrapped.
+            text = "\n".join(_wrap_to_width(line, panel_in, 6.5)
+                             for line in _quantile_title(title, column, log10).split("\n"))
+            ax.set_title(text, fontsize=6.5)
+        _corner_axis_labels(fig, grid, labels)
     mechanism = get_mechanism(view.mechanism_id)
     caption = (f"Posterior of the {mechanism.name} parameters ({len(data)} draws of the "
                "β = 1 chain), drawn with corner.py (Foreman-Mackey 2016). Two-dimensional "
