@@ -55,7 +55,7 @@ from mechid.inference.settings import (
     LadderSettings,
     SearchSettings,
 )
-from mechid.measurement import measurement_cautions, repeat_agreement
+from mechid.measurement import drift_check, measurement_cautions, repeat_agreement
 from mechid.results import (
     QUICK_RUN_BANNER,
     AnalysisResult,
@@ -180,7 +180,8 @@ def apply_windows(series: IVSeries, settings: AnalysisSettings) -> tuple[IVSerie
         raise MechidError(f"the windows keep {int(keep.sum())} of {series.n_points} points; at "
                           "least 3 are needed (check --bias-window / --temperature-window)")
     inside = replace(series, temperature_K=series.temperature_K[keep],
-                     voltage_V=series.voltage_V[keep], current_A=series.current_A[keep])
+                     voltage_V=series.voltage_V[keep], current_A=series.current_A[keep],
+                     reading_index=series.reading_index[keep])
     return inside, record
 
 
@@ -224,7 +225,8 @@ def run_analysis_full(
     settings = settings or AnalysisSettings()
     started = time.perf_counter()
     measured = {**series.summary(),
-                "repeat_agreement": [asdict(a) for a in repeat_agreement(series)]}
+                "repeat_agreement": [asdict(a) for a in repeat_agreement(series)],
+                "drift_check": [asdict(d) for d in drift_check(series)]}
     series, window = apply_windows(series, settings)
     mask = select_polarity(series, settings.polarity)
     if mask.sum() < 3:

@@ -178,6 +178,12 @@ class IVSeries:
         Names of the files read.
     excluded : tuple of ExcludedPoint
         Points left out, each with its reason.
+    reading_index : numpy.ndarray, optional
+        Per kept point, its position in the order the points were read (int64): files in the
+        order given (a folder's files by name), rows in file order, a wide table's
+        temperatures one after another. Excluded points keep their positions, so the numbers
+        can have gaps. Default ``arange(n)``: the order of the arrays given is the reading
+        order. :func:`mechid.measurement.drift_check` reads it.
     """
 
     temperature_K: NDArray[np.float64]
@@ -185,6 +191,7 @@ class IVSeries:
     current_A: NDArray[np.float64]
     sources: tuple[str, ...] = ()
     excluded: tuple[ExcludedPoint, ...] = field(default=())
+    reading_index: NDArray[np.int64] | None = None
 
     def __post_init__(self) -> None:
         arrays = {}
@@ -193,9 +200,16 @@ class IVSeries:
             array.setflags(write=False)
             arrays[name] = array
             object.__setattr__(self, name, array)
+        n_points = arrays["temperature_K"].size
+        order = (np.arange(n_points, dtype=np.int64) if self.reading_index is None
+                 else np.array(self.reading_index, dtype=np.int64).reshape(-1))
+        order.setflags(write=False)
+        arrays["reading_index"] = order
+        object.__setattr__(self, "reading_index", order)
         lengths = {name: a.size for name, a in arrays.items()}
         if len(set(lengths.values())) != 1:
-            raise InputDataError(f"temperature, voltage and current lengths differ: {lengths}")
+            raise InputDataError(f"temperature, voltage, current and reading-order lengths "
+                                 f"differ: {lengths}")
         object.__setattr__(self, "sources", tuple(self.sources))
         object.__setattr__(self, "excluded", tuple(self.excluded))
 
@@ -253,6 +267,7 @@ class IVSeries:
             "temperature_K": self.temperature_K.tolist(),
             "voltage_V": self.voltage_V.tolist(),
             "current_A": self.current_A.tolist(),
+            "reading_index": self.reading_index.tolist(),
             "sources": list(self.sources),
             "excluded": [asdict(point) for point in self.excluded],
         }
@@ -968,10 +983,13 @@ def _checked_series(tables: list[_FileTable]) -> IVSeries:
                                     names, sources)
     temperature, voltage, current = (merged.temperature_K[keep], merged.voltage_V[keep],
                                      merged.current_A[keep])
+    # Position in the order read: files in the order given, rows (a wide table's temperature
+    # columns) in file order; excluded points keep their numbers.
+    reading_index = np.flatnonzero(keep).astype(np.int64)
     _check_nonzero_currents(temperature, current, names, sources[keep])
     order = np.lexsort((voltage, temperature))  # stable: repeats keep their reading order
     return IVSeries(temperature[order], voltage[order], current[order], tuple(names),
-                    tuple(excluded_zero + excluded_limit))
+                    tuple(excluded_zero + excluded_limit), reading_index[order])
 
 
 def write_series_csv(series: SeriesLike, path: Path | str, *, overwrite: bool = False,

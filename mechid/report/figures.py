@@ -222,6 +222,119 @@ def _margins(fig: Figure, left: float, right: float, bottom: float, top: float,
                         top=1 - top / height, wspace=wspace, hspace=hspace)
 
 
+#: Mean glyph width of the report font (DejaVu Sans) as a fraction of its size, a little above
+#: the width of typical mixed text, so that text wrapped or boxed by it fits without a draw.
+GLYPH_WIDTH_EM = 0.6
+
+#: Height of a text line as a fraction of the font size (matplotlib's default line spacing).
+LINE_HEIGHT_EM = 1.25
+
+#: Top margin in inches per title line beyond the first (8.5 pt titles).
+TITLE_LINE_IN = 0.15
+
+
+def _axes_size_in(ax: Any) -> tuple[float, float]:
+    """Width and height of an axes in inches."""
+    position = ax.get_position()
+    width, height = ax.figure.get_size_inches()
+    return position.width * width, position.height * height
+
+
+def _wrap_to_width(text: str, width_in: float, fontsize_pt: float) -> str:
+    """``text`` wrapped at spaces to lines that fit ``width_in`` at ``fontsize_pt``."""
+    chars = max(12, int(width_in * 72.0 / (GLYPH_WIDTH_EM * fontsize_pt)))
+    return textwrap.fill(text, chars, break_long_words=False, break_on_hyphens=False)
+
+
+def _fit_side_margins(fig: Figure, axes: Sequence[Any], left: float, right: float,
+                      bottom: float, top: float, wspace: float) -> tuple[float, float]:
+    """Widen the left margin and the gaps of a row of panels until every y axis fits.
+
+    Tick labels are only known once formatted, so the y axes (tick labels and label) are
+    measured once on an Agg canvas; the margins are in inches. Returns the new
+    ``(left, wspace)``.
+    """
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    renderer = FigureCanvasAgg(fig).get_renderer()
+    pad_in = 0.08
+    overhang = [(ax.bbox.x0 - ax.yaxis.get_tightbbox(renderer).x0) / fig.dpi + pad_in
+                for ax in axes]
+    width = float(fig.get_size_inches()[0])
+    n = len(axes)
+    axes_width = (width - left - right) / (n + (n - 1) * wspace)
+    gap = max([wspace * axes_width, *(o + 0.1 for o in overhang[1:])])
+    left = max(left, overhang[0])
+    axes_width = (width - left - right - (n - 1) * gap) / n
+    wspace = gap / axes_width if n > 1 else wspace
+    _margins(fig, left, right, bottom, top, wspace=wspace)
+    return left, wspace
+
+
+def _data_fraction(ax: Any) -> FloatArray:
+    """Axes-fraction positions (n, 2) of the markers drawn in data coordinates."""
+    parts = [np.asarray(line.get_xydata(), dtype=float) for line in ax.lines
+             if line.get_marker() not in (None, "None", "", " ")]
+    if not parts:
+        return np.empty((0, 2))
+    xy = np.concatenate(parts)
+    fraction = (ax.transScale + ax.transLimits).transform(xy)
+    return fraction[np.isfinite(fraction).all(axis=1)]
+
+
+def _free_corner(fraction: FloatArray, box: tuple[float, float], margin: float,
+                 pad: float) -> tuple[float, float] | None:
+    """The first corner (lower right, upper left, upper right, lower left) whose box holds no
+    point, as the box's lower-left corner in axes fraction; None when every corner is taken."""
+    w, h = box
+    for x0, y0 in ((1 - margin - w, margin), (margin, 1 - margin - h),
+                   (1 - margin - w, 1 - margin - h), (margin, margin)):
+        inside = ((fraction[:, 0] > x0 - pad) & (fraction[:, 0] < x0 + w + pad)
+                  & (fraction[:, 1] > y0 - pad) & (fraction[:, 1] < y0 + h + pad))
+        if not inside.any():
+            return x0, y0
+    return None
+
+
+def _lower_the_floor(ax: Any, fraction: FloatArray, box: tuple[float, float], margin: float,
+                     pad: float) -> None:
+    """Lower the y limit so that no point under the lower-right box is left under it."""
+    w, h = box
+    under = fraction[:, 0] > 1 - margin - w - pad
+    if not under.any():
+        return
+    scale = ax.yaxis.get_transform()
+    low, high = scale.transform(np.asarray(ax.get_ylim(), dtype=float))
+    lowest = low + fraction[under, 1].min() * (high - low)
+    clear = margin + h + pad
+    new_low = min(low, (lowest - clear * high) / (1 - clear))
+    ax.set_ylim(scale.inverted().transform(np.array([new_low, high])))
+
+
+def _place_note(ax: Any, text: str, fontsize: float = 6.5) -> None:
+    """A boxed note in a corner of the axes where it hides no data point.
+
+    The first free corner (lower right, upper left, upper right, lower left) is taken; when
+    every corner holds points, the y range is extended downwards to free the lower right.
+    """
+    width_in, height_in = _axes_size_in(ax)
+    lines = text.split("\n")
+    box = ((max(len(line) for line in lines) * GLYPH_WIDTH_EM + 0.8) * fontsize / 72 / width_in,
+           (len(lines) * LINE_HEIGHT_EM + 0.8) * fontsize / 72 / height_in)
+    margin, pad = 0.02, 0.02
+    ax.autoscale_view()
+    fraction = _data_fraction(ax)
+    corner = _free_corner(fraction, box, margin, pad)
+    if corner is None:
+        _lower_the_floor(ax, fraction, box, margin, pad)
+        corner = (1 - margin - box[0], margin)
+    right = corner[0] > 0.5
+    ax.text(corner[0] + (box[0] if right else 0.0), corner[1], text, transform=ax.transAxes,
+            ha="right" if right else "left", va="bottom", fontsize=fontsize,
+            multialignment="right" if right else "left",
+            bbox={"boxstyle": "round,pad=0.3", "fc": "white", "ec": "#c9ced6", "lw": 0.5})
+
+
 def _positive_floor(values: FloatArray) -> float:
     """A small positive value below the data, for log axes (clip of lower bands)."""
     positive = values[np.isfinite(values) & (values > 0)]
@@ -309,18 +422,20 @@ def zabrodskii_figure(linearisation: Mapping[str, Any]) -> ReportFigure | None:
     w = np.array([v for v in z.get("w", []) if v is not None], dtype=float)
     if temps.size < 3 or temps.size != w.size or np.any(w <= 0):
         return None
+    laws = z.get("law_exponents") or {}
+    # The legend goes below the axes (inside it would hide points), one entry a line.
+    legend_in = 0.14 * (len(laws) + 1) + 0.12
     with _style():
-        fig = Figure(figsize=(DOUBLE_COLUMN_IN * 0.55, 2.7))
-        _margins(fig, 0.62, 0.12, 0.45, 0.28)
+        fig = Figure(figsize=(DOUBLE_COLUMN_IN * 0.55, 2.7 + legend_in))
+        _margins(fig, 0.62, 0.12, 0.45 + legend_in, 0.28)
         ax = fig.subplots()
         ax.plot(temps, w, "o", color=INK, label="data (finite differences)")
         centre_t, centre_w = math.exp(np.log(temps).mean()), math.exp(np.log(w).mean())
         span = np.geomspace(temps.min(), temps.max(), 20)
-        laws = z.get("law_exponents") or {}
         for (law, p), colour in zip(sorted(laws.items(), key=lambda kv: -kv[1]),
                                     _series_colours(len(laws)), strict=True):
             ax.plot(span, centre_w * (span / centre_t) ** (-p), "--", color=colour, lw=0.9,
-                    label=f"slope -{p:g} ({law})")
+                    label=f"slope -{p:.3g} ({law.replace('_', ' ')})")
         ax.set_xscale("log")
         ax.set_yscale("log")
         _plain_log_ticks(ax.xaxis)
@@ -333,7 +448,8 @@ def zabrodskii_figure(linearisation: Mapping[str, Any]) -> ReportFigure | None:
             err = z.get("exponent_p_err")
             title += f": p = {p_value:.2f}" + (f" ± {err:.2f}" if err is not None else "")
         ax.set_title(title)
-        _legend(ax, len(laws) + 1, loc="best")
+        ax.legend(ncol=1, loc="upper center", bbox_to_anchor=(0.5, -0.2), handlelength=1.6,
+                  columnspacing=0.8, handletextpad=0.4)
     bias = z.get("bias_V")
     caption = ("Zabrodskii & Zinov'eva (1984) analysis: for G = G0 exp[-(T0/T)^p] the reduced "
                "activation energy falls on a line of slope -p"
@@ -383,21 +499,42 @@ def _draw_plot_panel(ax: Any, plot: StraightenedPlot, lines: Sequence[Mapping[st
             ax.plot(x[ok], y[ok], "o", color=colour, ms=3.0, label=f"{bias:.3g} V")
             _draw_line(ax, line, colour)
             n_entries += 1
-    r2 = np.array([line["r_squared"] for line in lines if line.get("r_squared") is not None])
-    if r2.size:
-        text = (f"R² = {r2[0]:.4f}" if r2.size == 1 else
-                f"R² from {r2.min():.4f} to {r2.max():.4f}\n({r2.size} lines)")
-    else:
-        text = "no straight line could be drawn"
-    ax.text(0.98, 0.03, text, transform=ax.transAxes, ha="right", va="bottom", fontsize=6.5,
-            bbox={"boxstyle": "round,pad=0.3", "fc": "white", "ec": "#c9ced6", "lw": 0.5})
     ax.set_xlabel(plot.x_label)
     ax.set_ylabel(plot.y_label)
-    ax.set_title(plot.title, loc="left")
     if n_entries:
         ax.legend(ncol=min(n_entries, 5), loc="upper center", bbox_to_anchor=(0.5, -0.17),
                   handlelength=1.0, columnspacing=0.8, handletextpad=0.3,
                   title="line at" if plot.grouping == "per_voltage" else None)
+
+
+def _r_squared_note(lines: Sequence[Mapping[str, Any]]) -> str:
+    """The R² of a panel's lines: one value, or their range and number."""
+    r2 = np.array([line["r_squared"] for line in lines if line.get("r_squared") is not None])
+    if r2.size:
+        return (f"R² = {r2[0]:.4f}" if r2.size == 1 else
+                f"R² from {r2.min():.4f} to {r2.max():.4f}\n({r2.size} lines)")
+    return "no straight line could be drawn"
+
+
+def _title_and_note_panels(fig: Figure, axes: Sequence[Any], plots: Sequence[StraightenedPlot],
+                           panel_lines: Sequence[Sequence[Mapping[str, Any]]],
+                           bottom: float) -> None:
+    """Fit the y axes into the margins, wrap each title to its panel, add the R² notes.
+
+    The figure grows upwards by a line per extra title line, so the panels keep their height.
+    """
+    left, wspace = _fit_side_margins(fig, axes, 0.62, 0.12, bottom, 0.28, 0.3)
+    fontsize = float(matplotlib.rcParams["axes.titlesize"])
+    titles = [_wrap_to_width(plot.title, _axes_size_in(ax)[0], fontsize)
+              for ax, plot in zip(axes, plots, strict=True)]
+    extra_in = TITLE_LINE_IN * max(title.count("\n") for title in titles)
+    if extra_in:
+        width, height = fig.get_size_inches()
+        fig.set_size_inches(width, height + extra_in)
+        _margins(fig, left, 0.12, bottom, 0.28 + extra_in, wspace=wspace)
+    for ax, title, lines in zip(axes, titles, panel_lines, strict=True):
+        ax.set_title(title, loc="left")
+        _place_note(ax, _r_squared_note(lines))
 
 
 def _legend_entries(plot: StraightenedPlot, lines: Sequence[Mapping[str, Any]],
@@ -447,9 +584,11 @@ def straightened_figure(mechanism: Mechanism, linearisation_entry: Mapping[str, 
                               2.25 + bottom))
         _margins(fig, 0.62, 0.12, bottom, 0.28, wspace=0.3)
         axes = np.atleast_1d(fig.subplots(1, n))
-        for ax, plot in zip(axes, mechanism.plots, strict=True):
-            lines = [line for line in all_lines if line.get("plot_id") == plot.id]
+        panel_lines = [[line for line in all_lines if line.get("plot_id") == plot.id]
+                       for plot in mechanism.plots]
+        for ax, plot, lines in zip(axes, mechanism.plots, panel_lines, strict=True):
             _draw_plot_panel(ax, plot, lines, series, device)
+        _title_and_note_panels(fig, axes, mechanism.plots, panel_lines, bottom)
     titles = " and ".join(p.title for p in mechanism.plots)
     caption = (f"{titles}: if {mechanism.name} governs the current, the points fall on straight "
                "lines. Lines: robust (Huber) straight-line fits, one per "
@@ -565,9 +704,126 @@ def _quantile_title(symbol: str, values: FloatArray, log10: bool = False) -> str
     return f"{symbol} = {mid:.{digits}g}\n[{lo:.{digits}g}, {hi:.{digits}g}]"
 
 
+class _PhysicalFromLog10(ticker.Formatter):
+    """Tick labels of a log10-sampled axis as the physical values (``1e-06``, ``0.3``), with
+    the fewest significant digits (at least two) that tell every label of the axis apart."""
+
+    def __call__(self, x: float, pos: int | None = None) -> str:
+        return f"{10.0**x:.2g}"
+
+    def format_ticks(self, values: Sequence[float]) -> list[str]:
+        physical = 10.0 ** np.asarray(values, dtype=float)
+        labels = [f"{v:.2g}" for v in physical]
+        for digits in range(3, 13):
+            if len(set(labels)) == len(labels):
+                break
+            labels = [f"{v:.{digits}g}" for v in physical]
+        return labels
+
+
 def _physical_log_ticks(axis: Any) -> None:
-    """Tick labels of a log10-sampled axis as the physical values (``1e-06``, ``0.3``)."""
-    axis.set_major_formatter(ticker.FuncFormatter(lambda value, _pos: f"{10.0**value:.2g}"))
+    """Tick labels of a log10-sampled axis as the physical values, each label distinct."""
+    axis.set_major_formatter(_PhysicalFromLog10())
+
+
+#: Gap between a corner plot's tick labels and its axis label, in points.
+CORNER_LABEL_GAP_PT = 3.0
+
+#: Fraction of a corner panel at each end kept free of ticks, so that 45-degree tick labels
+#: stay clear of the neighbouring panel's.
+CORNER_TICK_MARGIN = 0.2
+
+
+class _InnerTicks(ticker.MaxNLocator):
+    """Nice ticks (MaxNLocator) inside the inner part of the view only; the one tick nearest
+    the centre when none falls inside, or when ``single``."""
+
+    def __init__(self, nbins: int, single: bool = False) -> None:
+        super().__init__(nbins)
+        self.single = single
+
+    def tick_values(self, vmin: float, vmax: float) -> NDArray[np.float64]:
+        ticks = np.asarray(super().tick_values(vmin, vmax), dtype=float)
+        low, high = sorted((vmin, vmax))
+        margin = CORNER_TICK_MARGIN * (high - low)
+        inner = ticks[(ticks >= low + margin) & (ticks <= high - margin)]
+        if (inner.size and not self.single) or not ticks.size:
+            return inner
+        return ticks[[int(np.argmin(np.abs(ticks - 0.5 * (low + high))))]]
+
+
+def _corner_axis_labels(fig: Figure, grid: NDArray[Any], labels: Sequence[str]) -> None:
+    """Keep a corner plot's axis labels clear of its tick labels and of each other.
+
+    corner.py puts every label at one fixed distance from its axes whatever the width of the
+    (45-degree) tick labels, and long labels run into the next panel's. Here ticks stay off
+    the panel ends (their labels met the neighbouring panel's), long labels are wrapped
+    to the panel size, and after one measurement on an Agg canvas each label sits just
+    beyond the widest tick label of its row or column.
+    """
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    k = grid.shape[0]
+    size_in = _axes_size_in(grid[k - 1, 0])[0]
+    # No offset text ("1e-5+5e-2" above an axis lands on the neighbouring panel): every
+    # linear tick label carries its full value.
+    for ax in grid.flat:
+        for axis in (ax.xaxis, ax.yaxis):
+            if isinstance(axis.get_major_formatter(), ticker.ScalarFormatter):
+                axis.get_major_formatter().set_useOffset(False)
+    # About one tick label per 0.4 inch of panel: 45-degree labels of five or more digits.
+    bins = max(2, min(4, int(size_in / 0.4)))
+    for row in range(k):
+        for col in range(row + 1):
+            grid[row, col].xaxis.set_major_locator(_InnerTicks(bins))
+            if col < row:
+                grid[row, col].yaxis.set_major_locator(_InnerTicks(bins))
+    for col in range(k):
+        grid[k - 1, col].set_xlabel(_wrap_to_width(labels[col], size_in, 7.5))
+    for row in range(1, k):
+        grid[row, 0].set_ylabel(_wrap_to_width(labels[row], size_in, 7.5))
+    renderer = FigureCanvasAgg(fig).get_renderer()
+    for col in range(k):
+        _thin_ticks([grid[row, col].xaxis for row in range(col, k)], renderer, bins)
+    for row in range(1, k):
+        _thin_ticks([grid[row, col].yaxis for col in reversed(range(row))], renderer, bins)
+    gap = CORNER_LABEL_GAP_PT * fig.dpi / 72.0
+    left_axes = [grid[row, 0] for row in range(1, k)]
+    bottom_axes = [grid[k - 1, col] for col in range(k)]
+    if left_axes:
+        left_edge = min(_ticks_extent(ax.yaxis, renderer).x0 for ax in left_axes) - gap
+        for ax in left_axes:
+            ax.yaxis.set_label_coords((left_edge - ax.bbox.x0) / ax.bbox.width, 0.5)
+    bottom_edge = min(_ticks_extent(ax.xaxis, renderer).y0 for ax in bottom_axes) - gap
+    for ax in bottom_axes:
+        ax.xaxis.set_label_coords(0.5, (bottom_edge - ax.bbox.y0) / ax.bbox.height)
+
+
+def _labels_collide(axis: Any, renderer: Any) -> bool:
+    """Whether two neighbouring tick labels of an axis overlap (by more than a pixel)."""
+    boxes = [label.get_window_extent(renderer) for label in axis.get_ticklabels()
+             if label.get_text()]
+    return any(min(a.x1, b.x1) - max(a.x0, b.x0) > 1 and min(a.y1, b.y1) - max(a.y0, b.y0) > 1
+               for a, b in zip(boxes, boxes[1:], strict=False))
+
+
+def _thin_ticks(axes: Sequence[Any], renderer: Any, bins: int) -> None:
+    """Fewer ticks on a corner plot's row or column until its labelled axis (the last of
+    ``axes``) has no colliding tick labels, down to the one tick nearest the centre; every
+    axis of the row or column alike."""
+    while bins > 0 and _labels_collide(axes[-1], renderer):
+        bins -= 1
+        for axis in axes:
+            axis.set_major_locator(_InnerTicks(max(bins, 1), single=bins == 0))
+
+
+def _ticks_extent(axis: Any, renderer: Any) -> Any:
+    """Display box of an axis's ticks and tick labels (its label left out)."""
+    axis.label.set_visible(False)
+    try:
+        return axis.get_tightbbox(renderer)
+    finally:
+        axis.label.set_visible(True)
 
 
 def corner_figure(view: PosteriorPredictive) -> ReportFigure | None:
@@ -611,9 +867,14 @@ def corner_figure(view: PosteriorPredictive) -> ReportFigure | None:
         for row in range(1, len(keep)):
             if in_log10[row]:
                 _physical_log_ticks(grid[row, 0].yaxis)
+        panel_in = _axes_size_in(grid[0, 0])[0]
         for ax, title, column, log10 in zip(grid.diagonal(), titles, data.T, in_log10,
                                             strict=True):
-            ax.set_title(_quantile_title(title, column, log10), fontsize=6.5)
+            # A line wider than the panel would run over the neighbouring panel: wrapped.
+            text = "\n".join(_wrap_to_width(line, panel_in, 6.5)
+                             for line in _quantile_title(title, column, log10).split("\n"))
+            ax.set_title(text, fontsize=6.5)
+        _corner_axis_labels(fig, grid, labels)
     mechanism = get_mechanism(view.mechanism_id)
     caption = (f"Posterior of the {mechanism.name} parameters ({len(data)} draws of the "
                "β = 1 chain), drawn with corner.py (Foreman-Mackey 2016). Two-dimensional "
