@@ -373,3 +373,17 @@ def test_corner_ticks_and_titles_are_physical_values(fitted_run: AnalysisRun) ->
     assert title.startswith("sigma0 = ")
     shown = float(title.split("=")[1].split("\n")[0])
     assert shown == pytest.approx(np.median(samples), rel=0.01)  # thinned draws: ~1 % apart
+
+
+def test_a_cross_check_with_a_huge_error_is_named_not_printed():
+    # Issue 11: "absurd cross-check numbers printed without comment (TI 3.5e11 ...)".
+    from mechid.report.html import cross_check_text
+
+    evidence = {"var_log_likelihood": [5.66e18, 197.0, 14.3]}
+    from mechid.report.html import _first_rung_reason
+
+    text = cross_check_text("thermodynamic integration", 1.84e15, 1.87e14,
+                            _first_rung_reason(evidence))
+    assert "not informative" in text and "1.8e+15" not in text and "5.7e+18" in text
+    assert cross_check_text("bridge sampling", 3270.88, 0.02, "x") == "bridge sampling 3270.88 ± 0.02"
+    assert cross_check_text("bridge sampling", float("nan"), 0.02, "x") == ""

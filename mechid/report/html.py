@@ -697,19 +697,42 @@ def _screening_block(data: Json, mechanism_id: str, figures: _Figures) -> str:
     return "".join(out)
 
 
+#: A cross-check of ln Z whose own error exceeds this many nats checks nothing; it is named
+#: as not informative instead of printed as a number (our choice).
+CROSS_CHECK_USEFUL_ERROR = 10.0
+
+
+def cross_check_text(method: str, value: Any, error: Any, reason: str) -> str:
+    """``method value ± error``, or (error above :data:`CROSS_CHECK_USEFUL_ERROR`) why the
+    method gave no usable number; the stepping-stone value is reported either way."""
+    if not is_number(value):
+        return ""
+    if is_number(error) and error <= CROSS_CHECK_USEFUL_ERROR:
+        return f"{method} {fmt_ln(value)} ± {fmt_ln(error)}"
+    return f"{method} not informative here (error {fmt(error, '.2g')} nats: {reason})"
+
+
+def _first_rung_reason(evidence: Json) -> str:
+    """Why thermodynamic integration fails on a ladder from a reference distribution."""
+    variances = [v for v in evidence.get("var_log_likelihood") or [] if is_number(v)]
+    if not variances:
+        return "its Monte Carlo error is too large"
+    return (f"the variance of the log-likelihood ratio on the rung at the reference is "
+            f"{fmt(variances[0], '.2g')}, which its end correction cannot carry")
+
+
 def _fit_block(data: Json, k: int, m: Json, figures: _Figures) -> str:
     path = f"mechanisms.{k}"
     evidence = m.get("evidence") or {}
     adequacy = m.get("adequacy") or {}
     sampling = m.get("sampling") or {}
     out = ["<h4>Joint fit and evidence</h4>"]
-    cross = []
-    if is_number(evidence.get("log_evidence_ti")):
-        cross.append(f"thermodynamic integration {fmt_ln(evidence.get('log_evidence_ti'))} ± "
-                     f"{fmt_ln(evidence.get('log_evidence_ti_err'))}")
-    if is_number(evidence.get("log_evidence_bridge")):
-        cross.append(f"bridge sampling {fmt_ln(evidence.get('log_evidence_bridge'))} ± "
-                     f"{fmt_ln(evidence.get('log_evidence_bridge_err'))}")
+    cross = [text for text in (
+        cross_check_text("thermodynamic integration", evidence.get("log_evidence_ti"),
+                         evidence.get("log_evidence_ti_err"), _first_rung_reason(evidence)),
+        cross_check_text("bridge sampling", evidence.get("log_evidence_bridge"),
+                         evidence.get("log_evidence_bridge_err"),
+                         "its Monte Carlo error is too large")) if text]
     out.append(
         f"<p>ln Z = {num(m.get('log_evidence'), '.2f', f'{path}.log_evidence')} ± "
         f"{num(m.get('log_evidence_err'), '.2f', f'{path}.log_evidence_err')} (stepping-stone)"
