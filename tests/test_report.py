@@ -387,3 +387,24 @@ def test_a_cross_check_with_a_huge_error_is_named_not_printed():
     assert "not informative" in text and "1.8e+15" not in text and "5.7e+18" in text
     assert cross_check_text("bridge sampling", 3270.88, 0.02, "x") == "bridge sampling 3270.88 ± 0.02"
     assert cross_check_text("bridge sampling", float("nan"), 0.02, "x") == ""
+
+
+def test_a_screening_number_outside_the_catalogue_range_gets_a_note():
+    # Issue 11: "FN intercept barrier 2.8e6 eV" was printed without comment. Ranges are the
+    # catalogue's declared parameter bounds (read here from the declaration itself).
+    from mechid.catalogue import get_mechanism
+    from mechid.report.text import screening_quantity_note
+
+    barrier = next(p for p in get_mechanism("fowler_nordheim").parameters
+                   if p.name == "barrier_height_eV")
+    note = screening_quantity_note(
+        "fowler_nordheim", "fowler_nordheim_plot.barrier_height_from_intercept_assuming_unit_mass_eV",
+        2.84e6)
+    assert "barrier_height_eV" in note and "no physical reading" in note
+    inside = 0.5 * (barrier.lower + barrier.upper)
+    assert screening_quantity_note("fowler_nordheim", "fowler_nordheim_plot.barrier_height_"
+                                   "assuming_unit_mass_eV", inside) == ""
+    # a quantity that estimates no declared parameter gets no note
+    assert screening_quantity_note("direct_tunnelling",
+                                   "low_bias_conductance_plot.cubic_coefficient_per_V2", 1e9) == ""
+    assert screening_quantity_note("mott_vrh", "mott_vrh_plot.prefactor_S", 1.5e29) != ""

@@ -49,6 +49,7 @@ from mechid.report.text import (
     references,
     results_paragraph,
     screening_entry,
+    screening_quantity_note,
     unit_suffix,
 )
 from mechid.results import INTERVALS_CAVEAT, QUICK_RUN_BANNER
@@ -681,9 +682,10 @@ def _screening_block(data: Json, mechanism_id: str, figures: _Figures) -> str:
     summary = entry.get("summary") or {}
     if summary:
         rows = [[esc(key.split(".", 1)[-1]), esc(key.split(".", 1)[0].replace("_", " ")),
-                 num(value, ".4g")] for key, value in summary.items()]
+                 num(value, ".4g"), esc(screening_quantity_note(mechanism_id, key, value))]
+                for key, value in summary.items()]
         out.append("<p>Quantities read from the lines (median over lines):</p>"
-                   + table(["quantity", "from", "value"], rows, numeric=(2,)))
+                   + table(["quantity", "from", "value", "note"], rows, numeric=(2,)))
     checks = entry.get("checks") or []
     if checks:
         rows = [[badge(c.get("passed")), esc(str(c.get("name")).replace("_", " ")),

@@ -206,6 +206,45 @@ def screening_entry(data: Json, mechanism_id: str) -> Json | None:
     return None
 
 
+def _declared_for(mechanism_id: str, quantity: str):  # noqa: ANN202 (a Parameter or None)
+    """The mechanism parameter a screening quantity estimates: same stem and same unit suffix.
+
+    ``barrier_height_from_intercept_assuming_unit_mass_eV`` estimates ``barrier_height_eV``;
+    the longest matching stem wins. None when no parameter matches or the id is unknown.
+    """
+    from mechid.catalogue import get_mechanism
+    from mechid.errors import UnknownMechanismError
+
+    try:
+        parameters = get_mechanism(mechanism_id).parameters
+    except UnknownMechanismError:
+        return None
+    matches = []
+    for parameter in parameters:
+        stem, _, suffix = parameter.name.rpartition("_")
+        if stem and quantity.startswith(stem) and quantity.endswith(f"_{suffix}"):
+            matches.append((len(stem), parameter))
+        elif quantity == parameter.name:
+            matches.append((len(parameter.name), parameter))
+    return max(matches, key=lambda match: match[0])[1] if matches else None
+
+
+def screening_quantity_note(mechanism_id: str, quantity_key: str, value: Any) -> str:
+    """A note when a straightened-plot number lies outside the catalogue range of the parameter
+    it estimates (then the line does not describe that mechanism on these data), else ``""``.
+
+    ``quantity_key`` is ``"<plot_id>.<quantity>"`` as in the linearisation summary.
+    """
+    if not is_number(value):
+        return ""
+    parameter = _declared_for(mechanism_id, quantity_key.split(".", 1)[-1])
+    if parameter is None or parameter.lower <= value <= parameter.upper:
+        return ""
+    return (f"outside the catalogue range of {parameter.name} ({fmt(parameter.lower, 'g')} to "
+            f"{fmt(parameter.upper, 'g')}{unit_suffix(parameter.unit)}): no physical reading of "
+            "this line for this mechanism")
+
+
 def failed_checks(data: Json, mechanism_id: str) -> list[Json]:
     """The consistency checks of the mechanism's straightened plots that failed."""
     entry = screening_entry(data, mechanism_id) or {}
