@@ -315,6 +315,10 @@ def analyze_command(
     temperature_window: Annotated[str | None, typer.Option(
         "--temperature-window", metavar="LO:HI",
         help="Analyse only temperatures LO <= T <= HI kelvin (e.g. 77:300).")] = None,
+    fit_all: Annotated[bool, typer.Option(
+        "--fit-all", help="Sample every mechanism, also those whose best fit found lies over "
+                          "1000 nats below an evidence already estimated (skipped by default, "
+                          "listed with the bound).")] = False,
     seed: SeedOpt = 0,
 ) -> None:
     """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""
@@ -345,6 +349,7 @@ def analyze_command(
             polarity=polarity, prior_odds=parse_prior_odds(prior_odds) or None, workers=workers,
             bias_window_V=parse_window("--bias-window", bias_window),
             temperature_window_K=parse_window("--temperature-window", temperature_window),
+            skip_below_leader=not fit_all,
         )
         with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
                       TimeElapsedColumn(), console=err, transient=False,
