@@ -44,9 +44,10 @@ NOISE_PARAMETERS = (NOISE_RELATIVE, NOISE_FLOOR)
 NOTABLE_CORRELATION = 0.5
 #: A mechanism whose best log-likelihood found by the mode search lies more than this many
 #: nats below an evidence already estimated is not sampled (our choice, see
-#: :class:`BelowLeaderError`): ln Z <= max ln L, the mode search has been seen to miss a
-#: mode by up to ~570 nats (benchmarks/RESULTS.md, diode study) and halving or doubling every
-#: catalogue range moves ln Z by a few nats per parameter.
+#: :class:`BelowLeaderError`): ln Z <= max ln L, the mode search has been seen to miss the
+#: maximum by up to ~570 nats (benchmarks/RESULTS.md: diode study; Schottky emission on the
+#: typical series, > 260 nats), and halving or doubling every catalogue range (or prior odds of
+#: 100) moves ln Z by a few nats per parameter.
 BELOW_LEADER_MARGIN = 1000.0
 
 
