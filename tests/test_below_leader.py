@@ -77,6 +77,9 @@ def test_a_mechanism_far_below_the_first_round_is_not_sampled_and_says_why(outco
     assert record.best_log_likelihood < record.leader_log_evidence - record.margin_nats
     assert f"{record.best_log_likelihood:.1f}" in record.reason
     assert "ln Z <= max ln L" in record.reason
+    gap = record.leader_log_evidence - record.best_log_likelihood
+    assert f"missed the maximum by more than {gap - 50.0:.0f} nats" in record.reason
+    assert record.reason.endswith("(leader so far: poole_frenkel)")
 
 
 def test_skipping_leaves_the_numbers_of_the_mechanisms_fitted_unchanged(outcomes):

@@ -74,12 +74,13 @@ class BelowLeaderError(Exception):
         self.best_log_likelihood = float(best_log_likelihood)
         self.leader_log_evidence = float(leader_log_evidence)
         self.margin_nats = float(margin_nats)
+        gap = leader_log_evidence - best_log_likelihood
         super().__init__(
             f"its best log-likelihood found by the mode search, {best_log_likelihood:.1f}, lies "
-            f"{leader_log_evidence - best_log_likelihood:.0f} nats below the best log-evidence "
-            f"already estimated ({leader_log_evidence:.1f}); since ln Z <= max ln L it cannot "
-            f"come within {margin_nats:g} nats of it unless the mode search missed the maximum "
-            "by that much")
+            f"{gap:.0f} nats below the best log-evidence already estimated "
+            f"({leader_log_evidence:.1f}); since ln Z <= max ln L its evidence stays over "
+            f"{margin_nats:g} nats below unless the mode search missed the maximum by more than "
+            f"{gap - margin_nats:.0f} nats")
 
 
 @dataclass(frozen=True)

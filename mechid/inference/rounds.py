@@ -230,7 +230,8 @@ def _fit(job: FitJob, shared: _SharedInputs, leader: _Leader,
         assert leader is not None  # raised only against a known evidence
         return BelowLeaderMechanism(
             id=mechanism.id, family=mechanism.family, name=mechanism.name,
-            reason=f"{mechanism.id} was not sampled: {below}", leader_id=leader[0],
+            reason=f"{mechanism.id} was not sampled: {below} (leader so far: {leader[0]})",
+            leader_id=leader[0],
             best_log_likelihood=below.best_log_likelihood,
             leader_log_evidence=below.leader_log_evidence, margin_nats=below.margin_nats)
     except FormulaNotApplicableError as refused:
