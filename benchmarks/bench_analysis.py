@@ -8,6 +8,7 @@ whether every true parameter lies inside its 95 % interval. Also times a "typica
     python benchmarks/bench_analysis.py            # full settings
     python benchmarks/bench_analysis.py --quick    # the --quick settings
     python benchmarks/bench_analysis.py --only larkfield_sinx_poole_frenkel
+    python benchmarks/bench_analysis.py --fit-all   # also sample mechanisms far below the leader
 """
 
 from __future__ import annotations
@@ -51,6 +52,10 @@ def _report(name: str, run, truth: dict, wall: float) -> None:
               f"{fit.evidence.log_evidence_bridge:12.2f} {seconds:7.1f} {points / seconds / 1e6:6.1f} "
               f"{'yes' if m.fit_adequate else 'no ':3s}      {','.join(fit.evidence.flags)}")
     _report_domain_checks(run)
+    for entry in result.below_leader:
+        print(f"  not sampled: {entry.id:26s} best ln L found {entry.best_log_likelihood:.1f}, "
+              f"{entry.leader_log_evidence - entry.best_log_likelihood:.0f} nats below "
+              f"ln Z of {entry.leader_id}")
 
 
 def _report_domain_checks(run) -> None:
@@ -85,9 +90,11 @@ def main() -> None:
     parser.add_argument("--only", nargs="*", default=None)
     parser.add_argument("--seed", type=int, default=0)
     parser.add_argument("--skip-typical", action="store_true")
+    parser.add_argument("--fit-all", action="store_true",
+                        help="sample every mechanism (no skipping far below the leader)")
     args = parser.parse_args()
     warnings.simplefilter("ignore", MechidWarning)
-    settings = AnalysisSettings(quick=args.quick)
+    settings = AnalysisSettings(quick=args.quick, skip_below_leader=not args.fit_all)
     print(f"settings: {'quick' if args.quick else 'full'} ladder {settings.ladder().n_temperatures} rungs")
     if not args.skip_typical:
         series, device = typical_series()

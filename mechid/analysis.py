@@ -39,7 +39,7 @@ from mechid.inference.compare import (
     kass_raftery_wording,
     rank_mechanisms,
 )
-from mechid.inference.fit import MechanismFit
+from mechid.inference.fit import BELOW_LEADER_MARGIN, MechanismFit
 from mechid.inference.noise import DEFAULT_NOISE_LAW
 from mechid.inference.noise_choice import AUTO, NoiseLawChoice, as_requested, choose_noise_law
 from mechid.inference.predictive import PosteriorPredictive
@@ -59,6 +59,7 @@ from mechid.measurement import drift_check, measurement_cautions, repeat_agreeme
 from mechid.results import (
     QUICK_RUN_BANNER,
     AnalysisResult,
+    BelowLeaderMechanism,
     MechanismResult,
     NotFittedMechanism,
     ParameterSummary,
@@ -109,6 +110,11 @@ class AnalysisSettings:
         A law of :mod:`mechid.inference.noise` (``"gaussian"``, ``"lognormal_floor"``,
         ``"student_t"``) or ``"auto"``: chosen by evidence on the screening's most promising
         mechanism (:mod:`mechid.inference.noise_choice`).
+    skip_below_leader : bool
+        After its mode search, a mechanism whose best log-likelihood found lies more than
+        :data:`~mechid.inference.fit.BELOW_LEADER_MARGIN` nats below an evidence already
+        estimated is not sampled (listed in ``AnalysisResult.below_leader`` with the bound).
+        Never applied to mechanisms asked for by name. False (``--fit-all``) fits every one.
     """
 
     mechanisms: tuple[str, ...] | None = None
@@ -121,6 +127,7 @@ class AnalysisSettings:
     bias_window_V: tuple[float, float] | None = None
     temperature_window_K: tuple[float, float] | None = None
     noise_law: str = DEFAULT_NOISE_LAW
+    skip_below_leader: bool = True
 
     def ladder(self) -> LadderSettings:
         """The tempered-ladder settings these choices imply."""
@@ -237,6 +244,7 @@ def run_analysis_full(
     master = np.random.default_rng(seed)
     not_fitted: tuple[NotFittedMechanism, ...] = ()
     skipped: tuple[SkippedMechanism, ...] = ()
+    below_leader: tuple[BelowLeaderMechanism, ...] = ()
     comparison: tuple[PolarityComparison, ...] = ()
     noise: NoiseLawChoice | None = None
     if not settings.screen_only:
@@ -258,6 +266,8 @@ def run_analysis_full(
             device, settings.ladder(), settings.search(),
             workers=settings.workers or default_workers(), progress=progress,
             noise_law=noise.law,
+            below_leader_margin=(BELOW_LEADER_MARGIN if settings.skip_below_leader
+                                 and settings.mechanisms is None else None),
         )
         if settings.polarity == "each":
             comparison = _compare_polarities(jobs, outcome.fits, series, device, settings,
@@ -266,6 +276,8 @@ def run_analysis_full(
         fits = {m.id: outcome.fits[m.id] for m in mechanisms if m.id in outcome.fits}
         not_fitted = tuple(outcome.not_fitted[m.id] for m in mechanisms
                            if m.id in outcome.not_fitted)
+        below_leader = tuple(outcome.below_leader[m.id] for m in mechanisms
+                             if m.id in outcome.below_leader)
     results = _ranked_results(fits, settings)
     regimes = (_regime_map(results, fits, series.voltage_V[mask], series.temperature_K[mask],
                            device, seed) if results else None)
@@ -274,7 +286,8 @@ def run_analysis_full(
     fitted_sides = "each" if comparison else _fitted_polarities(series.voltage_V[mask])
     polarity = (polarity_assumption(leader, fitted_sides)
                 if leader is not None else "")
-    verdict = _verdict(results, settings, not_fitted, polarity, skipped) if results else None
+    verdict = (_verdict(results, settings, not_fitted, polarity, skipped, below_leader)
+               if results else None)
     if verdict is not None:
         verdict = _with_families(verdict, results, settings)
     sensitivity = (not_computed("screen-only run: no fit") if settings.screen_only
@@ -293,6 +306,7 @@ def run_analysis_full(
         seed=seed,
         not_fitted=not_fitted,
         skipped=skipped,
+        below_leader=below_leader,
         polarity_comparison=comparison,
         regime_map=regimes,
         prior_sensitivity=sensitivity,
@@ -587,7 +601,8 @@ def determination(result: MechanismResult) -> dict[str, ParameterSummary]:
 
 def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
              not_fitted: tuple[NotFittedMechanism, ...] = (),
-             polarity: str = "", skipped: tuple[SkippedMechanism, ...] = ()) -> Verdict:
+             polarity: str = "", skipped: tuple[SkippedMechanism, ...] = (),
+             below_leader: tuple[BelowLeaderMechanism, ...] = ()) -> Verdict:
     best = results[0]
     runner = results[1] if len(results) > 1 else None
     ln_b = -runner.ln_bayes_factor_vs_best if runner else float("inf")
@@ -611,6 +626,7 @@ def _verdict(results: list[MechanismResult], settings: AnalysisSettings,
                            n_candidates=len(results), prior_odds=odds)
         + _not_fitted_sentence(len(results), not_fitted)
         + _skipped_sentence(skipped)
+        + _below_leader_sentence(below_leader)
         + (f" Polarity assumption: {polarity}." if polarity else ""),
     )
 
@@ -681,6 +697,16 @@ def _skipped_sentence(skipped: tuple[SkippedMechanism, ...]) -> str:
         return ""
     return (" Not fitted because the screening rules them out on these data (see the reasons): "
             + ", ".join(m.id for m in skipped) + ".")
+
+
+def _below_leader_sentence(below: tuple[BelowLeaderMechanism, ...]) -> str:
+    """Who was not sampled because its best fit lies far below an evidence found (or "")."""
+    if not below:
+        return ""
+    leaders = ", ".join(dict.fromkeys(m.leader_id for m in below))
+    return (f" Not sampled because the best log-likelihood their mode search found lies over "
+            f"{below[0].margin_nats:g} nats below the evidence of {leaders} (ln Z <= max ln L; "
+            "--fit-all fits them): " + ", ".join(m.id for m in below) + ".")
 
 
 def quick_run_prefix(quick: bool) -> str:

@@ -333,6 +333,10 @@ def analyze_command(
         "--noise-law", metavar="LAW",
         help="How readings scatter: gaussian (default), lognormal-floor, student-t, or auto "
              "(chosen by evidence on the most promising mechanism).")] = "gaussian",
+    fit_all: Annotated[bool, typer.Option(
+        "--fit-all", help="Sample every mechanism, also those whose best fit found lies over "
+                          "1000 nats below an evidence already estimated (skipped by default, "
+                          "listed with the bound).")] = False,
     seed: SeedOpt = 0,
 ) -> None:
     """Read an I-V-T series, run every linearisation test, fit and rank every mechanism."""
@@ -365,6 +369,7 @@ def analyze_command(
             bias_window_V=parse_window("--bias-window", bias_window),
             temperature_window_K=parse_window("--temperature-window", temperature_window),
             noise_law=noise_law_setting(noise_law),
+            skip_below_leader=not fit_all,
         )
         with Progress(TextColumn("{task.description:<28}"), BarColumn(), TaskProgressColumn(),
                       TimeElapsedColumn(), console=err, transient=False,

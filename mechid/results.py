@@ -163,6 +163,27 @@ class SkippedMechanism:
 
 
 @dataclass(frozen=True)
+class BelowLeaderMechanism:
+    """A mechanism whose sampling was skipped: its best fit lies far below an evidence found.
+
+    Its mode search ran; the best log-likelihood it found, ``best_log_likelihood``, bounds its
+    log-evidence from above (ln Z <= max ln L for a normalised prior) if the search found the
+    maximum, and lies more than ``margin_nats`` below ``leader_log_evidence`` (the best ln Z
+    of the mechanisms fitted before it, ``leader_id``). ``reason`` says so in one sentence.
+    Switched off by ``AnalysisSettings(skip_below_leader=False)`` (``--fit-all``).
+    """
+
+    id: str
+    family: str
+    name: str
+    reason: str
+    best_log_likelihood: float
+    leader_id: str
+    leader_log_evidence: float
+    margin_nats: float
+
+
+@dataclass(frozen=True)
 class MechanismResult:
     """Everything learned about one mechanism from the joint fit (built once, never changed).
 
@@ -361,6 +382,9 @@ class AnalysisResult:
     not_fitted: tuple[NotFittedMechanism, ...] = ()
     #: Mechanisms left out before fitting: a declared need unmet by these data (with why).
     skipped: tuple[SkippedMechanism, ...] = ()
+    #: Mechanisms whose sampling was skipped after the mode search: best ln L found far below
+    #: an evidence already estimated (the bound and the margin with each).
+    below_leader: tuple[BelowLeaderMechanism, ...] = ()
     #: ``--polarity each``: shared against separate parameters, per mechanism fitted to both.
     polarity_comparison: tuple[PolarityComparison, ...] = ()
     #: Which path carries the current where (leading composite), and where the leading

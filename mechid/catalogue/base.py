@@ -311,11 +311,12 @@ class Mechanism:
             Current in A; zero at zero bias for odd mechanisms (a signed formula gives its own
             value there); NaN outside the formula's validity domain.
         """
-        missing = [n for n in self.parameter_names if n not in params]
-        extra = [n for n in params if n not in self.parameter_names]
+        names = self.parameter_names
+        missing = [n for n in names if n not in params]
+        extra = [n for n in params if n not in names]
         if missing or extra:
             raise UnknownMechanismError(
-                f"{self.id} needs parameters {', '.join(self.parameter_names)}"
+                f"{self.id} needs parameters {', '.join(names)}"
                 + (f"; missing {', '.join(missing)}" if missing else "")
                 + (f"; unknown {', '.join(extra)}" if extra else "")
             )

@@ -128,12 +128,21 @@ def within_validity(
     device: Device,
     params: Mapping[str, ArrayLike],
 ) -> BoolArray:
-    """True where every condition holds (arguments as in :func:`condition_quantities`)."""
-    quantities = condition_quantities(conditions, voltage_abs_V, temperature_K, device, params)
+    """True where every condition holds (arguments as in :func:`condition_quantities`).
+
+    The same mask as testing each of :func:`condition_quantities`' arrays, broadcast once at
+    the end instead of once per condition (this runs in every likelihood evaluation).
+    """
+    v = np.asarray(voltage_abs_V, dtype=float)
+    t = np.asarray(temperature_K, dtype=float)
+    values = {k: np.asarray(val, dtype=float) for k, val in params.items()}
+    shape = np.broadcast_shapes(v.shape, t.shape, *(a.shape for a in values.values()))
     mask: BoolArray | bool = True
-    for condition in conditions:
-        mask = mask & condition.holds(quantities[condition.id])
-    return np.asarray(mask, dtype=bool)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        for condition in conditions:
+            quantity = np.asarray(condition.evaluate(v, t, device, **values), dtype=float)
+            mask = mask & condition.holds(quantity)
+    return np.array(np.broadcast_to(mask, shape), dtype=bool)
 
 
 @dataclass(frozen=True)

@@ -43,6 +43,45 @@ from mechid.results import (
 NOISE_PARAMETERS = (NOISE_RELATIVE, NOISE_FLOOR)
 #: Correlations with |r| at least this large are listed in the results.
 NOTABLE_CORRELATION = 0.5
+#: A mechanism whose best log-likelihood found by the mode search lies more than this many
+#: nats below an evidence already estimated is not sampled (our choice, see
+#: :class:`BelowLeaderError`): ln Z <= max ln L, the mode search has been seen to miss the
+#: maximum by up to ~570 nats (benchmarks/RESULTS.md: diode study; Schottky emission on the
+#: typical series, > 260 nats), and halving or doubling every catalogue range (or prior odds of
+#: 100) moves ln Z by a few nats per parameter.
+BELOW_LEADER_MARGIN = 1000.0
+
+
+class BelowLeaderError(Exception):
+    """The mode search's best log-likelihood is far below an evidence already estimated.
+
+    The evidence is the prior average of the likelihood, so ln Z <= max ln L whatever the
+    (normalised) prior; a mechanism whose best point found lies ``margin_nats`` below a
+    competitor's ln Z cannot reach it, unless the search missed the maximum by that much.
+    The fit stops after the mode search (no pilot, ladder or checks).
+
+    Attributes
+    ----------
+    best_log_likelihood : float
+        The largest ln L at the modes found (a lower estimate of max ln L).
+    leader_log_evidence : float
+        The best ln Z of the mechanisms fitted before it.
+    margin_nats : float
+        The margin the gap exceeded.
+    """
+
+    def __init__(self, best_log_likelihood: float, leader_log_evidence: float,
+                 margin_nats: float) -> None:
+        self.best_log_likelihood = float(best_log_likelihood)
+        self.leader_log_evidence = float(leader_log_evidence)
+        self.margin_nats = float(margin_nats)
+        gap = leader_log_evidence - best_log_likelihood
+        super().__init__(
+            f"its best log-likelihood found by the mode search, {best_log_likelihood:.1f}, lies "
+            f"{gap:.0f} nats below the best log-evidence already estimated "
+            f"({leader_log_evidence:.1f}); since ln Z <= max ln L its evidence stays over "
+            f"{margin_nats:g} nats below unless the mode search missed the maximum by more than "
+            f"{gap - margin_nats:.0f} nats")
 
 
 @dataclass(frozen=True)
@@ -86,6 +125,7 @@ def fit_mechanism(
     search: SearchSettings,
     leader_log_evidence: float | None = None,
     noise_law: NoiseLaw = GAUSSIAN,
+    below_leader_margin: float | None = None,
 ) -> MechanismFit:
     """Fit one mechanism jointly to all points and estimate its evidence.
 
@@ -120,6 +160,14 @@ def fit_mechanism(
         first production block (flag ``far_below``).
     noise_law : NoiseLaw
         How the measured currents scatter about the model (:mod:`mechid.inference.noise`).
+    below_leader_margin : float, optional
+        With ``leader_log_evidence``: stop after the mode search when the best log-likelihood
+        found lies more than this many nats below it (None: never).
+
+    Raises
+    ------
+    BelowLeaderError
+        When ``below_leader_margin`` applies (the record says the bound and the gap).
     """
     priors = mechanism_priors(mechanism, device, current_A)
     target = MechanismTarget(mechanism, voltage_V, temperature_K, current_A, device, priors,
@@ -127,6 +175,10 @@ def fit_mechanism(
     modes = find_modes(target, rng, hints, search=search)
     if not np.isfinite(modes[0].log_posterior):
         raise _not_applicable(mechanism, target, device, rng)
+    if below_leader_margin is not None and leader_log_evidence is not None:
+        best = float(np.max(target.log_likelihood(np.array([m.point for m in modes]))))
+        if best < leader_log_evidence - below_leader_margin:
+            raise BelowLeaderError(best, leader_log_evidence, below_leader_margin)
     start = modes[0].point
     pilot = pilot_reference(target, [m.point for m in modes], *target.bounds, rng,
                             search=search, log_posteriors=[m.log_posterior for m in modes])

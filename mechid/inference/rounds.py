@@ -12,7 +12,10 @@ rounds. One worker runs the same rounds in this process.
 Workers are forked where the platform allows it (spawned elsewhere) and use one likelihood
 thread each. Progress reports travel back through a queue; warnings raised in a worker are
 re-issued here. A ladder without extensions (``max_production == n_production``, e.g. the
-quick settings) makes no far-below decisions, so all its fits form one round.
+quick settings) makes no far-below decisions, so all its fits form one round, unless
+mechanisms far below the leader are skipped after their mode search
+(``below_leader_margin``): then the first round's evidences serve every later fit, which
+forms a second round.
 """
 
 from __future__ import annotations
@@ -34,12 +37,12 @@ from mechid.catalogue.base import ParameterHints
 from mechid.catalogue.validity import FormulaNotApplicableError
 from mechid.device import Device
 from mechid.errors import MechidWarning
-from mechid.inference.fit import MechanismFit, fit_mechanism
+from mechid.inference.fit import BelowLeaderError, MechanismFit, fit_mechanism
 from mechid.inference.likelihood import set_likelihood_threads
 from mechid.inference.noise import GAUSSIAN, NoiseLaw
 from mechid.inference.reference import SamplerStartError
 from mechid.inference.settings import LadderSettings, SearchSettings
-from mechid.results import NotFittedMechanism
+from mechid.results import BelowLeaderMechanism, NotFittedMechanism
 
 #: Mechanisms fitted per round (the far-below threshold is updated between rounds).
 ROUND_SIZE = 2
@@ -67,18 +70,23 @@ class _SharedInputs:
     ladder: LadderSettings
     search: SearchSettings
     noise_law: NoiseLaw = GAUSSIAN
+    below_leader_margin: float | None = None
 
 
 @dataclass(frozen=True)
 class RoundsOutcome:
-    """The fits by mechanism id, and the mechanisms whose formula holds nowhere on the data."""
+    """The fits by mechanism id, the mechanisms whose formula holds nowhere on the data, and
+    those whose sampling was skipped because their best fit lies far below the leader."""
 
     fits: dict[str, MechanismFit]
     not_fitted: dict[str, NotFittedMechanism]
+    below_leader: dict[str, BelowLeaderMechanism]
 
 
-#: What one job gives: its fit, or why it was not fitted.
-_Outcome = MechanismFit | NotFittedMechanism
+#: What one job gives: its fit, why it was not fitted, or why it was not sampled.
+_Outcome = MechanismFit | NotFittedMechanism | BelowLeaderMechanism
+#: The best evidence so far: (mechanism id, ln Z), or None before the first fit.
+_Leader = tuple[str, float] | None
 
 
 def default_workers() -> int:
@@ -102,6 +110,7 @@ def fit_candidates_in_rounds(
     workers: int = 1,
     progress: ProgressHook | None = None,
     noise_law: NoiseLaw = GAUSSIAN,
+    below_leader_margin: float | None = None,
 ) -> RoundsOutcome:
     """Fit every job, ``ROUND_SIZE`` at a time; the fits and the mechanisms not fitted.
 
@@ -123,19 +132,28 @@ def fit_candidates_in_rounds(
         ``progress(label, done, total)`` while sampling.
     noise_law : NoiseLaw
         The noise law of every fit.
+    below_leader_margin : float, optional
+        A mechanism whose best log-likelihood found by its mode search lies more than this
+        many nats below the best evidence of the earlier rounds is not sampled
+        (:class:`~mechid.inference.fit.BelowLeaderError`); None fits every mechanism.
 
     Returns
     -------
     RoundsOutcome
-        The fits keyed by mechanism id, and each mechanism whose formula holds nowhere on
-        these data with the conditions that fail (a MechidWarning says so too).
+        The fits keyed by mechanism id, each mechanism whose formula holds nowhere on
+        these data with the conditions that fail (a MechidWarning says so too), and each
+        mechanism not sampled because it lies far below the leader (with the bound).
     """
     shared = _SharedInputs(np.asarray(voltage_V, float), np.asarray(temperature_K, float),
-                           np.asarray(current_A, float), device, ladder, search, noise_law)
+                           np.asarray(current_A, float), device, ladder, search, noise_law,
+                           below_leader_margin)
     if ladder.max_production > ladder.n_production:
         rounds = [list(jobs[i: i + ROUND_SIZE]) for i in range(0, len(jobs), ROUND_SIZE)]
+    elif below_leader_margin is not None:  # the first round's evidences serve all the rest
+        rounds = [list(jobs[:ROUND_SIZE]), list(jobs[ROUND_SIZE:])]
     else:  # no extensions, so no far-below decisions: one round, no waiting between fits
         rounds = [list(jobs)]
+    rounds = [batch for batch in rounds if batch]
     if workers <= 1 or len(jobs) <= 1:
         fits = _fit_here(rounds, shared, progress)
     else:
@@ -144,13 +162,15 @@ def fit_candidates_in_rounds(
     return RoundsOutcome(
         fits={k: fit for k, fit in fits.items() if isinstance(fit, MechanismFit)},
         not_fitted={k: fit for k, fit in fits.items() if isinstance(fit, NotFittedMechanism)},
+        below_leader={k: fit for k, fit in fits.items()
+                      if isinstance(fit, BelowLeaderMechanism)},
     )
 
 
 def _fit_here(rounds: list[list[FitJob]], shared: _SharedInputs,
               progress: ProgressHook | None) -> dict[str, _Outcome]:
     fits: dict[str, _Outcome] = {}
-    leader: float | None = None
+    leader: _Leader = None
     for batch in rounds:
         for job in batch:
             hook = None if progress is None else _labelled(progress, job.mechanism_id)
@@ -164,7 +184,7 @@ def _fit_on_workers(rounds: list[list[FitJob]], shared: _SharedInputs, workers: 
     context = multiprocessing.get_context(_start_method())
     messages = context.Queue()
     fits: dict[str, _Outcome] = {}
-    leader: float | None = None
+    leader: _Leader = None
     with ProcessPoolExecutor(max_workers=workers, mp_context=context,
                              initializer=_start_worker, initargs=(shared, messages)) as pool:
         for batch in rounds:
@@ -199,7 +219,7 @@ def _is_macos() -> bool:
     return os.uname().sysname == "Darwin"
 
 
-def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
+def _fit(job: FitJob, shared: _SharedInputs, leader: _Leader,
          hook: Callable[[int, int], None] | None) -> _Outcome:
     """The fit, or why not (also as a MechidWarning) when the formula holds nowhere."""
     mechanism = get_mechanism(job.mechanism_id)
@@ -207,9 +227,19 @@ def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
         return fit_mechanism(
             mechanism, shared.voltage_V, shared.temperature_K,
             shared.current_A, shared.device, shared.ladder, job.rng, hints=job.hints,
-            progress=hook, search=shared.search, leader_log_evidence=leader,
+            progress=hook, search=shared.search,
+            leader_log_evidence=None if leader is None else leader[1],
+            below_leader_margin=shared.below_leader_margin,
             noise_law=shared.noise_law,
         )
+    except BelowLeaderError as below:
+        assert leader is not None  # raised only against a known evidence
+        return BelowLeaderMechanism(
+            id=mechanism.id, family=mechanism.family, name=mechanism.name,
+            reason=f"{mechanism.id} was not sampled: {below} (leader so far: {leader[0]})",
+            leader_id=leader[0],
+            best_log_likelihood=below.best_log_likelihood,
+            leader_log_evidence=below.leader_log_evidence, margin_nats=below.margin_nats)
     except FormulaNotApplicableError as refused:
         warnings.warn(str(refused), MechidWarning, stacklevel=2)
         return NotFittedMechanism(id=mechanism.id, family=mechanism.family, name=mechanism.name,
@@ -222,12 +252,13 @@ def _fit(job: FitJob, shared: _SharedInputs, leader: float | None,
                                   reason=reason, violations=())
 
 
-def _best(leader: float | None, fits: Iterable[_Outcome]) -> float | None:
-    values = [fit.evidence.log_evidence for fit in fits if isinstance(fit, MechanismFit)]
-    values = [v for v in values if np.isfinite(v)]
+def _best(leader: _Leader, fits: Iterable[_Outcome]) -> _Leader:
+    """The (id, ln Z) of the best finite evidence among ``leader`` and ``fits``."""
+    values = [(fit.result.id, float(fit.evidence.log_evidence)) for fit in fits
+              if isinstance(fit, MechanismFit) and np.isfinite(fit.evidence.log_evidence)]
     if leader is not None:
         values.append(leader)
-    return max(values) if values else None
+    return max(values, key=lambda pair: pair[1]) if values else None
 
 
 def _labelled(progress: ProgressHook, mechanism_id: str) -> Callable[[int, int], None]:
@@ -264,7 +295,7 @@ def _start_worker(shared: _SharedInputs, messages: Any) -> None:
     _WORKER["messages"] = messages
 
 
-def _fit_in_worker(job: FitJob, leader: float | None
+def _fit_in_worker(job: FitJob, leader: _Leader
                    ) -> tuple[_Outcome, list[tuple[str, type]]]:
     messages = _WORKER["messages"]
     label = f"fitting {job.mechanism_id}"

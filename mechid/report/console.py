@@ -167,6 +167,12 @@ def render_console(result: AnalysisResult | Mapping[str, Any], console: Console)
         console.print("[bold]Not fitted: ruled out by the screening[/bold]")
         for entry in skipped:
             console.print(f"  - {escape(str(entry.get('id')))}: {escape(str(entry.get('reason')))}")
+    below = data.get("below_leader") or []
+    if below:
+        console.print("[bold]Not sampled: best fit far below the leader's evidence[/bold] "
+                      "(--fit-all fits them)")
+        for entry in below:
+            console.print(f"  - {escape(str(entry.get('reason')))}")
     compared = polarity_comparison_lines(data)
     if compared:
         console.print("[bold]Each polarity alone against both together[/bold] (ln B > 0: "

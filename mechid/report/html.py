@@ -417,13 +417,13 @@ def _ranking_section(data: Json, figures: _Figures) -> str:
         out.append(figures.get("comparison_regime_map"))
         out.append(prior_sensitivity_html(data))
     out.append(_not_fitted_html(data))
-    skipped = data.get("skipped") or []
-    if skipped:
-        out.append("<p><b>Not fitted: ruled out by the screening:</b> each needs something these "
-                   "data do not show, so its fit could not change the comparison.</p>"
-                   "<ul class='cautions'>" + "".join(
-                       f"<li><b>{esc(e.get('name'))}</b> ({esc(e.get('id'))}): {esc(e.get('reason'))}"
-                       "</li>" for e in skipped) + "</ul>")
+    out.append(_left_out_html(
+        data.get("skipped") or [], "<b>Not fitted: ruled out by the screening:</b> each needs "
+        "something these data do not show, so its fit could not change the comparison."))
+    out.append(_left_out_html(
+        data.get("below_leader") or [], "<b>Not sampled: best fit far below the leader's "
+        "evidence</b> (the evidence cannot exceed the best likelihood; <code>--fit-all</code> "
+        "fits them):"))
     compared = polarity_comparison_lines(data)
     if compared:
         out.append("<p><b>Each polarity alone against both together:</b> the evidence of the "
@@ -969,3 +969,12 @@ def _diode_section(data: Json, figures: _Figures) -> str:
     if notes:
         out.append("<p class='meta'>Not determined: " + esc("; ".join(notes)) + ".</p>")
     return "".join(out)
+
+
+def _left_out_html(entries: list[dict[str, Any]], heading: str) -> str:
+    """A paragraph ``heading`` (HTML) and the entries' names, ids and reasons ("" for none)."""
+    if not entries:
+        return ""
+    return (f"<p>{heading}</p><ul class='cautions'>" + "".join(
+        f"<li><b>{esc(e.get('name'))}</b> ({esc(e.get('id'))}): {esc(e.get('reason'))}</li>"
+        for e in entries) + "</ul>")
