@@ -12,8 +12,11 @@ other, how much the spread matters over the window (the change of the lowering
 e sigma^2/2kT between the coldest and the warmest temperature, in meV), and whether the 95 %
 intervals of the right hypothesis cover phi_B (or phibar), sigma, n and R_s.
 
-Run: ``python benchmarks/diode_study.py [n_cases] [--from K] [--full]``; ``--full`` instead times one
-full (non-quick) analysis of a typical homogeneous diode series.
+Run: ``python benchmarks/diode_study.py [n_cases] [--from K] [--full] [--small-spread]``;
+``--full`` instead times one full (non-quick) analysis of a typical homogeneous diode series;
+``--small-spread`` draws only inhomogeneous diodes with a small spread (sigma 0.003-0.03 V, its
+own seed :data:`SMALL_SPREAD_SEED`) and fits only the three diode hypotheses, to find where the
+inhomogeneous hypothesis stops winning.
 """
 
 from __future__ import annotations
@@ -36,6 +39,12 @@ from mechid.simulate import simulate_series
 
 #: Seed of the case draws (chosen before any case was looked at).
 STUDY_SEED = 90417
+#: Seed of the small-spread cases (chosen before any of them was looked at).
+SMALL_SPREAD_SEED = 61203
+#: Range of sigma in the main study and in the small-spread study, V.
+SPREAD_RANGE_V = (0.02, 0.15)
+SMALL_SPREAD_RANGE_V = (0.003, 0.03)
+DIODE_CANDIDATES = ("schottky_diode", "inhomogeneous_schottky_diode", "lateral_2d_schottky_diode")
 AREA_CM2 = 1e-3
 DEVICE = Device(area_cm2=AREA_CM2)
 VOLTAGES_V = np.round(np.linspace(-2.0, 1.0, 31), 6)
@@ -63,9 +72,15 @@ class Case:
         return 1e3 * variance / (2 * BOLTZMANN_EV) * (1 / t.min() - 1 / t.max())
 
 
-def draw_case(rng: np.random.Generator, index: int) -> Case:
-    """A diode with barrier 0.6-1.0 eV, A** 10-150, R_s 10-1e4 ohm, R_sh 1e7-1e11 ohm."""
-    inhomogeneous = index % 2 == 1
+def draw_case(rng: np.random.Generator, index: int,
+              spread_range_V: tuple[float, float] = SPREAD_RANGE_V,
+              inhomogeneous: bool | None = None) -> Case:
+    """A diode with barrier 0.6-1.0 eV, A** 10-150, R_s 10-1e4 ohm, R_sh 1e7-1e11 ohm.
+
+    Odd cases are inhomogeneous unless ``inhomogeneous`` says otherwise; their sigma is drawn
+    uniformly in ``spread_range_V``.
+    """
+    inhomogeneous = index % 2 == 1 if inhomogeneous is None else inhomogeneous
     barrier = rng.uniform(0.6, 1.0)
     common = {
         "richardson_constant_A_cm2_K2": float(10 ** rng.uniform(1.0, np.log10(150.0))),
@@ -77,7 +92,7 @@ def draw_case(rng: np.random.Generator, index: int) -> Case:
         t_min = rng.uniform(40.0, 200.0)
         truth = {"barrier_height_eV": barrier, "ideality_factor": rng.uniform(1.0, 2.0), **common}
     else:
-        sd = rng.uniform(0.02, 0.15)
+        sd = rng.uniform(*spread_range_V)
         # keep the apparent barrier above 0.3 eV at the coldest temperature
         t_floor = sd**2 / (2 * BOLTZMANN_EV * (barrier - 0.3))
         t_min = rng.uniform(max(40.0, t_floor), max(200.0, t_floor + 20.0))
@@ -117,11 +132,11 @@ def _truth_ideality(case: Case) -> float:
                 + case.truth["voltage_coefficient_rho3_V"] / (2 * kt))
 
 
-def run_case(case: Case, seed: int) -> dict:
+def run_case(case: Case, seed: int, candidates: tuple[str, ...] = CANDIDATES) -> dict:
     """Analyse one case and summarise what the study reports."""
     data = simulate(case, np.random.default_rng(seed))
     start = time.perf_counter()
-    result = mechid.analyse(data, device=DEVICE, mechanisms=CANDIDATES, quick=True, workers=1,
+    result = mechid.analyse(data, device=DEVICE, mechanisms=candidates, quick=True, workers=1,
                             seed=seed).to_dict()
     seconds = time.perf_counter() - start
     by_id = {m["id"]: m for m in result["mechanisms"]}
@@ -201,7 +216,7 @@ def time_full_fit() -> None:
                             "shunt_resistance_ohm": 1e9},
                 np.array([200.0, 250.0, 300.0, 350.0, 400.0]))
     data = simulate(case, np.random.default_rng(1))
-    candidates = ("schottky_diode", "inhomogeneous_schottky_diode", "lateral_2d_schottky_diode")
+    candidates = DIODE_CANDIDATES
     start = time.perf_counter()
     result = mechid.analyse(data, device=DEVICE, mechanisms=candidates, quick=False, workers=1,
                             seed=3).to_dict()
@@ -215,15 +230,21 @@ def main(argv: list[str]) -> None:
     if "--full" in argv:
         time_full_fit()
         return
-    n_cases = int(argv[0]) if argv else 12
+    small = "--small-spread" in argv
+    argv = [a for a in argv if a != "--small-spread"]
+    n_cases = int(argv[0]) if argv and not argv[0].startswith("--") else 12
     first = int(argv[argv.index("--from") + 1]) if "--from" in argv else 0
-    rng = np.random.default_rng(STUDY_SEED)
+    seed = SMALL_SPREAD_SEED if small else STUDY_SEED
+    rng = np.random.default_rng(seed)
     rows = []
     for index in range(n_cases):
-        case = draw_case(rng, index)  # drawn in order, so a case does not depend on --from
+        # drawn in order, so a case does not depend on --from
+        case = (draw_case(rng, index, SMALL_SPREAD_RANGE_V, inhomogeneous=True) if small
+                else draw_case(rng, index))
         if index < first:
             continue
-        rows.append(run_case(case, seed=STUDY_SEED + index))
+        rows.append(run_case(case, seed=seed + index,
+                             candidates=DIODE_CANDIDATES if small else CANDIDATES))
         _print_row(rows[-1])
     _summary(rows)
 
