@@ -40,6 +40,7 @@ from mechid.inference.compare import (
     rank_mechanisms,
 )
 from mechid.inference.fit import BELOW_LEADER_MARGIN, MechanismFit
+from mechid.inference.nesting import nested_search_misses
 from mechid.inference.noise import DEFAULT_NOISE_LAW
 from mechid.inference.noise_choice import AUTO, NoiseLawChoice, as_requested, choose_noise_law
 from mechid.inference.predictive import PosteriorPredictive
@@ -301,8 +302,9 @@ def run_analysis_full(
         verdict=verdict,
         settings={**asdict(settings), "ladder": asdict(settings.ladder()),
                   "wall_time_s": time.perf_counter() - started},
-        cautions=tuple(cautions(series, device, results, verdict, lin.polarity_asymmetry,
-                                leader_symmetric=None if leader is None else leader.is_odd)),
+        cautions=tuple([miss.caution() for miss in nested_search_misses(fits)]
+                       + cautions(series, device, results, verdict, lin.polarity_asymmetry,
+                                  leader_symmetric=None if leader is None else leader.is_odd)),
         seed=seed,
         not_fitted=not_fitted,
         skipped=skipped,

@@ -209,6 +209,10 @@ class Mechanism:
     whose paths must each carry the larger share somewhere in the measured window); the
     likelihood refuses the parameter sets it rejects, as it refuses those outside the validity
     domain. It receives the distinct fitted (|V|, T) pairs (signed V for a signed formula).
+    ``contains`` names mechanisms that are special cases of this one, each with the map from
+    its parameter values to this mechanism's (same current at every point): the fit uses it
+    to detect a search that missed the nested mechanism's best region
+    (:mod:`mechid.inference.nesting`).
     """
 
     id: str
@@ -228,6 +232,8 @@ class Mechanism:
     signed_current: SignedFormula | None = None
     needs: tuple[DataNeed, ...] = ()
     window_condition: WindowCondition | None = None
+    contains: Mapping[str, Callable[[Mapping[str, float]], dict[str, float]]] = field(
+        default_factory=dict)
 
     def __post_init__(self) -> None:
         if (self.magnitude is None) == (self.signed_current is None):

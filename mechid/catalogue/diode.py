@@ -34,6 +34,8 @@ standard deviation ``sigma`` is in V (the spread of ``e phi`` is ``e sigma``), a
 
 from __future__ import annotations
 
+from collections.abc import Mapping
+
 import numpy as np
 from numpy.typing import ArrayLike
 from scipy import special
@@ -635,6 +637,22 @@ SCHOTTKY_DIODE = Mechanism(
     ),
 )
 
+def homogeneous_as_inhomogeneous(values: Mapping[str, float]) -> dict[str, float]:
+    """A homogeneous diode's parameters as those of the inhomogeneous one (same current).
+
+    With sigma^2 = 0, rho3 = 0 and rho2 = 1 - 1/n, Werner & Guettler's phi_ap = phibar and
+    1/n_ap - 1 = -rho2 reduce to the plain diode law with barrier phibar and ideality n.
+    """
+    return {
+        "mean_barrier_height_eV": float(values["barrier_height_eV"]),
+        "barrier_variance_V2": 0.0,
+        "voltage_coefficient_rho2": 1.0 - 1.0 / float(values["ideality_factor"]),
+        "voltage_coefficient_rho3_V": 0.0,
+        **{name: float(values[name]) for name in
+           ("richardson_constant_A_cm2_K2", "series_resistance_ohm", "shunt_resistance_ohm")},
+    }
+
+
 INHOMOGENEOUS_SCHOTTKY_DIODE = Mechanism(
     id="inhomogeneous_schottky_diode",
     family="emission",
@@ -686,6 +704,7 @@ INHOMOGENEOUS_SCHOTTKY_DIODE = Mechanism(
         "+ e^2 sigma^2/(2k^2T^2) linear in 1/T with slope -phibar/k"
     ),
     validity=INHOMOGENEOUS_VALIDITY,
+    contains={"schottky_diode": homogeneous_as_inhomogeneous},
 )
 
 LATERAL_2D_SCHOTTKY_DIODE = Mechanism(

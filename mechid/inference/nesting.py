@@ -1,0 +1,101 @@
+"""Search misses proven by nesting: a mechanism that contains another as a special case.
+
+If mechanism M contains N (M's declaration maps every parameter set of N to one of M's with
+the same current, :attr:`mechid.catalogue.base.Mechanism.contains`), then N's best fit, mapped
+into M's parameters, is a point M's own search could have found. When that point's log
+posterior under M beats the best M's search and sampler found by more than
+:data:`MISS_MARGIN` nats, M's search provably missed a better region: its evidence is too low
+(a lower bound at best) and every Bayes factor against M is unreliable. The check costs one
+likelihood evaluation per nested pair; it proves a miss, it cannot prove there is none.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass
+
+import numpy as np
+
+from mechid.catalogue import get_mechanism
+from mechid.inference.fit import NOISE_PARAMETERS, MechanismFit
+
+#: Nats by which the mapped point must beat the best point found to count as a miss (a margin
+#: for the differences between the two fits' noise parameters; our choice).
+MISS_MARGIN = 5.0
+
+
+@dataclass(frozen=True)
+class NestedSearchMiss:
+    """A mechanism whose search missed the best fit of a mechanism it contains.
+
+    Parameters
+    ----------
+    mechanism_id, nested_id : str
+        The containing mechanism and the special case.
+    gain : float
+        Log posterior of the nested best fit mapped into ``mechanism_id``, minus the best log
+        posterior its own search and sampler found (nats, > MISS_MARGIN).
+    """
+
+    mechanism_id: str
+    nested_id: str
+    gain: float
+
+    def caution(self) -> str:
+        """The sentence for the cautions."""
+        return (f"{self.mechanism_id} contains {self.nested_id} as a special case, but its "
+                f"search missed that region: {self.nested_id}'s best fit, written in "
+                f"{self.mechanism_id}'s parameters, is {self.gain:.0f} nats higher in posterior "
+                f"density than anything {self.mechanism_id}'s sampler found. Its evidence is "
+                f"too low and the Bayes factors against it are not reliable; do not read the "
+                f"comparison of these two as evidence for {self.nested_id}")
+
+
+def best_point(fit: MechanismFit) -> tuple[np.ndarray, float]:
+    """The best internal point the fit's mode search and cold chain reached, and its log
+    posterior."""
+    at_map = float(fit.target.log_posterior(fit.map_internal[None, :])[0])
+    chain = np.asarray(fit.run.cold_log_likelihood) + np.asarray(fit.run.cold_log_prior)
+    index = np.unravel_index(int(np.argmax(chain)), chain.shape)
+    if at_map >= float(chain[index]):
+        return fit.map_internal, at_map
+    return np.asarray(fit.run.cold_chain)[index], float(chain[index])
+
+
+def best_found(fit: MechanismFit) -> float:
+    """The best log posterior the fit's mode search and cold chain reached."""
+    return best_point(fit)[1]
+
+
+def mapped_point(container: MechanismFit, nested: MechanismFit) -> np.ndarray | None:
+    """The nested fit's best point in the container's internal coordinates (None: outside
+    the container's prior)."""
+    mapping = get_mechanism(container.result.id).contains[nested.result.id]
+    physical = nested.target.physical_values(best_point(nested)[0][None, :])
+    values = {name: float(value[0, 0]) for name, value in physical.items()}
+    mapped = {**mapping(values), **{name: values[name] for name in NOISE_PARAMETERS}}
+    point = []
+    for prior in container.target.free:
+        internal = float(prior.to_internal(mapped[prior.name]))
+        low, high = prior.internal_bounds()
+        if not low <= internal <= high:
+            return None
+        point.append(internal)
+    return np.array(point)
+
+
+def nested_search_misses(fits: Mapping[str, MechanismFit]) -> list[NestedSearchMiss]:
+    """Every fitted (container, nested) pair where the container's search provably missed."""
+    misses = []
+    for container in fits.values():
+        for nested_id in get_mechanism(container.result.id).contains:
+            nested = fits.get(nested_id)
+            if nested is None:
+                continue
+            point = mapped_point(container, nested)
+            if point is None:
+                continue
+            gain = float(container.target.log_posterior(point[None, :])[0]) - best_found(container)
+            if np.isfinite(gain) and gain > MISS_MARGIN:
+                misses.append(NestedSearchMiss(container.result.id, nested_id, gain))
+    return misses

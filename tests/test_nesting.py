@@ -1,0 +1,72 @@
+"""A containing hypothesis whose search missed its nested special case is caught.
+
+Physics of the nesting: Werner & Güttler (J. Appl. Phys. 69, 1522 (1991)) with sigma^2 = 0,
+rho3 = 0 and rho2 = 1 - 1/n is the plain diode law with ideality n (phi_ap = phibar,
+1/n_ap - 1 = -rho2): the currents must agree at every point.
+"""
+
+from types import SimpleNamespace
+
+import numpy as np
+
+from mechid.catalogue import get_mechanism
+from mechid.catalogue.diode import homogeneous_as_inhomogeneous
+from mechid.device import Device
+from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.nesting import MISS_MARGIN, nested_search_misses
+from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, mechanism_priors
+from mechid.simulate import simulate_series
+
+DEVICE = Device(area_cm2=1e-3)
+HOMOGENEOUS = get_mechanism("schottky_diode")
+INHOMOGENEOUS = get_mechanism("inhomogeneous_schottky_diode")
+TRUTH = {"barrier_height_eV": 0.75, "ideality_factor": 1.2, "richardson_constant_A_cm2_K2": 30.0,
+         "series_resistance_ohm": 50.0, "shunt_resistance_ohm": 1e9}
+
+
+def test_the_inhomogeneous_diode_contains_the_homogeneous_one_point_by_point():
+    rng = np.random.default_rng(4)
+    voltage = np.linspace(-2.0, 1.0, 31)
+    for _ in range(5):
+        values = {"barrier_height_eV": rng.uniform(0.5, 1.0), "ideality_factor": rng.uniform(1, 2),
+                  "richardson_constant_A_cm2_K2": 10 ** rng.uniform(0, 2),
+                  "series_resistance_ohm": 10 ** rng.uniform(1, 4),
+                  "shunt_resistance_ohm": 10 ** rng.uniform(7, 11)}
+        for temperature in (80.0, 200.0, 400.0):
+            t = np.full(voltage.size, temperature)
+            np.testing.assert_allclose(
+                INHOMOGENEOUS.current(voltage, t, homogeneous_as_inhomogeneous(values), DEVICE),
+                HOMOGENEOUS.current(voltage, t, values, DEVICE), rtol=1e-12, atol=0)
+
+
+def _fake_fit(mechanism, series, point_physical):
+    """A fit-like record whose best point (MAP and only chain state) is ``point_physical``."""
+    priors = mechanism_priors(mechanism, DEVICE, series.current_A)
+    target = MechanismTarget(mechanism, series.voltage_V, series.temperature_K, series.current_A,
+                             DEVICE, priors)
+    internal = np.array([float(p.to_internal(point_physical[p.name])) for p in target.free])
+    log_like = target.log_likelihood(internal[None, :])
+    log_prior = target.log_prior(internal[None, :])
+    run = SimpleNamespace(cold_chain=internal[None, None, :], cold_log_likelihood=log_like[None, :],
+                          cold_log_prior=log_prior[None, :])
+    return SimpleNamespace(target=target, run=run, map_internal=internal,
+                           result=SimpleNamespace(id=mechanism.id))
+
+
+def test_a_missed_nested_region_is_reported_and_a_found_one_is_not():
+    series = simulate_series(HOMOGENEOUS, TRUTH, [100.0, 200.0, 300.0], np.linspace(-1, 0.8, 37),
+                             DEVICE, noise_relative=0.02, noise_floor_A=1e-13,
+                             rng=np.random.default_rng(1))
+    noise = {NOISE_RELATIVE: 0.02, NOISE_FLOOR: 1e-13}
+    nested = _fake_fit(HOMOGENEOUS, series, {**TRUTH, **noise})
+    # the container "found" only a poor point: 30 meV off in barrier, no spread
+    poor = {**homogeneous_as_inhomogeneous({**TRUTH, "barrier_height_eV": 0.78}), **noise}
+    missed = _fake_fit(INHOMOGENEOUS, series, poor)
+    found = nested_search_misses({"schottky_diode": nested, "inhomogeneous_schottky_diode": missed})
+    assert len(found) == 1 and found[0].mechanism_id == "inhomogeneous_schottky_diode"
+    assert found[0].gain > MISS_MARGIN
+    assert "not reliable" in found[0].caution()
+    # a container that reached the nested best fit (mapped) shows no miss
+    reached = _fake_fit(INHOMOGENEOUS, series, {**homogeneous_as_inhomogeneous(TRUTH), **noise})
+    assert nested_search_misses({"schottky_diode": nested,
+                                 "inhomogeneous_schottky_diode": reached}) == []
