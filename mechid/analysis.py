@@ -276,11 +276,11 @@ def run_analysis_full(
             below_leader_margin=(BELOW_LEADER_MARGIN if settings.skip_below_leader
                                  and settings.mechanisms is None else None),
         )
+        repaired = _refit_nested_misses(outcome.fits, series, mask, device, settings, master,
+                                        progress, noise)
         if settings.polarity == "each":
             comparison = _compare_polarities(jobs, outcome.fits, series, device, settings,
                                              master, progress, noise)
-        repaired = _refit_nested_misses(outcome.fits, series, mask, device, settings, master,
-                                        progress, noise)
         # A mechanism whose formula holds nowhere on the data is listed as not fitted, why.
         fits = {m.id: outcome.fits[m.id] for m in mechanisms if m.id in outcome.fits}
         not_fitted = tuple(outcome.not_fitted[m.id] for m in mechanisms
