@@ -40,7 +40,12 @@ from mechid.inference.compare import (
     rank_mechanisms,
 )
 from mechid.inference.fit import BELOW_LEADER_MARGIN, MechanismFit
-from mechid.inference.nesting import nested_search_misses
+from mechid.inference.nesting import (
+    best_found,
+    nested_search_misses,
+    refit_caution,
+    restart_hints,
+)
 from mechid.inference.noise import DEFAULT_NOISE_LAW
 from mechid.inference.noise_choice import AUTO, NoiseLawChoice, as_requested, choose_noise_law
 from mechid.inference.predictive import PosteriorPredictive
@@ -248,6 +253,7 @@ def run_analysis_full(
     below_leader: tuple[BelowLeaderMechanism, ...] = ()
     comparison: tuple[PolarityComparison, ...] = ()
     noise: NoiseLawChoice | None = None
+    repaired: list[str] = []
     if not settings.screen_only:
         _check_area(device, mechanisms)
         children = master.spawn(len(mechanisms))
@@ -270,6 +276,8 @@ def run_analysis_full(
             below_leader_margin=(BELOW_LEADER_MARGIN if settings.skip_below_leader
                                  and settings.mechanisms is None else None),
         )
+        repaired = _refit_nested_misses(outcome.fits, series, mask, device, settings, master,
+                                        progress, noise)
         if settings.polarity == "each":
             comparison = _compare_polarities(jobs, outcome.fits, series, device, settings,
                                              master, progress, noise)
@@ -302,7 +310,7 @@ def run_analysis_full(
         verdict=verdict,
         settings={**asdict(settings), "ladder": asdict(settings.ladder()),
                   "wall_time_s": time.perf_counter() - started},
-        cautions=tuple([miss.caution() for miss in nested_search_misses(fits)]
+        cautions=tuple(repaired + [miss.caution() for miss in nested_search_misses(fits)]
                        + cautions(series, device, results, verdict, lin.polarity_asymmetry,
                                   leader_symmetric=None if leader is None else leader.is_odd)),
         seed=seed,
@@ -316,6 +324,29 @@ def run_analysis_full(
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
+
+
+def _refit_nested_misses(fits: dict[str, MechanismFit], series: IVSeries, mask: np.ndarray,
+                         device: Device, settings: AnalysisSettings,
+                         master: np.random.Generator, progress: ProgressHook | None,
+                         noise: NoiseLawChoice) -> list[str]:
+    """Fit again, from the nested best fit, every container whose search provably missed it.
+
+    The new fit replaces the old one when it reached a better point (it always starts next to
+    one). ``fits`` is updated in place; returns a caution per refit. A fresh random stream is
+    spawned from ``master`` per refit, so runs without a miss keep their numbers.
+    """
+    notes = []
+    for miss in nested_search_misses(fits):
+        job = FitJob(miss.mechanism_id, master.spawn(1)[0], restart_hints(miss, fits))
+        again = fit_candidates_in_rounds(
+            [job], series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
+            device, settings.ladder(), settings.search(), workers=1, progress=progress,
+            noise_law=noise.law).fits.get(miss.mechanism_id)
+        if again is not None and best_found(again) > best_found(fits[miss.mechanism_id]):
+            fits[miss.mechanism_id] = again
+            notes.append(refit_caution(miss))
+    return notes
 
 
 def _noise_law_choice(settings: AnalysisSettings, jobs: list[FitJob], series: IVSeries,

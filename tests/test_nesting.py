@@ -70,3 +70,36 @@ def test_a_missed_nested_region_is_reported_and_a_found_one_is_not():
     reached = _fake_fit(INHOMOGENEOUS, series, {**homogeneous_as_inhomogeneous(TRUTH), **noise})
     assert nested_search_misses({"schottky_diode": nested,
                                  "inhomogeneous_schottky_diode": reached}) == []
+
+
+def test_a_missed_container_is_fitted_again_from_the_nested_fit_and_wins():
+    # An inhomogeneous diode with a small spread on a window down to 100 K (the small-spread
+    # study's case 1, benchmarks/RESULTS.md): the first search of the inhomogeneous law misses
+    # and the homogeneous law led with p = 1.000. Fitted again from the homogeneous best fit,
+    # the true law leads and its intervals cover phibar and sigma^2.
+    import warnings
+
+    import mechid
+
+    truth = {"mean_barrier_height_eV": 0.750396, "barrier_variance_V2": 0.000470353,
+             "voltage_coefficient_rho2": 0.178005, "voltage_coefficient_rho3_V": -0.000378005,
+             "richardson_constant_A_cm2_K2": 24.4734, "series_resistance_ohm": 178.638,
+             "shunt_resistance_ohm": 1.00609e8}
+    voltage = np.round(np.linspace(-2.0, 1.0, 31), 6)
+    series = simulate_series(INHOMOGENEOUS, truth, [100.2, 173.8, 247.4, 321.0, 394.6],
+                             voltage[voltage != 0], DEVICE, noise_relative=0.01,
+                             noise_floor_A=1e-13, rng=np.random.default_rng(61204))
+    data = {"temperature_K": series.temperature_K, "voltage_V": series.voltage_V,
+            "current_A": series.current_A}
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        result = mechid.analyse(data, device=DEVICE, quick=True, workers=1, seed=61204,
+                                mechanisms=("schottky_diode", "inhomogeneous_schottky_diode")
+                                ).to_dict()
+    assert any("fitted again starting from schottky_diode" in c for c in result["cautions"])
+    assert not any("search missed that region" in c for c in result["cautions"])
+    leader = result["mechanisms"][0]
+    assert leader["id"] == "inhomogeneous_schottky_diode"
+    for name in ("mean_barrier_height_eV", "barrier_variance_V2"):
+        low, high = leader["parameters"][name]["ci95"]
+        assert low <= truth[name] <= high, (name, low, high)

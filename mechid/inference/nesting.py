@@ -17,6 +17,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from mechid.catalogue import get_mechanism
+from mechid.catalogue.base import ParameterHints
 from mechid.inference.fit import NOISE_PARAMETERS, MechanismFit
 
 #: Nats by which the mapped point must beat the best point found to count as a miss (a margin
@@ -82,6 +83,24 @@ def mapped_point(container: MechanismFit, nested: MechanismFit) -> np.ndarray | 
             return None
         point.append(internal)
     return np.array(point)
+
+
+def restart_hints(miss: NestedSearchMiss, fits: Mapping[str, MechanismFit]) -> ParameterHints:
+    """Starting values for fitting the container again: the nested best fit, mapped."""
+    container, nested = fits[miss.mechanism_id], fits[miss.nested_id]
+    mapping = get_mechanism(miss.mechanism_id).contains[miss.nested_id]
+    physical = nested.target.physical_values(best_point(nested)[0][None, :])
+    mapped = mapping({name: float(value[0, 0]) for name, value in physical.items()})
+    names = container.target.mechanism.parameter_names
+    return ParameterHints(miss.mechanism_id, {k: v for k, v in mapped.items() if k in names},
+                          {k: f"best fit of {miss.nested_id}" for k in mapped if k in names})
+
+
+def refit_caution(miss: NestedSearchMiss) -> str:
+    """The sentence saying that a missed container was fitted again, and from where."""
+    return (f"{miss.mechanism_id}'s first search missed the region of {miss.nested_id}, which "
+            f"it contains as a special case ({miss.gain:.0f} nats); it was fitted again "
+            f"starting from {miss.nested_id}'s best fit, and the numbers shown are that fit's")
 
 
 def nested_search_misses(fits: Mapping[str, MechanismFit]) -> list[NestedSearchMiss]:
