@@ -68,13 +68,19 @@ def best_found(fit: MechanismFit) -> float:
     return best_point(fit)[1]
 
 
+def mapped_values(container_id: str, nested: MechanismFit) -> dict[str, float]:
+    """The nested fit's best point as physical values of the container (noise parameters
+    carried over unchanged)."""
+    mapping = get_mechanism(container_id).contains[nested.result.id]
+    physical = nested.target.physical_values(best_point(nested)[0][None, :])
+    values = {name: float(value[0, 0]) for name, value in physical.items()}
+    return {**mapping(values), **{name: values[name] for name in NOISE_PARAMETERS}}
+
+
 def mapped_point(container: MechanismFit, nested: MechanismFit) -> np.ndarray | None:
     """The nested fit's best point in the container's internal coordinates (None: outside
     the container's prior)."""
-    mapping = get_mechanism(container.result.id).contains[nested.result.id]
-    physical = nested.target.physical_values(best_point(nested)[0][None, :])
-    values = {name: float(value[0, 0]) for name, value in physical.items()}
-    mapped = {**mapping(values), **{name: values[name] for name in NOISE_PARAMETERS}}
+    mapped = mapped_values(container.result.id, nested)
     point = []
     for prior in container.target.free:
         internal = float(prior.to_internal(mapped[prior.name]))
@@ -87,11 +93,8 @@ def mapped_point(container: MechanismFit, nested: MechanismFit) -> np.ndarray | 
 
 def restart_hints(miss: NestedSearchMiss, fits: Mapping[str, MechanismFit]) -> ParameterHints:
     """Starting values for fitting the container again: the nested best fit, mapped."""
-    container, nested = fits[miss.mechanism_id], fits[miss.nested_id]
-    mapping = get_mechanism(miss.mechanism_id).contains[miss.nested_id]
-    physical = nested.target.physical_values(best_point(nested)[0][None, :])
-    mapped = mapping({name: float(value[0, 0]) for name, value in physical.items()})
-    names = container.target.mechanism.parameter_names
+    mapped = mapped_values(miss.mechanism_id, fits[miss.nested_id])
+    names = get_mechanism(miss.mechanism_id).parameter_names
     return ParameterHints(miss.mechanism_id, {k: v for k, v in mapped.items() if k in names},
                           {k: f"best fit of {miss.nested_id}" for k in mapped if k in names})
 
