@@ -48,10 +48,16 @@ from mechid.inference.nesting import (
 )
 from mechid.inference.noise import DEFAULT_NOISE_LAW
 from mechid.inference.noise_choice import AUTO, NoiseLawChoice, as_requested, choose_noise_law
+from mechid.inference.path_start import composite_parts, part_hints
 from mechid.inference.predictive import PosteriorPredictive
 from mechid.inference.priors import Prior
 from mechid.inference.regimes import RegimeMap, regime_map
-from mechid.inference.rounds import FitJob, default_workers, fit_candidates_in_rounds
+from mechid.inference.rounds import (
+    FitJob,
+    RoundsOutcome,
+    default_workers,
+    fit_candidates_in_rounds,
+)
 from mechid.inference.sensitivity import not_computed, sensitivity_of_fits
 from mechid.inference.settings import (
     FULL_LADDER,
@@ -267,17 +273,21 @@ def run_analysis_full(
                        for m, child in zip(mechanisms, children, strict=True)
                        if m.id not in left_out),
                       key=lambda job: screening.get(job.mechanism_id, len(screening)))
-        noise = _noise_law_choice(settings, jobs, series, mask, device, master, progress)
+        singles = [job for job in jobs if not composite_parts(get_mechanism(job.mechanism_id))]
+        noise = _noise_law_choice(settings, singles or jobs, series, mask, device, master,
+                                  progress)
+        margin = (BELOW_LEADER_MARGIN if settings.skip_below_leader
+                  and settings.mechanisms is None else None)
         outcome = fit_candidates_in_rounds(
-            jobs, series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
+            singles, series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
             device, settings.ladder(), settings.search(),
             workers=settings.workers or default_workers(), progress=progress,
-            noise_law=noise.law,
-            below_leader_margin=(BELOW_LEADER_MARGIN if settings.skip_below_leader
-                                 and settings.mechanisms is None else None),
+            noise_law=noise.law, below_leader_margin=margin,
         )
         repaired = _refit_nested_misses(outcome.fits, series, mask, device, settings, master,
                                         progress, noise)
+        outcome = _fit_composites([job for job in jobs if job not in singles], outcome, series,
+                                  mask, device, settings, progress, noise, margin)
         if settings.polarity == "each":
             comparison = _compare_polarities(jobs, outcome.fits, series, device, settings,
                                              master, progress, noise)
@@ -324,6 +334,33 @@ def run_analysis_full(
     )
     return AnalysisRun(result, lin, fits, series, device,
                        predictive={mid: fit.predictive for mid, fit in fits.items()})
+
+
+def _fit_composites(jobs: list[FitJob], singles: RoundsOutcome, series: IVSeries,
+                    mask: np.ndarray, device: Device, settings: AnalysisSettings,
+                    progress: ProgressHook | None, noise: NoiseLawChoice,
+                    margin: float | None) -> RoundsOutcome:
+    """Fit the composites after the single mechanisms, starting from their parts' best fits.
+
+    Each composite keeps its own random stream (``jobs``); the single fits' best evidence is
+    the leader for the far-below rule. Returns the single and composite outcomes together.
+    """
+    if not jobs:
+        return singles
+    seeded = [replace(job, hints=(*part_hints(get_mechanism(job.mechanism_id), singles.fits),
+                                  *((job.hints,) if job.hints is not None else ())))
+              for job in jobs]
+    leader = max(((mid, float(fit.evidence.log_evidence)) for mid, fit in singles.fits.items()
+                  if np.isfinite(fit.evidence.log_evidence)),
+                 key=lambda pair: pair[1], default=None)
+    composites = fit_candidates_in_rounds(
+        seeded, series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
+        device, settings.ladder(), settings.search(),
+        workers=settings.workers or default_workers(), progress=progress,
+        noise_law=noise.law, below_leader_margin=margin, leader=leader)
+    return RoundsOutcome(fits={**singles.fits, **composites.fits},
+                         not_fitted={**singles.not_fitted, **composites.not_fitted},
+                         below_leader={**singles.below_leader, **composites.below_leader})
 
 
 def _refit_nested_misses(fits: dict[str, MechanismFit], series: IVSeries, mask: np.ndarray,
@@ -374,8 +411,8 @@ def _regime_map(results: list[MechanismResult], fits: Mapping[str, MechanismFit]
                 voltage_V: np.ndarray, temperature_K: np.ndarray, device: Device,
                 seed: int | None) -> RegimeMap:
     """The regime map from the most probable composite and the most probable single law."""
-    def is_composite(result: MechanismResult) -> bool:
-        return bool(get_mechanism(result.id).options.get("paths"))
+    def is_composite(result: MechanismResult) -> bool:  # paths in parallel (a series
+        return bool(get_mechanism(result.id).options.get("paths"))  # resistance is not a path)
 
     composite = next((r for r in results if is_composite(r)), None)
     single = next((r for r in results if not is_composite(r)), None)

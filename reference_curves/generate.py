@@ -273,6 +273,62 @@ SCENARIOS: list[dict] = [
         "voltages_V": _bias(6.0, 9.5, 20),
         "noise_relative": 0.03, "noise_floor_A": 1e-13, "seed": 113,
     },
+    # Composites: a path and a leak in parallel, or a path behind a series resistance (each
+    # on its main path's grid; the leak or the resistor chosen so that it is seen on the grid).
+    {
+        "name": "larkfield_sinx_poole_frenkel_leaky_edge",
+        "story": "The silicon-nitride film of the Poole-Frenkel series, a second die with a "
+                 "damaged mesa edge: an activated leak carries the lowest biases when cold.",
+        "mechanism": "poole_frenkel_with_leak",
+        "params": {"trap_depth_eV": 1.2, "dielectric_constant": 4.2,
+                   "prefactor_S_per_cm": 1.0, "thickness_nm": 30.0,
+                   "leak_activation_energy_eV": 0.25, "leak_prefactor_S": 3e-8},
+        "device": {"thickness_nm": 30.0, "thickness_sd_nm": 1.0, "area_cm2": 1e-4,
+                   "optical_dielectric_constant": 4.0, "optical_dielectric_constant_sd": 0.4},
+        "temperatures_K": [300, 325, 350, 375, 400, 425, 450],
+        "voltages_V": _bias(3.0, 12.0, 24),
+        "noise_relative": 0.02, "noise_floor_A": 1e-14, "seed": 114,
+    },
+    {
+        "name": "larkfield_hfo2_schottky_leaky",
+        "story": "The TiN/HfO2/Pt capacitor of the Schottky series after a soft stress: a weakly "
+                 "activated leak (0.1 eV) takes the lowest biases at 250 K.",
+        "mechanism": "schottky_emission_with_leak",
+        "params": {"barrier_height_eV": 0.75, "dielectric_constant": 4.0,
+                   "richardson_constant_ratio": 0.5, "thickness_nm": 20.0,
+                   "leak_activation_energy_eV": 0.1, "leak_prefactor_S": 1.5e-8},
+        "device": {"thickness_nm": 20.0, "thickness_sd_nm": 1.0, "area_cm2": 1e-4,
+                   "optical_dielectric_constant": 4.0, "optical_dielectric_constant_sd": 0.4},
+        "temperatures_K": [250, 275, 300, 325, 350, 375, 400],
+        "voltages_V": _bias(0.3, 6.0, 24),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 115,
+    },
+    {
+        "name": "larkfield_alox_tunnel_junction_warm_leak",
+        "story": "An Al/AlOx/Al junction of the tunnelling series with a pinhole-like activated "
+                 "path (0.2 eV) that overtakes tunnelling at low bias near room temperature.",
+        "mechanism": "direct_tunnelling_with_leak",
+        "params": {"barrier_height_eV": 1.6, "thickness_nm": 1.8, "effective_mass_ratio": 0.45,
+                   "leak_activation_energy_eV": 0.2, "leak_prefactor_S": 2.4},
+        "device": {"thickness_nm": 1.8, "thickness_sd_nm": 0.15, "area_cm2": 1e-6,
+                   "effective_mass_ratio": 0.45, "effective_mass_sd": 0.05},
+        "temperatures_K": [10, 77, 150, 225, 300],
+        "voltages_V": _bias(0.02, 0.8, 25),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 116,
+    },
+    {
+        "name": "larkfield_sio2_fowler_nordheim_contact_resistance",
+        "story": "The gate oxide of the Fowler-Nordheim series probed through a resistive "
+                 "contact (890 ohm): the top of the ramp bends, 8 % of 9.5 V lost at 225 K.",
+        "mechanism": "fowler_nordheim_series_resistance",
+        "params": {"barrier_height_eV": 3.1, "thickness_nm": 6.0, "effective_mass_ratio": 0.45,
+                   "series_resistance_ohm": 890.0},
+        "device": {"thickness_nm": 6.0, "thickness_sd_nm": 0.2, "area_cm2": 1e-4,
+                   "effective_mass_ratio": 0.45, "effective_mass_sd": 0.05},
+        "temperatures_K": [77, 125, 175, 225],
+        "voltages_V": _bias(6.0, 9.5, 20),
+        "noise_relative": 0.03, "noise_floor_A": 1e-13, "seed": 117,
+    },
 ]
 
 

@@ -59,6 +59,17 @@ EXPECTED = {
                                                "shunt_resistance_ohm")),
     "trap_assisted_tunnelling": ("tunnelling", ("trap_energy_eV", "prefactor_A_per_cm2",
                                                 "thickness_nm", "effective_mass_ratio")),
+    "poole_frenkel_with_leak": ("emission", (
+        "trap_depth_eV", "dielectric_constant", "prefactor_S_per_cm", "thickness_nm",
+        "leak_activation_energy_eV", "leak_prefactor_S")),
+    "schottky_emission_with_leak": ("emission", (
+        "barrier_height_eV", "dielectric_constant", "richardson_constant_ratio", "thickness_nm",
+        "leak_activation_energy_eV", "leak_prefactor_S")),
+    "direct_tunnelling_with_leak": ("tunnelling", (
+        "barrier_height_eV", "thickness_nm", "effective_mass_ratio",
+        "leak_activation_energy_eV", "leak_prefactor_S")),
+    "fowler_nordheim_series_resistance": ("tunnelling", (
+        "barrier_height_eV", "thickness_nm", "effective_mass_ratio", "series_resistance_ohm")),
 }
 
 ALL = [*MECHANISMS, mott_vrh_variant(1)]

@@ -148,3 +148,93 @@ def test_window_condition_refuses_a_path_that_never_leads():
         rows.append(row)
     loglike = target.log_likelihood(np.array(rows))
     assert np.isfinite(loglike[0]) and loglike[1] == -np.inf, names
+
+
+# -- a path behind a series resistance, and the registered combinations -------------------
+
+FN = get_mechanism("fowler_nordheim")
+FN_DEVICE = Device(area_cm2=1e-4, thickness_nm=Measured(6.0, 0.2),
+                   effective_mass_ratio=Measured(0.45, 0.05))
+FN_VALUES = {"barrier_height_eV": 3.1, "thickness_nm": 6.0, "effective_mass_ratio": 0.45}
+
+
+def test_series_resistance_current_solves_the_circuit_equation_like_brentq():
+    # Independent check: scipy's Brent root of I - I_FN(V - I R_s) = 0 (Sze & Ng 2007, ch. 3:
+    # the film sees the applied bias less the drop on R_s).
+    from scipy.optimize import brentq
+
+    series = get_mechanism("fowler_nordheim_series_resistance")
+    resistance = 2.0e3
+    v = np.linspace(6.0, 9.5, 8)
+    t = np.full(v.size, 175.0)
+    found = series.current(v, t, {**FN_VALUES, "series_resistance_ohm": resistance}, FN_DEVICE)
+    for bias, current in zip(v, found, strict=True):
+        def residual(i: float, bias: float = bias) -> float:
+            film = bias - i * resistance
+            return i - float(FN.current(film, 175.0, FN_VALUES, FN_DEVICE,
+                                        enforce_validity=False))
+
+        expected = brentq(residual, 0.0, float(FN.current(bias, 175.0, FN_VALUES, FN_DEVICE)),
+                          xtol=1e-300, rtol=1e-14)
+        assert current == pytest.approx(expected, rel=1e-10)
+    # The resistor only takes away: the current is below the unbent law, more so at the top.
+    bare = FN.current(v, t, FN_VALUES, FN_DEVICE)
+    assert np.all(found < bare) and found[-1] / bare[-1] < found[0] / bare[0]
+
+
+def test_series_resistance_is_odd_and_vectorised_over_parameter_sets():
+    series = get_mechanism("fowler_nordheim_series_resistance")
+    values = {**FN_VALUES, "series_resistance_ohm": 1e3}
+    v = np.array([-9.0, -7.0, 7.0, 9.0])
+    t = np.full(v.size, 125.0)
+    single = series.current(v, t, values, FN_DEVICE)
+    np.testing.assert_allclose(single[:2], -single[2:][::-1], rtol=1e-12)
+    batch = {k: np.array([[x], [x]]) for k, x in values.items()}
+    batch["series_resistance_ohm"] = np.array([[1e3], [1e5]])
+    rows = series.current(v, t, batch, FN_DEVICE)
+    np.testing.assert_allclose(rows[0], single, rtol=1e-12)
+    other = series.current(v, t, {**values, "series_resistance_ohm": 1e5}, FN_DEVICE)
+    np.testing.assert_allclose(rows[1], other, rtol=1e-12)
+
+
+def test_series_validity_is_judged_at_the_film_voltage():
+    # Fowler-Nordheim needs eV > phi across the film: 3.3 V applied through a resistor that
+    # leaves less than 3.1 V on the film is refused, although 3.3 V alone would pass.
+    series = get_mechanism("fowler_nordheim_series_resistance")
+    values = {**FN_VALUES, "thickness_nm": 3.0}
+    bias = np.array([3.3])
+    assert np.isfinite(FN.current(bias, 77.0, values, FN_DEVICE))
+    small = series.current(bias, 77.0, {**values, "series_resistance_ohm": 1e-1}, FN_DEVICE)
+    large = series.current(bias, 77.0, {**values, "series_resistance_ohm": 1e6}, FN_DEVICE)
+    assert np.isfinite(small[0]) and np.isnan(large[0])
+
+
+def test_series_window_asks_the_resistor_to_take_one_percent_somewhere():
+    from mechid.catalogue.composite import SERIES_DROP_MIN, film_voltage_V
+
+    series = get_mechanism("fowler_nordheim_series_resistance")
+    v = np.linspace(6.0, 9.5, 8)
+    t = np.full(v.size, 175.0)
+    top = float(FN.current(9.5, 175.0, FN_VALUES, FN_DEVICE))
+    # A resistance dropping ~10 % at the top point is seen; one dropping ~0.01 % is not.
+    seen, unseen = 0.1 * 9.5 / top, 1e-4 * 9.5 / top
+    batch = {k: np.array([[x], [x]]) for k, x in FN_VALUES.items()}
+    batch["series_resistance_ohm"] = np.array([[seen], [unseen]])
+    assert list(series.window_condition(v, t, FN_DEVICE, **batch)) == [True, False]
+    film = film_voltage_V(FN, v, t, FN_DEVICE, np.array([[seen]]), batch)
+    assert (9.5 - film[0, -1]) / 9.5 > SERIES_DROP_MIN
+
+
+def test_registered_composites_are_built_from_catalogued_parts():
+    from mechid.catalogue import registered_mechanisms
+    from mechid.catalogue.combinations import COMPOSITES
+    from mechid.inference.path_start import composite_parts
+
+    ids = {m.id for m in registered_mechanisms()}
+    for composite in COMPOSITES:
+        assert composite.id in ids
+        parts = composite_parts(composite)
+        assert parts and all(part in ids and not composite_parts(get_mechanism(part))
+                             for part in parts)
+        assert composite.family == get_mechanism(parts[0]).family
+        assert composite.window_condition is not None

@@ -50,6 +50,12 @@ def test_pair_statistics_likelihood_equals_the_point_by_point_gaussian_sum():
             direct = np.sum(-0.5 * ((current - model) / sd) ** 2 - np.log(sd)
                             - 0.5 * np.log(2 * np.pi), axis=1)
         direct = np.where(np.isfinite(direct), direct, -np.inf)
+        if mechanism.window_condition is not None:  # a composite's prior restriction
+            physical = target.physical_values(theta)
+            seen = mechanism.window_condition(
+                np.abs(voltage), temperature, device,
+                **{name: physical[name] for name in mechanism.parameter_names})
+            direct = np.where(seen, direct, -np.inf)
         fast = target.log_likelihood(theta)
         finite = np.isfinite(direct)
         np.testing.assert_array_equal(np.isfinite(fast), finite)

@@ -8,6 +8,7 @@ rho3 = 0 and rho2 = 1 - 1/n is the plain diode law with ideality n (phi_ap = phi
 from types import SimpleNamespace
 
 import numpy as np
+import pytest
 
 from mechid.catalogue import get_mechanism
 from mechid.catalogue.diode import homogeneous_as_inhomogeneous
@@ -39,7 +40,7 @@ def test_the_inhomogeneous_diode_contains_the_homogeneous_one_point_by_point():
                 HOMOGENEOUS.current(voltage, t, values, DEVICE), rtol=1e-12, atol=0)
 
 
-def _fake_fit(mechanism, series, point_physical):
+def _fake_fit(mechanism, series, point_physical, log_evidence=0.0, flags=()):
     """A fit-like record whose best point (MAP and only chain state) is ``point_physical``."""
     priors = mechanism_priors(mechanism, DEVICE, series.current_A)
     target = MechanismTarget(mechanism, series.voltage_V, series.temperature_K, series.current_A,
@@ -50,7 +51,8 @@ def _fake_fit(mechanism, series, point_physical):
     run = SimpleNamespace(cold_chain=internal[None, None, :], cold_log_likelihood=log_like[None, :],
                           cold_log_prior=log_prior[None, :])
     return SimpleNamespace(target=target, run=run, map_internal=internal,
-                           result=SimpleNamespace(id=mechanism.id))
+                           result=SimpleNamespace(id=mechanism.id),
+                           evidence=SimpleNamespace(log_evidence=log_evidence, flags=flags))
 
 
 def test_a_missed_nested_region_is_reported_and_a_found_one_is_not():
@@ -70,6 +72,31 @@ def test_a_missed_nested_region_is_reported_and_a_found_one_is_not():
     reached = _fake_fit(INHOMOGENEOUS, series, {**homogeneous_as_inhomogeneous(TRUTH), **noise})
     assert nested_search_misses({"schottky_diode": nested,
                                  "inhomogeneous_schottky_diode": reached}) == []
+
+
+def test_a_flagged_container_evidence_below_the_nested_one_is_a_suspected_miss():
+    from mechid.inference.flags import SamplerFlag
+
+    series = simulate_series(HOMOGENEOUS, TRUTH, [100.0, 200.0, 300.0], np.linspace(-1, 0.8, 37),
+                             DEVICE, noise_relative=0.02, noise_floor_A=1e-13,
+                             rng=np.random.default_rng(1))
+    noise = {NOISE_RELATIVE: 0.02, NOISE_FLOOR: 1e-13}
+    nested = _fake_fit(HOMOGENEOUS, series, {**TRUTH, **noise}, log_evidence=100.0)
+    point = {**homogeneous_as_inhomogeneous(TRUTH), **noise}
+    flagged = _fake_fit(INHOMOGENEOUS, series, point, log_evidence=60.0,
+                        flags=(SamplerFlag.EVIDENCE_METHODS_DISAGREE,))
+    found = nested_search_misses({"schottky_diode": nested,
+                                  "inhomogeneous_schottky_diode": flagged})
+    assert len(found) == 1 and not found[0].proven and found[0].gain == pytest.approx(40.0)
+    assert "flagged" in found[0].caution()
+    # The same deficit on an evidence the sampler trusts is an Occam factor, not a miss; so is
+    # a flagged evidence within the margin.
+    trusted = _fake_fit(INHOMOGENEOUS, series, point, log_evidence=60.0)
+    close = _fake_fit(INHOMOGENEOUS, series, point, log_evidence=97.0,
+                      flags=(SamplerFlag.LOW_SWAP_RATE,))
+    for container in (trusted, close):
+        assert nested_search_misses({"schottky_diode": nested,
+                                     "inhomogeneous_schottky_diode": container}) == []
 
 
 def test_restart_hints_are_the_nested_best_fit_mapped():

@@ -16,6 +16,10 @@ Each mechanism is declared once, in the module of its family:
 * :mod:`mechid.catalogue.trap_tunnelling` -- ``trap_assisted_tunnelling`` (its
   ``FOWLER_NORDHEIM_IMAGE_FORCE`` is declared but not registered: the screening cannot tell it
   from ``fowler_nordheim``, see that module)
+* :mod:`mechid.catalogue.combinations` -- the composites (two paths in parallel, or a path
+  behind a series resistance, built by :mod:`mechid.catalogue.composite`):
+  ``poole_frenkel_with_leak``, ``schottky_emission_with_leak``,
+  ``direct_tunnelling_with_leak``, ``fowler_nordheim_series_resistance``
 """
 
 from __future__ import annotations
@@ -24,6 +28,7 @@ from collections.abc import Iterator
 from contextlib import contextmanager
 
 from mechid.catalogue.base import Mechanism, Parameter, StraightenedPlot
+from mechid.catalogue.combinations import COMPOSITES
 from mechid.catalogue.diode import (
     INHOMOGENEOUS_SCHOTTKY_DIODE,
     LATERAL_2D_SCHOTTKY_DIODE,
@@ -62,6 +67,7 @@ MECHANISMS: tuple[Mechanism, ...] = (
     INHOMOGENEOUS_SCHOTTKY_DIODE,
     LATERAL_2D_SCHOTTKY_DIODE,
     TRAP_ASSISTED_TUNNELLING,
+    *COMPOSITES,
 )
 
 _BY_ID = {m.id: m for m in MECHANISMS}

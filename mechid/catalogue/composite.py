@@ -14,7 +14,8 @@ both paths declare from the same device value (e.g. the film thickness ``thickne
 which is one quantity of the one film and is shared. Each path's formula holds only where its
 source says it does, so both paths' validity conditions are declared (the leak's renamed).
 The composite's family is that of the main path (the verdict's family probability counts it
-there), and its straightened plots and starting hints are the main path's.
+there), and its straightened plots, screening checks and starting hints are the main path's
+(the screening cannot tell a composite from its main path; only the fit can).
 
 Identifiability: a leak too small to matter anywhere in the measured window makes the
 composite the single mechanism under another name, and such parameter sets fill most of a
@@ -24,10 +25,21 @@ therefore declares a window condition: each path must carry the larger share of 
 one fitted point at least (the ordering the project's issue asks for). Parameter sets breaking
 it are refused like those outside a validity domain, so a composite describes data only where
 both paths are seen.
+
+A series resistance (contact, lead or spreading resistance) takes part of the applied bias:
+the film sees ``u = V - I R_s`` and carries ``I = f(u)`` (:func:`behind_series_resistance`,
+the same self-consistent relation as the diode equation with series resistance, Sze & Ng,
+*Physics of Semiconductor Devices*, 3rd ed. 2007, ch. 3). For a current that rises with
+bias, ``u + R_s f(u)`` rises monotonically from 0 to ``V`` on ``[0, V]``, so the film voltage
+is found by bisection, vectorised over parameter sets and points. The formula's validity
+conditions are checked at the film voltage, where the formula is used. Its window condition:
+the resistor must take at least :data:`SERIES_DROP_MIN` of the bias at one fitted point at
+least (below that it is invisible and the composite is the single law under another name).
 """
 
 from __future__ import annotations
 
+import threading
 from collections.abc import Mapping
 from dataclasses import replace
 
@@ -39,9 +51,17 @@ from mechid.device import Device
 
 #: Prefix of the leak path's parameter names.
 LEAK_PREFIX = "leak_"
+#: Name of the series-resistance parameter.
+SERIES_RESISTANCE = "series_resistance_ohm"
+#: Smallest fraction of the bias the series resistance must take at one fitted point at least
+#: (our choice: a 1 % bias loss changes a Fowler-Nordheim current by ~10-50 %, plainly seen at
+#: a few per cent noise; a smaller one is not a second element the data can show).
+SERIES_DROP_MIN = 0.01
+#: Bisection steps for the film voltage: the bracket [0, V] shrinks to V 2^-48 (~4e-15 V).
+_BISECTION_STEPS = 48
 
 
-def _leak_names(main: Mechanism, leak: Mechanism) -> dict[str, str]:
+def leak_parameter_names(main: Mechanism, leak: Mechanism) -> dict[str, str]:
     """Leak parameter name -> its name in the composite (shared device quantities unchanged)."""
     by_name = {p.name: p for p in main.parameters}
     names = {}
@@ -97,7 +117,7 @@ def parallel_paths(main: Mechanism, leak: Mechanism, *, id: str, name: str) -> M
     """
     if not (main.is_odd and leak.is_odd):
         raise ValueError(f"{id}: parallel paths are declared for mechanisms odd in V")
-    names = _leak_names(main, leak)
+    names = leak_parameter_names(main, leak)
     leak_parameters = tuple(_leak_parameter(p, names[p.name]) for p in leak.parameters
                             if names[p.name] != p.name)
     parameters = (*main.parameters, *leak_parameters)
@@ -135,7 +155,7 @@ def parallel_paths(main: Mechanism, leak: Mechanism, *, id: str, name: str) -> M
         temperature_dependence=(f"{main.temperature_dependence}, plus a leak: "
                                 f"{leak.temperature_dependence}"),
         needs_area=main.needs_area or leak.needs_area,
-        estimates=main.estimates,
+        estimates=main.estimates, checks=main.checks,
         validity=(*(_path_condition(c, {n: n for n in main_names}, leak=False)
                     for c in main.validity),
                   *(_path_condition(c, names, leak=True) for c in leak.validity)),
@@ -161,7 +181,7 @@ def path_currents(mechanism: Mechanism, voltage_V: FloatArray, temperature_K: Fl
     if not paths:
         return None
     main, leak = (get_mechanism(p) for p in paths)
-    names = _leak_names(main, leak)
+    names = leak_parameter_names(main, leak)
     return {
         main.id: main.current(voltage_V, temperature_K,
                               {k: params[k] for k in main.parameter_names}, device,
@@ -178,3 +198,110 @@ def largest_share(currents: Mapping[str, FloatArray]) -> tuple[np.ndarray, Float
     total = stacked.sum(axis=0)
     with np.errstate(invalid="ignore", divide="ignore"):
         return np.argmax(stacked, axis=0), np.max(stacked, axis=0) / total
+
+
+_FILM_VOLTAGE_CACHE = threading.local()
+
+
+def _cache_key(*arrays: np.ndarray) -> tuple:
+    return tuple((a.shape, a.tobytes()) for a in arrays)
+
+
+def film_voltage_V(main: Mechanism, voltage_abs_V: FloatArray, temperature_K: FloatArray,
+                   device: Device, resistance_ohm: FloatArray,
+                   values: Mapping[str, FloatArray]) -> FloatArray:
+    """The bias ``u`` across the film when ``|V|`` is applied through ``R_s``.
+
+    Solves ``u + R_s |I_main(u)| = |V|`` on ``[0, |V|]`` by bisection (the left side rises
+    with ``u`` for a current that rises with bias); a current that cannot be evaluated at a
+    trial ``u`` counts as too small there. Broadcasts like the formula (points ``(n,)``,
+    parameter sets ``(m, 1)``). The last result is kept per thread: the likelihood asks for
+    the same solution again for the validity conditions and the window condition.
+    """
+    v = np.asarray(voltage_abs_V, dtype=float)
+    t = np.asarray(temperature_K, dtype=float)
+    r = np.asarray(resistance_ohm, dtype=float)
+    own = {k: np.asarray(values[k], dtype=float) for k in main.parameter_names}
+    key = _cache_key(v, t, r, *own.values())
+    last = getattr(_FILM_VOLTAGE_CACHE, "entry", None)
+    if last is not None and last[0] == key:
+        return last[1]
+    shape = np.broadcast_shapes(v.shape, t.shape, r.shape, *(a.shape for a in own.values()))
+    low = np.zeros(shape)
+    high = np.array(np.broadcast_to(v, shape), dtype=float)
+    with np.errstate(invalid="ignore", over="ignore", divide="ignore"):
+        for _ in range(_BISECTION_STEPS):
+            middle = 0.5 * (low + high)
+            drop = middle + r * np.abs(main.magnitude(middle, t, device, **own))
+            too_far = drop > v
+            high = np.where(too_far, middle, high)
+            low = np.where(too_far, low, middle)
+    film = 0.5 * (low + high)
+    _FILM_VOLTAGE_CACHE.entry = (key, film)
+    return film
+
+
+def _series_condition(condition: ValidityCondition, main: Mechanism) -> ValidityCondition:
+    """A main-path condition evaluated at the film voltage instead of the applied bias."""
+    def evaluate(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,
+                 **values: FloatArray) -> FloatArray:
+        film = film_voltage_V(main, voltage_V, temperature_K, device,
+                              values[SERIES_RESISTANCE], values)
+        return condition.evaluate(film, temperature_K, device,
+                                  **{k: values[k] for k in main.parameter_names})
+
+    return replace(condition, quantity=f"{condition.quantity} [at the film voltage V - I R_s]",
+                   evaluate=evaluate)
+
+
+def behind_series_resistance(main: Mechanism, *, id: str, name: str) -> Mechanism:
+    """Declare ``main`` in series with a resistance: ``I = f(V - I R_s)``.
+
+    Parameters
+    ----------
+    main : Mechanism
+        An odd mechanism whose current rises with bias.
+    id, name : str
+        The composite's stable id and human name.
+
+    Returns
+    -------
+    Mechanism
+        Odd in V, with the main parameters and ``series_resistance_ohm``; its window
+        condition asks the resistor to take at least :data:`SERIES_DROP_MIN` of the bias at
+        one fitted point (see the module).
+    """
+    if not main.is_odd:
+        raise ValueError(f"{id}: a series resistance is declared for mechanisms odd in V")
+    resistance = Parameter(
+        name=SERIES_RESISTANCE, unit="ohm", symbol="R_s",
+        description="series (contact, lead or spreading) resistance",
+        lower=1e-1, upper=1e12, typical=1e3, log_scale=True)
+
+    def magnitude(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,
+                  **values: FloatArray) -> FloatArray:
+        film = film_voltage_V(main, voltage_V, temperature_K, device,
+                              values[SERIES_RESISTANCE], values)
+        own = {k: values[k] for k in main.parameter_names}
+        return np.abs(main.magnitude(film, temperature_K, device, **own))
+
+    def resistor_is_seen(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,
+                         **values: FloatArray) -> np.ndarray:
+        film = film_voltage_V(main, voltage_V, temperature_K, device,
+                              values[SERIES_RESISTANCE], values)
+        with np.errstate(invalid="ignore", divide="ignore"):
+            share = np.atleast_2d((voltage_V - film) / voltage_V)
+        return np.any(share >= SERIES_DROP_MIN, axis=-1)
+
+    return Mechanism(
+        id=id, family=main.family, name=name, window_condition=resistor_is_seen,
+        formula=f"I = I_{main.id}(V - I R_s) (series resistance, solved self-consistently)",
+        source=(f"{main.source}; series resistance: Sze & Ng, Physics of Semiconductor "
+                "Devices, 3rd ed. (2007), ch. 3"),
+        parameters=(*main.parameters, resistance), magnitude=magnitude, plots=main.plots,
+        temperature_dependence=f"{main.temperature_dependence}, bent at the highest currents "
+                               "by a series resistance",
+        needs_area=main.needs_area, estimates=main.estimates, checks=main.checks,
+        validity=tuple(_series_condition(c, main) for c in main.validity),
+        options={"series_with": main.id},
+    )

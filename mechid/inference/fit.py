@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 import warnings
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 
 import numpy as np
@@ -119,7 +119,7 @@ def fit_mechanism(
     device: Device,
     settings: LadderSettings,
     rng: np.random.Generator,
-    hints: ParameterHints | None = None,
+    hints: ParameterHints | Sequence[ParameterHints] | None = None,
     progress: Callable[[int, int], None] | None = None,
     *,
     search: SearchSettings,
@@ -146,8 +146,9 @@ def fit_mechanism(
         Tempered-ladder settings.
     rng : numpy.random.Generator
         The one source of randomness of this fit.
-    hints : ParameterHints, optional
-        Starting values from the straightened plots, keyed by parameter name.
+    hints : ParameterHints or sequence of them, optional
+        Starting values (from the straightened plots, or another fit), keyed by parameter
+        name.
     progress : callable, optional
         ``progress(done, total)`` during sampling.
     search : SearchSettings

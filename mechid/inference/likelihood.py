@@ -65,7 +65,8 @@ class MechanismTarget:
     enforce_validity : bool, optional
         True (what fits use): the model is NaN, so the likelihood -inf, outside the
         formula's validity domain. False: the bare formula (the domain check of
-        :mod:`mechid.inference.domain` only).
+        :mod:`mechid.inference.domain` only). A composite's window condition holds either
+        way: it restricts the hypothesis' prior, it is not a validity domain.
     noise_law : NoiseLaw, optional
         How the measured currents scatter about the model (default: Gaussian in current).
     """
@@ -222,7 +223,9 @@ class MechanismTarget:
                 model = magnitude[:, self._inverse] * self._sign
                 loglike = np.sum(self.noise_law.log_density(self.current_A, model, relative,
                                                             floor), axis=1)
-            if self.mechanism.window_condition is not None and self.enforce_validity:
+            # The window condition is part of the hypothesis (its prior), not a validity
+            # domain: it holds also when the validity conditions are lifted.
+            if self.mechanism.window_condition is not None:
                 physical = {name: values[name] for name in self.mechanism.parameter_names}
                 admissible = self.mechanism.window_condition(
                     self._unique_abs_voltage, self._unique_temperature, self.device, **physical)

@@ -52,11 +52,12 @@ ProgressHook = Callable[[str, int, int], None]
 
 @dataclass(frozen=True)
 class FitJob:
-    """One mechanism to fit: its id, its own random stream and its linearisation hints."""
+    """One mechanism to fit: its id, its own random stream and its starting hints (from the
+    linearisation, or several sets, e.g. a composite's parts' best fits)."""
 
     mechanism_id: str
     rng: np.random.Generator
-    hints: ParameterHints | None = None
+    hints: ParameterHints | tuple[ParameterHints, ...] | None = None
 
 
 @dataclass(frozen=True)
@@ -111,6 +112,7 @@ def fit_candidates_in_rounds(
     progress: ProgressHook | None = None,
     noise_law: NoiseLaw = GAUSSIAN,
     below_leader_margin: float | None = None,
+    leader: tuple[str, float] | None = None,
 ) -> RoundsOutcome:
     """Fit every job, ``ROUND_SIZE`` at a time; the fits and the mechanisms not fitted.
 
@@ -136,6 +138,9 @@ def fit_candidates_in_rounds(
         A mechanism whose best log-likelihood found by its mode search lies more than this
         many nats below the best evidence of the earlier rounds is not sampled
         (:class:`~mechid.inference.fit.BelowLeaderError`); None fits every mechanism.
+    leader : (str, float), optional
+        The best (mechanism id, ln Z) of fits made before these (e.g. the single mechanisms
+        before the composites): it serves as the first round's leader.
 
     Returns
     -------
@@ -149,15 +154,17 @@ def fit_candidates_in_rounds(
                            below_leader_margin)
     if ladder.max_production > ladder.n_production:
         rounds = [list(jobs[i: i + ROUND_SIZE]) for i in range(0, len(jobs), ROUND_SIZE)]
+    elif below_leader_margin is not None and leader is not None:  # known leader: one round
+        rounds = [list(jobs)]
     elif below_leader_margin is not None:  # the first round's evidences serve all the rest
         rounds = [list(jobs[:ROUND_SIZE]), list(jobs[ROUND_SIZE:])]
     else:  # no extensions, so no far-below decisions: one round, no waiting between fits
         rounds = [list(jobs)]
     rounds = [batch for batch in rounds if batch]
     if workers <= 1 or len(jobs) <= 1:
-        fits = _fit_here(rounds, shared, progress)
+        fits = _fit_here(rounds, shared, progress, leader)
     else:
-        fits = _fit_on_workers(rounds, shared, min(workers, ROUND_SIZE), progress)
+        fits = _fit_on_workers(rounds, shared, min(workers, ROUND_SIZE), progress, leader)
     # A mechanism whose formula holds nowhere on these data is not fitted (warned in _fit).
     return RoundsOutcome(
         fits={k: fit for k, fit in fits.items() if isinstance(fit, MechanismFit)},
@@ -168,9 +175,8 @@ def fit_candidates_in_rounds(
 
 
 def _fit_here(rounds: list[list[FitJob]], shared: _SharedInputs,
-              progress: ProgressHook | None) -> dict[str, _Outcome]:
+              progress: ProgressHook | None, leader: _Leader = None) -> dict[str, _Outcome]:
     fits: dict[str, _Outcome] = {}
-    leader: _Leader = None
     for batch in rounds:
         for job in batch:
             hook = None if progress is None else _labelled(progress, job.mechanism_id)
@@ -180,11 +186,11 @@ def _fit_here(rounds: list[list[FitJob]], shared: _SharedInputs,
 
 
 def _fit_on_workers(rounds: list[list[FitJob]], shared: _SharedInputs, workers: int,
-                    progress: ProgressHook | None) -> dict[str, _Outcome]:
+                    progress: ProgressHook | None, leader: _Leader = None
+                    ) -> dict[str, _Outcome]:
     context = multiprocessing.get_context(_start_method())
     messages = context.Queue()
     fits: dict[str, _Outcome] = {}
-    leader: _Leader = None
     with ProcessPoolExecutor(max_workers=workers, mp_context=context,
                              initializer=_start_worker, initargs=(shared, messages)) as pool:
         for batch in rounds:

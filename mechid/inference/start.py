@@ -11,6 +11,7 @@ solutions of similar posterior height.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -78,7 +79,7 @@ def _diverse(points: NDArray, scores: NDArray, span: NDArray, count: int) -> NDA
 def find_modes(
     target: MechanismTarget,
     rng: np.random.Generator,
-    hints: ParameterHints | None = None,
+    hints: ParameterHints | Sequence[ParameterHints] | None = None,
     *,
     search: SearchSettings,
 ) -> list[Mode]:
@@ -90,16 +91,18 @@ def find_modes(
         Posterior to maximise.
     rng : numpy.random.Generator
         Source of the screening draws.
-    hints : ParameterHints, optional
-        Parameter values read from the straightened plots, keyed by parameter name
-        (physical units); 64 prior draws with these values set join the screen.
+    hints : ParameterHints or sequence of them, optional
+        Parameter values read from the straightened plots (or another fit), keyed by
+        parameter name (physical units); per set, 64 prior draws with these values set join
+        the screen.
     search : SearchSettings
         ``n_screen`` prior draws are screened in vectorised batches, then ``n_polish``
         diverse good candidates are polished (the best screened point is always one).
     """
     candidates = [target.sample_prior(rng, search.n_screen)]
-    if hints is not None and hints.values:
-        candidates.append(hint_vectors(target, hints, rng))
+    for hint_set in ((hints,) if isinstance(hints, ParameterHints) else hints or ()):
+        if hint_set.values:
+            candidates.append(hint_vectors(target, hint_set, rng))
     points = np.vstack(candidates)
     scores = np.concatenate([target.log_posterior(chunk) for chunk in np.array_split(points, 8)])
     lower = np.array([p.internal_bounds()[0] for p in target.free])
@@ -178,7 +181,7 @@ def _merge_basins(target: MechanismTarget, modes: list[Mode]) -> list[Mode]:
 def find_map(
     target: MechanismTarget,
     rng: np.random.Generator,
-    hints: ParameterHints | None = None,
+    hints: ParameterHints | Sequence[ParameterHints] | None = None,
     *,
     search: SearchSettings,
 ) -> NDArray:

@@ -457,9 +457,39 @@ def methods_paragraph(data: Json) -> str:
             "Posterior corner plots were drawn with corner.py (Foreman-Mackey 2016).",
         ]
         parts += [prior_sensitivity_methods(data)] if _sensitivity(data) else []
+        parts += [composite_methods(mechanisms)] if _composites(mechanisms) else []
     else:
         parts.append("No Bayesian fit was made in this run (screening only).")
     return " ".join(parts)
+
+
+def _composites(mechanisms: Sequence[Json]) -> list[str]:
+    """Ids of the fitted mechanisms that are composites of catalogued parts."""
+    found = []
+    for m in mechanisms:
+        try:
+            options = get_mechanism(str(m.get("id"))).options
+        except UnknownMechanismError:
+            continue
+        if options.get("paths") or options.get("series_with"):
+            found.append(str(m.get("id")))
+    return found
+
+
+def composite_methods(mechanisms: Sequence[Json]) -> str:
+    """How the composite hypotheses were built and fitted (methods text)."""
+    from mechid.catalogue.composite import SERIES_DROP_MIN
+
+    return (
+        "Composite hypotheses (" + _join(_composites(mechanisms)) + ") combine catalogued "
+        "laws: two conduction paths in parallel, whose currents add, or a path behind a "
+        "series resistance R_s, I = f(V - I R_s), solved self-consistently by bisection (Sze "
+        "& Ng 2007). Each part kept its published formula and validity domain (a part behind "
+        "R_s judged at the film voltage). Their priors were restricted so that each part is "
+        "seen: each parallel path carries the larger share of the current at one fitted point "
+        f"at least, and R_s takes at least {SERIES_DROP_MIN:.0%} of the bias at one fitted "
+        "point. They were fitted after the single mechanisms, their mode search seeded with "
+        "their parts' best fits, and ranked by evidence with them.")
 
 
 def _sensitivity(data: Json) -> Json | None:

@@ -1,0 +1,272 @@
+"""Study: mixtures of two conduction paths, and single-path data, ranked with the composites.
+
+Each case simulates one series on the grid, device and noise of a reference scenario
+(``reference_curves/generate.py``) and analyses it with the whole catalogue, composites
+included (``mechid.analyse(..., quick=True)`` by default, ``--full`` for the full settings).
+
+Mixture kinds (the true law is the composite named, simulated with the catalogue's formulas):
+
+* ``pf_leak`` -- Poole-Frenkel with an activated ohmic leak (``poole_frenkel_with_leak``) on
+  the Poole-Frenkel scenario; the leak carries ``f`` of the current at the top bias of the
+  coldest temperature, ``f`` log-uniform on [0.2 %, 1 %] (the leak the project's issue
+  describes), its activation energy uniform on [0.05, 0.4] eV;
+* ``schottky_leak`` -- the same leak with Schottky emission (``schottky_emission_with_leak``);
+* ``dt_leak`` -- direct tunnelling with an activated leak (``direct_tunnelling_with_leak``) on
+  the direct-tunnelling scenario: activation energy uniform on [0.1, 0.3] eV, the leak
+  ``r`` times the tunnelling current at the lowest bias of the hottest temperature, ``r``
+  log-uniform on [2, 30];
+* ``fn_series`` -- Fowler-Nordheim behind a series resistance
+  (``fowler_nordheim_series_resistance``) on the Fowler-Nordheim scenario: the resistor takes
+  a fraction ``q`` of the top bias at the hottest temperature, ``q`` uniform on [2 %, 15 %];
+  a truth needing less than 1 ohm (the scenario's log-uniform barrier reaches 1 eV, where the
+  top current is amperes) is drawn again: leads and probes alone exceed that.
+
+Truths of the main path's parameters are drawn as in ``calibration.py`` (device priors for
+device quantities, +-15 % or +-0.5 decade about the scenario's value otherwise). A draw whose
+paths do not each lead somewhere on the grid (the composite's own window condition) is drawn
+again. Single-path cases (``--singles``): the main paths and the leak law alone, truths drawn
+the same way; they measure the false-composite rate.
+
+Reported per case: the leader, whether it is the true law, ln B of the true law over the best
+other, and for the true law whether each sampled physical parameter's central 95 % interval
+covers the truth. Summary: the share ranked correctly per kind, coverage per kind, the
+false-composite rate on single-path data.
+
+Usage (from the repo root)::
+
+    python benchmarks/composite_study.py --cases 40 --singles 24 --seed 20261203
+    python benchmarks/composite_study.py --cases 8 --singles 0 --kinds fn_series --seed 7
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+import time
+import warnings
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+import mechid
+from mechid.catalogue import get_mechanism
+from mechid.catalogue.base import Mechanism
+from mechid.catalogue.composite import SERIES_RESISTANCE
+from mechid.device import Device
+from mechid.inference.fit import NOISE_PARAMETERS
+from mechid.simulate import simulate_series
+
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from calibration import draw_truth, load_scenarios, scenario_device  # noqa: E402
+
+SCENARIOS = load_scenarios()
+#: Mixture kind -> (composite id, main path id).
+KINDS = {
+    "pf_leak": ("poole_frenkel_with_leak", "poole_frenkel"),
+    "schottky_leak": ("schottky_emission_with_leak", "schottky_emission"),
+    "dt_leak": ("direct_tunnelling_with_leak", "direct_tunnelling"),
+    "fn_series": ("fowler_nordheim_series_resistance", "fowler_nordheim"),
+}
+#: Single-path laws whose data measure the false-composite rate.
+SINGLES = ("poole_frenkel", "schottky_emission", "direct_tunnelling", "fowler_nordheim",
+           "ohmic_activated")
+LEAK = get_mechanism("ohmic_activated")
+
+
+@dataclass(frozen=True)
+class Case:
+    """One simulated series and what the analysis made of it."""
+
+    index: int
+    kind: str
+    true_id: str
+    truth: dict[str, float]
+    leader: str
+    ln_b_true_over_best_other: float
+    covered: dict[str, bool]
+    true_adequate: bool | None
+    seconds: float
+    error: str | None = None
+
+
+def _grid(scenario: Mapping[str, Any]) -> tuple[np.ndarray, np.ndarray]:
+    v = np.asarray(scenario["voltages_V"], float)
+    t = np.asarray(scenario["temperatures_K"], float)
+    grid_v, grid_t = np.meshgrid(v, t)
+    return grid_v.ravel(), grid_t.ravel()
+
+
+def _leak_truth(main: Mechanism, main_truth: Mapping[str, float], scenario: Mapping[str, Any],
+                device: Device, rng: np.random.Generator, kind: str) -> dict[str, float]:
+    """Activation energy and prefactor of the leak (see the module for the rules)."""
+    v = np.abs(np.asarray(scenario["voltages_V"], float))
+    temperatures = np.asarray(scenario["temperatures_K"], float)
+    if kind == "dt_leak":
+        energy = rng.uniform(0.1, 0.3)
+        bias, temperature = v.min(), temperatures.max()
+        target = 10 ** rng.uniform(np.log10(2.0), np.log10(30.0))
+    else:
+        energy = rng.uniform(0.05, 0.4)
+        bias, temperature = v.max(), temperatures.min()
+        target = 10 ** rng.uniform(np.log10(0.002), np.log10(0.01))
+    main_current = abs(float(main.current(bias, temperature, main_truth, device)))
+    unit = abs(float(LEAK.current(bias, temperature, {"activation_energy_eV": energy,
+                                                      "prefactor_S": 1.0}, device)))
+    return {"leak_activation_energy_eV": energy, "leak_prefactor_S": target * main_current / unit}
+
+
+def _series_truth(main: Mechanism, main_truth: Mapping[str, float],
+                  scenario: Mapping[str, Any], device: Device, rng: np.random.Generator
+                  ) -> dict[str, float]:
+    """The resistance that takes a fraction q of the top bias at the hottest temperature."""
+    share = rng.uniform(0.02, 0.15)
+    top = float(np.max(np.abs(scenario["voltages_V"])))
+    hottest = float(np.max(scenario["temperatures_K"]))
+    current = abs(float(main.current((1 - share) * top, hottest, main_truth, device)))
+    return {SERIES_RESISTANCE: share * top / current}
+
+
+def draw_mixture(kind: str, rng: np.random.Generator) -> tuple[Mechanism, dict[str, float],
+                                                               Mapping[str, Any], Device]:
+    """A composite truth whose parts are each seen on the grid (redrawn until they are)."""
+    composite_id, main_id = KINDS[kind]
+    composite, main = get_mechanism(composite_id), get_mechanism(main_id)
+    scenario = SCENARIOS[main_id]
+    device = scenario_device(scenario)
+    v, t = _grid(scenario)
+    for _ in range(200):
+        truth = draw_truth(main, scenario, device, rng)
+        extra = (_series_truth(main, truth, scenario, device, rng) if kind == "fn_series"
+                 else _leak_truth(main, truth, scenario, device, rng, kind))
+        truth = {**truth, **extra}
+        values = {k: np.array([[truth[k]]]) for k in composite.parameter_names}
+        current = composite.current(v, t, truth, device)
+        if kind == "fn_series" and truth[SERIES_RESISTANCE] < 1.0:
+            continue
+        if np.all(np.isfinite(current)) and bool(
+                composite.window_condition(np.abs(v), t, device, **values)[0]):
+            return composite, truth, scenario, device
+    raise RuntimeError(f"{kind}: no truth with both parts seen in 200 draws")
+
+
+def draw_single(mechanism_id: str, rng: np.random.Generator
+                ) -> tuple[Mechanism, dict[str, float], Mapping[str, Any], Device]:
+    """A single-path truth on its reference scenario (as the calibration study draws it)."""
+    mechanism = get_mechanism(mechanism_id)
+    scenario = SCENARIOS[mechanism_id]
+    device = scenario_device(scenario)
+    return mechanism, draw_truth(mechanism, scenario, device, rng), scenario, device
+
+
+def _covered(draws: Mapping[str, np.ndarray], truth: Mapping[str, float]) -> dict[str, bool]:
+    hits = {}
+    for name, value in truth.items():
+        sample = draws.get(name)
+        if sample is None or name in NOISE_PARAMETERS or np.ptp(sample) == 0:
+            continue
+        low, high = np.quantile(sample, [0.025, 0.975])
+        hits[name] = bool(low <= value <= high)
+    return hits
+
+
+def run_case(index: int, kind: str, draw: Callable[[np.random.Generator], tuple],
+             rng: np.random.Generator, quick: bool) -> Case:
+    """Simulate one series, analyse it with the whole catalogue and score the true law."""
+    truth_rng, noise_rng = rng.spawn(2)
+    mechanism, truth, scenario, device = draw(truth_rng)
+    seed = int(rng.integers(2**31))
+    started = time.perf_counter()
+    try:
+        series = simulate_series(mechanism, truth, scenario["temperatures_K"],
+                                 scenario["voltages_V"], device,
+                                 noise_relative=scenario["noise_relative"],
+                                 noise_floor_A=scenario["noise_floor_A"], rng=noise_rng)
+        data = {"temperature_K": series.temperature_K, "voltage_V": series.voltage_V,
+                "current_A": series.current_A}
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            analysis = mechid.analyse(data, device=device, quick=quick, seed=seed)
+    except Exception as exc:  # noqa: BLE001 (a failure is an outcome of the study)
+        return Case(index, kind, mechanism.id, truth, "-", float("nan"), {}, None,
+                    time.perf_counter() - started, f"{type(exc).__name__}: {exc}")
+    ranked = analysis.result.mechanisms
+    by_id = {r.id: r for r in ranked}
+    true = by_id.get(mechanism.id)
+    others = [r.log_evidence for r in ranked if r.id != mechanism.id]
+    ln_b = (float("nan") if true is None
+            else true.log_evidence - (max(others) if others else -np.inf))
+    return Case(index, kind, mechanism.id, truth, ranked[0].id if ranked else "-", ln_b,
+                {} if true is None else _covered(true.draws, truth),
+                None if true is None else bool(true.fit_adequate),
+                time.perf_counter() - started)
+
+
+def _line(case: Case) -> str:
+    cover = " ".join(f"{k}={'y' if v else 'NO'}" for k, v in case.covered.items())
+    status = "correct" if case.leader == case.true_id else f"WRONG (leader {case.leader})"
+    truth = " ".join(f"{k}={v:.4g}" for k, v in case.truth.items())
+    return (f"{case.index:3d} {case.kind:14s} {status} | lnB(true:best other)="
+            f"{case.ln_b_true_over_best_other:+.1f} | adequate={case.true_adequate} | "
+            f"covered95 {cover or '-'} | {case.seconds:.0f} s | truth {truth}"
+            + (f" | ERROR {case.error}" if case.error else ""))
+
+
+def summary(cases: list[Case]) -> list[str]:
+    """Correct-ranking share and coverage per kind, and the false-composite rate."""
+    lines = []
+    composites = {composite for composite, _ in KINDS.values()}
+    for kind in dict.fromkeys(c.kind for c in cases):
+        these = [c for c in cases if c.kind == kind]
+        correct = sum(c.leader == c.true_id for c in these)
+        hits = [flag for c in these for flag in c.covered.values()]
+        errors = sum(c.error is not None for c in these)
+        lines.append(f"{kind}: ranked first {correct}/{len(these)}; 95 % coverage "
+                     f"{sum(hits)}/{len(hits)} intervals; failed {errors}")
+    mixtures = [c for c in cases if c.true_id in composites]
+    singles = [c for c in cases if c.true_id not in composites]
+    if mixtures:
+        hits = [flag for c in mixtures for flag in c.covered.values()]
+        lines.append(f"mixtures: ranked first {sum(c.leader == c.true_id for c in mixtures)}/"
+                     f"{len(mixtures)}; 95 % coverage {sum(hits)}/{len(hits)}")
+    if singles:
+        false = sum(c.leader in composites for c in singles)
+        lines.append(f"single-path data: ranked first {sum(c.leader == c.true_id for c in singles)}"
+                     f"/{len(singles)}; a composite led {false}/{len(singles)} "
+                     "(the false-composite rate)")
+    return lines
+
+
+def main() -> None:
+    """Run the study and print one line per case, then the summary."""
+    parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    parser.add_argument("--cases", type=int, default=40, help="mixture cases (kinds in turn)")
+    parser.add_argument("--singles", type=int, default=20, help="single-path cases (in turn)")
+    parser.add_argument("--kinds", nargs="*", default=list(KINDS), choices=list(KINDS))
+    parser.add_argument("--seed", type=int, default=2026)
+    parser.add_argument("--full", action="store_true", help="full settings (default quick)")
+    args = parser.parse_args()
+    rng = np.random.default_rng(args.seed)
+    started, cases = time.perf_counter(), []
+    plan = [(k, args.kinds[k % len(args.kinds)], "mixture") for k in range(args.cases)]
+    plan += [(args.cases + k, SINGLES[k % len(SINGLES)], "single") for k in range(args.singles)]
+    for index, what, family in plan:
+        case_rng = rng.spawn(1)[0]
+        if family == "mixture":
+            case = run_case(index, what, lambda r, w=what: draw_mixture(w, r), case_rng,
+                            not args.full)
+        else:
+            case = run_case(index, "single", lambda r, w=what: draw_single(w, r), case_rng,
+                            not args.full)
+        cases.append(case)
+        print(_line(case), flush=True)
+    for line in summary(cases):
+        print(line)
+    print(f"{len(cases)} cases in {(time.perf_counter() - started) / 60:.1f} min "
+          f"({'full' if args.full else 'quick'} settings, seed {args.seed})")
+
+
+if __name__ == "__main__":
+    main()
