@@ -24,8 +24,10 @@ Mixture kinds (the true law is the composite named, simulated with the catalogue
 Truths of the main path's parameters are drawn as in ``calibration.py`` (device priors for
 device quantities, +-15 % or +-0.5 decade about the scenario's value otherwise). A draw whose
 paths do not each lead somewhere on the grid (the composite's own window condition) is drawn
-again. Single-path cases (``--singles``): the main paths and the leak law alone, truths drawn
-the same way; they measure the false-composite rate.
+again; so is a truth whose formula does not hold on the whole grid (the fit's validity
+refusal is the same, so the truths keep the fit's effective prior there). Single-path cases
+(``--singles``): the main paths and the leak law alone, truths drawn the same way; they
+measure the false-composite rate.
 
 Reported per case: the leader, whether it is the true law, ln B of the true law over the best
 other, and for the true law whether each sampled physical parameter's central 95 % interval
@@ -158,7 +160,12 @@ def draw_single(mechanism_id: str, rng: np.random.Generator
     mechanism = get_mechanism(mechanism_id)
     scenario = SCENARIOS[mechanism_id]
     device = scenario_device(scenario)
-    return mechanism, draw_truth(mechanism, scenario, device, rng), scenario, device
+    v, t = _grid(scenario)
+    for _ in range(200):
+        truth = draw_truth(mechanism, scenario, device, rng)
+        if np.all(np.isfinite(mechanism.current(v, t, truth, device))):
+            return mechanism, truth, scenario, device
+    raise RuntimeError(f"{mechanism_id}: no truth inside the formula's validity in 200 draws")
 
 
 def _covered(draws: Mapping[str, np.ndarray], truth: Mapping[str, float]) -> dict[str, bool]:

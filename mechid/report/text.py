@@ -41,6 +41,10 @@ METHOD_REFERENCES: dict[str, str] = {
     "Lange, Little & Taylor 1989": "K. L. Lange, R. J. A. Little and J. M. G. Taylor, Robust "
                                    "statistical modeling using the t distribution, J. Am. Stat. "
                                    "Assoc. 84, 881-896 (1989).",
+    "Sze & Ng 2007": "S. M. Sze and K. K. Ng, Physics of Semiconductor Devices, 3rd ed. "
+                     "(Wiley, 2007).",
+    "Dowell & Jarratt 1971": "M. Dowell and P. Jarratt, A modified regula falsi method for "
+                             "computing the root of an equation, BIT 11, 168-174 (1971).",
     "Huber 1964": "P. J. Huber, Robust estimation of a location parameter, Ann. Math. Statist. "
                   "35, 73-101 (1964).",
     "Zabrodskii & Zinov'eva 1984": "A. G. Zabrodskii and K. N. Zinov'eva, Low-temperature "
@@ -483,12 +487,13 @@ def composite_methods(mechanisms: Sequence[Json]) -> str:
     return (
         "Composite hypotheses (" + _join(_composites(mechanisms)) + ") combine catalogued "
         "laws: two conduction paths in parallel, whose currents add, or a path behind a "
-        "series resistance R_s, I = f(V - I R_s), solved self-consistently by bisection (Sze "
-        "& Ng 2007). Each part kept its published formula and validity domain (a part behind "
-        "R_s judged at the film voltage). Their priors were restricted so that each part is "
-        "seen: each parallel path carries the larger share of the current at one fitted point "
-        f"at least, and R_s takes at least {SERIES_DROP_MIN:.0%} of the bias at one fitted "
-        "point. They were fitted after the single mechanisms, their mode search seeded with "
+        "series resistance R_s, I = f(V - I R_s), solved self-consistently by a bracketing "
+        "root search (Sze & Ng 2007; Dowell & Jarratt 1971). Each part kept its published "
+        "formula and validity domain (a part behind R_s judged at the film voltage). Their "
+        "priors were restricted so that each part is seen: each parallel path carries the "
+        "larger share of the current at one fitted point at least, and R_s takes at least "
+        f"{SERIES_DROP_MIN:.0%} of the bias at one fitted point. They were fitted after the "
+        "single mechanisms, their mode search seeded with "
         "their parts' best fits, and ranked by evidence with them.")
 
 
@@ -669,6 +674,8 @@ def references(data: Json) -> tuple[list[str], list[tuple[str, str]]]:
                  "Kass & Raftery 1995", "Gelman, Meng & Stern 1996", "Wald & Wolfowitz 1940",
                  "Rice 1984", "Foreman-Mackey 2016"]
         used += _noise_law_references(data)
+        used += ["Sze & Ng 2007", "Dowell & Jarratt 1971"] if _composites(
+            data.get("mechanisms") or []) else []
     methods = [f"{key}: {METHOD_REFERENCES[key]}" for key in used]
     ids = [m.get("id") for m in data.get("mechanisms") or []]
     ids += [e.get("mechanism_id") for e in (data.get("linearisation") or {}).get("mechanisms")
