@@ -17,6 +17,14 @@ Run: ``python benchmarks/diode_study.py [n_cases] [--from K] [--full] [--small-s
 ``--small-spread`` draws only inhomogeneous diodes with a small spread (sigma 0.003-0.03 V, its
 own seed :data:`SMALL_SPREAD_SEED`) and fits only the three diode hypotheses, to find where the
 inhomogeneous hypothesis stops winning.
+
+``--spread-only`` isolates the spread: inhomogeneous diodes whose only departure from a
+homogeneous one is sigma (rho3 = 0 and rho2 = 1 - 1/n with n in 1.0-1.5, so n_ap is the same
+at every temperature), sigma log-uniform in 0.002-0.05 V, every fourth case sigma = 0 exactly
+(simulated with the homogeneous law), window from 100-200 K to 300-400 K; own seed
+:data:`SPREAD_ONLY_SEED`, the three diode hypotheses. It asks whether the inhomogeneous
+hypothesis wins exactly when the spread matters, i.e. when the change of the lowering
+e sigma^2/2kT across the window is resolved by the data.
 """
 
 from __future__ import annotations
@@ -44,6 +52,9 @@ SMALL_SPREAD_SEED = 61203
 #: Range of sigma in the main study and in the small-spread study, V.
 SPREAD_RANGE_V = (0.02, 0.15)
 SMALL_SPREAD_RANGE_V = (0.003, 0.03)
+#: Seed of the spread-only cases (chosen before any of them was looked at).
+SPREAD_ONLY_SEED = 80521
+SPREAD_ONLY_RANGE_V = (0.002, 0.05)
 DIODE_CANDIDATES = ("schottky_diode", "inhomogeneous_schottky_diode", "lateral_2d_schottky_diode")
 AREA_CM2 = 1e-3
 DEVICE = Device(area_cm2=AREA_CM2)
@@ -103,6 +114,27 @@ def draw_case(rng: np.random.Generator, index: int,
                  "voltage_coefficient_rho2": rho2, "voltage_coefficient_rho3_V": rho3, **common}
     temperatures = np.round(np.linspace(t_min, t_max, N_TEMPERATURES), 1)
     return Case(index, inhomogeneous, {k: float(v) for k, v in truth.items()}, temperatures)
+
+
+def draw_spread_only_case(rng: np.random.Generator, index: int) -> Case:
+    """A diode that differs from a homogeneous one only by its barrier spread (see module)."""
+    barrier = rng.uniform(0.6, 1.0)
+    ideality = rng.uniform(1.0, 1.5)
+    common = {
+        "richardson_constant_A_cm2_K2": float(10 ** rng.uniform(1.0, np.log10(150.0))),
+        "series_resistance_ohm": float(10 ** rng.uniform(1.0, 4.0)),
+        "shunt_resistance_ohm": float(10 ** rng.uniform(7.0, 11.0)),
+    }
+    temperatures = np.round(np.linspace(rng.uniform(100.0, 200.0), rng.uniform(300.0, 400.0),
+                                        N_TEMPERATURES), 1)
+    sd = float(np.exp(rng.uniform(*np.log(SPREAD_ONLY_RANGE_V))))
+    if index % 4 == 0:
+        truth = {"barrier_height_eV": barrier, "ideality_factor": ideality, **common}
+        return Case(index, False, truth, temperatures)
+    truth = {"mean_barrier_height_eV": barrier, "barrier_variance_V2": sd**2,
+             "voltage_coefficient_rho2": 1.0 - 1.0 / ideality, "voltage_coefficient_rho3_V": 0.0,
+             **common}
+    return Case(index, True, {k: float(v) for k, v in truth.items()}, temperatures)
 
 
 def simulate(case: Case, rng: np.random.Generator) -> dict[str, np.ndarray]:
@@ -231,20 +263,26 @@ def main(argv: list[str]) -> None:
         time_full_fit()
         return
     small = "--small-spread" in argv
-    argv = [a for a in argv if a != "--small-spread"]
+    spread_only = "--spread-only" in argv
+    argv = [a for a in argv if a not in ("--small-spread", "--spread-only")]
     n_cases = int(argv[0]) if argv and not argv[0].startswith("--") else 12
     first = int(argv[argv.index("--from") + 1]) if "--from" in argv else 0
-    seed = SMALL_SPREAD_SEED if small else STUDY_SEED
+    seed = SPREAD_ONLY_SEED if spread_only else SMALL_SPREAD_SEED if small else STUDY_SEED
     rng = np.random.default_rng(seed)
     rows = []
     for index in range(n_cases):
         # drawn in order, so a case does not depend on --from
-        case = (draw_case(rng, index, SMALL_SPREAD_RANGE_V, inhomogeneous=True) if small
-                else draw_case(rng, index))
+        if spread_only:
+            case = draw_spread_only_case(rng, index)
+        elif small:
+            case = draw_case(rng, index, SMALL_SPREAD_RANGE_V, inhomogeneous=True)
+        else:
+            case = draw_case(rng, index)
         if index < first:
             continue
         rows.append(run_case(case, seed=seed + index,
-                             candidates=DIODE_CANDIDATES if small else CANDIDATES))
+                             candidates=DIODE_CANDIDATES if small or spread_only
+                             else CANDIDATES))
         _print_row(rows[-1])
     _summary(rows)
 

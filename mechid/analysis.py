@@ -347,7 +347,10 @@ def _fit_composites(jobs: list[FitJob], singles: RoundsOutcome, series: IVSeries
     """
     if not jobs:
         return singles
-    seeded = [replace(job, hints=(*part_hints(get_mechanism(job.mechanism_id), singles.fits),
+    # The leak fitted to the excess draws from a stream spawned off the composite's own (its
+    # fit's draws are unchanged by it).
+    seeded = [replace(job, hints=(*part_hints(get_mechanism(job.mechanism_id), singles.fits,
+                                              settings.search(), job.rng.spawn(1)[0]),
                                   *((job.hints,) if job.hints is not None else ())))
               for job in jobs]
     leader = max(((mid, float(fit.evidence.log_evidence)) for mid, fit in singles.fits.items()

@@ -72,3 +72,17 @@ def test_part_hints_carry_each_parts_best_fit_under_the_composites_names(mixture
         set(get_mechanism("poole_frenkel").parameter_names), set(composite.parameter_names)]
     assert hints[1].sources["leak_prefactor_S"] == "best fit of ohmic_activated"
     assert part_hints(get_mechanism("poole_frenkel"), mixture.run.fits) == ()
+
+
+def test_the_leak_fitted_to_the_excess_over_the_main_fit_lands_near_the_true_leak(mixture):
+    # The data's excess over Poole-Frenkel's best fit is the leak where it shows (low bias,
+    # cold): the leak's own fit there starts the composite next to its true parameters.
+    from mechid.inference.settings import QUICK_SEARCH
+
+    composite = get_mechanism("poole_frenkel_with_leak")
+    hints = part_hints(composite, mixture.run.fits, QUICK_SEARCH, np.random.default_rng(0))
+    assert len(hints) == 3
+    leak = hints[2].values
+    assert leak["leak_activation_energy_eV"] == pytest.approx(0.3, abs=0.05)
+    assert leak["leak_prefactor_S"] == pytest.approx(1e-5, rel=1.0)
+    assert "excess" in hints[2].sources["leak_prefactor_S"]
