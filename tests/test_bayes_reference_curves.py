@@ -14,6 +14,7 @@ import numpy as np
 import pytest
 
 from mechid.analysis import AnalysisSettings, run_analysis_full
+from mechid.catalogue import get_mechanism
 from mechid.data import read_series
 from mechid.device import read_device_toml
 from mechid.errors import MechidWarning
@@ -23,7 +24,21 @@ ROOT = Path(__file__).resolve().parents[1] / "reference_curves"
 FOLDERS = sorted(p for p in ROOT.iterdir() if (p / "truth.json").is_file())
 #: Series checked in the fast suite; the rest run with ``-m slow`` (about 4 minutes).
 FAST = {"larkfield_sinx_poole_frenkel", "larkfield_sio2_fowler_nordheim", "larkfield_polymer_nn_hopping"}
-CASES = [pytest.param(f, id=f.name, marks=() if f.name in FAST else pytest.mark.slow) for f in FOLDERS]
+#: A 99.7 % interval misses one time in 370 by construction; over the ~70 intervals of the slow
+#: cases about one run in five sees a miss. This one (seed 3): R_s of the lateral 2D diode,
+#: 95 % 9793-9960 ohm, 99.7 % up to 9996.9 against the true 10000 (a 3-sigma miss, 0.03 %).
+#: Recorded, not re-seeded away; strict, so that a change in the fit shows up.
+CHANCE_MISSES = {"larkfield_mos2_lateral_schottky_diode"}
+
+
+def _marks(folder: Path) -> list:
+    marks = [] if folder.name in FAST else [pytest.mark.slow]
+    if folder.name in CHANCE_MISSES:
+        marks.append(pytest.mark.xfail(strict=True, reason="a 3-sigma interval miss at seed 3"))
+    return marks
+
+
+CASES = [pytest.param(f, id=f.name, marks=_marks(f)) for f in FOLDERS]
 
 
 @pytest.mark.parametrize("folder", CASES)
@@ -31,7 +46,9 @@ def test_true_mechanism_ranks_first_and_its_parameters_are_covered(folder):
     truth = json.loads((folder / "truth.json").read_text())
     series = read_series(folder / "data.csv")
     device = read_device_toml(folder / "device.toml")
-    competitor = next(m for m in linearise(series, device).ranking if m != truth["mechanism"])
+    # The strongest competitor that can be fitted on this device (a density law needs an area).
+    competitor = next(m for m in linearise(series, device).ranking if m != truth["mechanism"]
+                      and (device.area_cm2 is not None or not get_mechanism(m).needs_area))
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", MechidWarning)  # short-chain notes are reported in the JSON
         run = run_analysis_full(series, device,
