@@ -329,6 +329,20 @@ SCENARIOS: list[dict] = [
         "voltages_V": _bias(6.0, 9.5, 20),
         "noise_relative": 0.03, "noise_floor_A": 1e-13, "seed": 117,
     },
+    {
+        "name": "larkfield_sio2_fowler_nordheim_image_rounded",
+        "story": "A second thermal SiO2 gate oxide (6 nm) whose Fowler-Nordheim ramp is read "
+                 "with the image-force rounding of the barrier (optical permittivity 2.1).",
+        "mechanism": "fowler_nordheim_image_force",
+        "params": {"barrier_height_eV": 3.0, "thickness_nm": 6.0, "effective_mass_ratio": 0.45,
+                   "dielectric_constant": 2.1},
+        "device": {"thickness_nm": 6.0, "thickness_sd_nm": 0.2, "area_cm2": 1e-4,
+                   "effective_mass_ratio": 0.45, "effective_mass_sd": 0.05,
+                   "optical_dielectric_constant": 2.1, "optical_dielectric_constant_sd": 0.2},
+        "temperatures_K": [77, 125, 175, 225],
+        "voltages_V": _bias(6.0, 9.5, 20),
+        "noise_relative": 0.03, "noise_floor_A": 1e-13, "seed": 118,
+    },
 ]
 
 

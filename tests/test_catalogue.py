@@ -59,6 +59,8 @@ EXPECTED = {
                                                "shunt_resistance_ohm")),
     "trap_assisted_tunnelling": ("tunnelling", ("trap_energy_eV", "prefactor_A_per_cm2",
                                                 "thickness_nm", "effective_mass_ratio")),
+    "fowler_nordheim_image_force": ("tunnelling", (
+        "barrier_height_eV", "thickness_nm", "effective_mass_ratio", "dielectric_constant")),
     "poole_frenkel_with_leak": ("emission", (
         "trap_depth_eV", "dielectric_constant", "prefactor_S_per_cm", "thickness_nm",
         "leak_activation_energy_eV", "leak_prefactor_S")),

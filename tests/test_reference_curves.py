@@ -17,6 +17,9 @@ from mechid.simulate import simulate_series
 
 ROOT = Path(__file__).resolve().parents[1] / "reference_curves"
 FOLDERS = sorted(p for p in ROOT.iterdir() if (p / "truth.json").is_file())
+#: Laws whose straightened plots and checks are those of another (the screening ties them, and
+#: catalogue order names the other): see mechid/catalogue/trap_tunnelling.py.
+SCREENED_AS = {"fowler_nordheim_image_force": "fowler_nordheim"}
 
 
 def test_there_is_a_reference_series_for_every_mechanism():
@@ -54,6 +57,7 @@ def test_linearisation_picks_the_true_mechanism(folder):
                     "contact there, so only the Bayesian fit can pick it")
     parts = composite_parts(get_mechanism(truth["mechanism"]))
     result = linearise(read_series(folder / "data.csv"), read_device_toml(folder / "device.toml"))
-    # A composite is screened with its main path's plots and checks: the screening names the
-    # main path (only the fit can tell the composite from it).
-    assert result.best == (parts[0] if parts else truth["mechanism"]), result.ranking
+    # A composite is screened with its main path's plots and checks, and the image-force FN
+    # law with plain FN's plot: the screening names the main law (only the fit can tell).
+    expected = parts[0] if parts else SCREENED_AS.get(truth["mechanism"], truth["mechanism"])
+    assert result.best == expected, result.ranking

@@ -13,9 +13,9 @@ Each mechanism is declared once, in the module of its family:
   ``lateral_2d_schottky_diode`` (rectifying contacts, signed formulas)
 * :mod:`mechid.catalogue.ohmic` -- ``ohmic_activated``
 * :mod:`mechid.catalogue.space_charge` -- ``sclc_shallow_traps``, ``sclc_exponential_traps``
-* :mod:`mechid.catalogue.trap_tunnelling` -- ``trap_assisted_tunnelling`` (its
-  ``FOWLER_NORDHEIM_IMAGE_FORCE`` is declared but not registered: the screening cannot tell it
-  from ``fowler_nordheim``, see that module)
+* :mod:`mechid.catalogue.trap_tunnelling` -- ``trap_assisted_tunnelling``,
+  ``fowler_nordheim_image_force`` (Murphy-Good rounding with Forbes' v(f); the screening
+  cannot tell it from ``fowler_nordheim``, the fit can, see that module)
 * :mod:`mechid.catalogue.combinations` -- the composites (two paths in parallel, or a path
   behind a series resistance, built by :mod:`mechid.catalogue.composite`):
   ``poole_frenkel_with_leak``, ``schottky_emission_with_leak``,
@@ -39,7 +39,7 @@ from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, MOTT_VRH_2D, NEAREST_NEIG
 from mechid.catalogue.ohmic import OHMIC_ACTIVATED
 from mechid.catalogue.polarity import FOWLER_NORDHEIM_TWO_BARRIERS, SCHOTTKY_EMISSION_TWO_BARRIERS
 from mechid.catalogue.space_charge import SCLC_EXPONENTIAL_TRAPS, SCLC_SHALLOW_TRAPS
-from mechid.catalogue.trap_tunnelling import TRAP_ASSISTED_TUNNELLING
+from mechid.catalogue.trap_tunnelling import FOWLER_NORDHEIM_IMAGE_FORCE, TRAP_ASSISTED_TUNNELLING
 from mechid.catalogue.tunnelling import (
     DIRECT_TUNNELLING,
     DISSIMILAR_ELECTRODE_TUNNELLING,
@@ -67,6 +67,7 @@ MECHANISMS: tuple[Mechanism, ...] = (
     INHOMOGENEOUS_SCHOTTKY_DIODE,
     LATERAL_2D_SCHOTTKY_DIODE,
     TRAP_ASSISTED_TUNNELLING,
+    FOWLER_NORDHEIM_IMAGE_FORCE,
     *COMPOSITES,
 )
 
