@@ -55,6 +55,7 @@ from mechid.inference.regimes import RegimeMap, regime_map
 from mechid.inference.rounds import (
     FitJob,
     RoundsOutcome,
+    best_evidence,
     default_workers,
     fit_candidates_in_rounds,
 )
@@ -353,9 +354,7 @@ def _fit_composites(jobs: list[FitJob], singles: RoundsOutcome, series: IVSeries
                                               settings.search(), job.rng.spawn(1)[0]),
                                   *((job.hints,) if job.hints is not None else ())))
               for job in jobs]
-    leader = max(((mid, float(fit.evidence.log_evidence)) for mid, fit in singles.fits.items()
-                  if np.isfinite(fit.evidence.log_evidence)),
-                 key=lambda pair: pair[1], default=None)
+    leader = best_evidence(None, singles.fits.values())
     composites = fit_candidates_in_rounds(
         seeded, series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
         device, settings.ladder(), settings.search(),
@@ -414,8 +413,9 @@ def _regime_map(results: list[MechanismResult], fits: Mapping[str, MechanismFit]
                 voltage_V: np.ndarray, temperature_K: np.ndarray, device: Device,
                 seed: int | None) -> RegimeMap:
     """The regime map from the most probable composite and the most probable single law."""
-    def is_composite(result: MechanismResult) -> bool:  # paths in parallel (a series
-        return bool(get_mechanism(result.id).options.get("paths"))  # resistance is not a path)
+    def is_composite(result: MechanismResult) -> bool:
+        # Paths in parallel only: a series resistance carries no current of its own.
+        return bool(get_mechanism(result.id).options.get("paths"))
 
     composite = next((r for r in results if is_composite(r)), None)
     single = next((r for r in results if not is_composite(r)), None)

@@ -32,8 +32,8 @@ the same self-consistent relation as the diode equation with series resistance, 
 *Physics of Semiconductor Devices*, 3rd ed. 2007, ch. 3). For a current that rises with
 bias, ``u + R_s f(u)`` rises monotonically from 0 to ``V`` on ``[0, V]``, so the film voltage
 is found by a bracketing root search (:func:`film_voltage_V`), vectorised over parameter sets
-and points. The formula's validity
-conditions are checked at the film voltage, where the formula is used. Its window condition:
+and points. The formula's validity conditions are checked at the film voltage, where the
+formula is used. Its window condition:
 the resistor must take at least :data:`SERIES_DROP_MIN` of the bias at one fitted point at
 least (below that it is invisible and the composite is the single law under another name).
 """
@@ -326,10 +326,13 @@ def behind_series_resistance(main: Mechanism, *, id: str, name: str) -> Mechanis
 
     def resistor_is_seen(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,
                          **values: FloatArray) -> np.ndarray:
-        film = film_voltage_V(main, voltage_V, temperature_K, device,
+        # Zero bias as NaN, exactly as Mechanism.current passes it to the formula, so that
+        # the solution of this likelihood evaluation is found in the cache, not solved again.
+        biased = np.where(voltage_V > 0, voltage_V, np.nan)
+        film = film_voltage_V(main, biased, temperature_K, device,
                               values[SERIES_RESISTANCE], values)
         with np.errstate(invalid="ignore", divide="ignore"):
-            share = np.atleast_2d((voltage_V - film) / voltage_V)
+            share = np.atleast_2d((biased - film) / biased)
         return np.any(share >= SERIES_DROP_MIN, axis=-1)
 
     return Mechanism(

@@ -90,12 +90,17 @@ def best_found(fit: MechanismFit) -> float:
     return best_point(fit)[1]
 
 
+def best_values(fit: MechanismFit) -> dict[str, float]:
+    """The physical values (noise parameters included) of the fit's best point."""
+    physical = fit.target.physical_values(best_point(fit)[0][None, :])
+    return {name: float(value[0, 0]) for name, value in physical.items()}
+
+
 def mapped_values(container_id: str, nested: MechanismFit) -> dict[str, float]:
     """The nested fit's best point as physical values of the container (noise parameters
     carried over unchanged)."""
     mapping = get_mechanism(container_id).contains[nested.result.id]
-    physical = nested.target.physical_values(best_point(nested)[0][None, :])
-    values = {name: float(value[0, 0]) for name, value in physical.items()}
+    values = best_values(nested)
     return {**mapping(values), **{name: values[name] for name in NOISE_PARAMETERS}}
 
 

@@ -29,7 +29,7 @@ from mechid.catalogue.base import Mechanism, ParameterHints
 from mechid.catalogue.composite import leak_parameter_names
 from mechid.inference.fit import MechanismFit
 from mechid.inference.likelihood import MechanismTarget
-from mechid.inference.nesting import best_point
+from mechid.inference.nesting import best_values as best_values_with_noise
 from mechid.inference.priors import mechanism_priors
 from mechid.inference.settings import SearchSettings
 from mechid.inference.start import find_modes
@@ -52,9 +52,8 @@ def composite_parts(mechanism: Mechanism) -> tuple[str, ...]:
 
 def best_values(fit: MechanismFit) -> dict[str, float]:
     """The physical values of a fit's best point (its mechanism's parameters only)."""
-    physical = fit.target.physical_values(best_point(fit)[0][None, :])
-    names = get_mechanism(fit.result.id).parameter_names
-    return {name: float(physical[name][0, 0]) for name in names}
+    values = best_values_with_noise(fit)
+    return {name: values[name] for name in get_mechanism(fit.result.id).parameter_names}
 
 
 def excess_leak_values(mechanism: Mechanism, main_fit: MechanismFit, search: SearchSettings,

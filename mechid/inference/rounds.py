@@ -181,7 +181,7 @@ def _fit_here(rounds: list[list[FitJob]], shared: _SharedInputs,
         for job in batch:
             hook = None if progress is None else _labelled(progress, job.mechanism_id)
             fits[job.mechanism_id] = _fit(job, shared, leader, hook)
-        leader = _best(leader, (fits[job.mechanism_id] for job in batch))
+        leader = best_evidence(leader, (fits[job.mechanism_id] for job in batch))
     return fits
 
 
@@ -207,7 +207,7 @@ def _fit_on_workers(rounds: list[list[FitJob]], shared: _SharedInputs, workers: 
                 for message, category in caught:
                     warnings.warn(message, category, stacklevel=3)
                 fits[job.mechanism_id] = fit
-            leader = _best(leader, (fits[job.mechanism_id] for job in batch))
+            leader = best_evidence(leader, (fits[job.mechanism_id] for job in batch))
     return fits
 
 
@@ -258,7 +258,7 @@ def _fit(job: FitJob, shared: _SharedInputs, leader: _Leader,
                                   reason=reason, violations=())
 
 
-def _best(leader: _Leader, fits: Iterable[_Outcome]) -> _Leader:
+def best_evidence(leader: _Leader, fits: Iterable[_Outcome]) -> _Leader:
     """The (id, ln Z) of the best finite evidence among ``leader`` and ``fits``."""
     values = [(fit.result.id, float(fit.evidence.log_evidence)) for fit in fits
               if isinstance(fit, MechanismFit) and np.isfinite(fit.evidence.log_evidence)]
