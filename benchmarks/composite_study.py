@@ -15,6 +15,13 @@ Mixture kinds (the true law is the composite named, simulated with the catalogue
   the direct-tunnelling scenario: activation energy uniform on [0.1, 0.3] eV, the leak
   ``r`` times the tunnelling current at the lowest bias of the hottest temperature, ``r``
   log-uniform on [2, 30];
+* ``sclc_tfl_leak`` -- space-charge-limited current through one trap level with its
+  trap-filled-limit rise, plus the ohmic current of thermal carriers
+  (``sclc_single_trap_level_with_leak``) on the single-level scenario: the ohmic path
+  ``r`` times the space-charge current at the lowest bias of the hottest temperature, ``r``
+  log-uniform on [2, 30], activation energy uniform on [0.2, 0.4] eV (a Fermi level above the
+  trap level's 0.45 eV); a truth whose trap-filled limit lies outside the swept biases
+  (below 1.5x the lowest, above the highest / 1.5) is drawn again, so the rise is seen;
 * ``fn_series`` -- Fowler-Nordheim behind a series resistance
   (``fowler_nordheim_series_resistance``) on the Fowler-Nordheim scenario: the resistor takes
   a fraction ``q`` of the top bias at the hottest temperature, ``q`` uniform on [2 %, 15 %];
@@ -57,6 +64,7 @@ import mechid
 from mechid.catalogue import get_mechanism
 from mechid.catalogue.base import Mechanism
 from mechid.catalogue.composite import SERIES_RESISTANCE
+from mechid.catalogue.space_charge import trap_filled_limit_voltage_V
 from mechid.device import Device
 from mechid.inference.fit import NOISE_PARAMETERS
 from mechid.simulate import simulate_series
@@ -71,10 +79,11 @@ KINDS = {
     "schottky_leak": ("schottky_emission_with_leak", "schottky_emission"),
     "dt_leak": ("direct_tunnelling_with_leak", "direct_tunnelling"),
     "fn_series": ("fowler_nordheim_series_resistance", "fowler_nordheim"),
+    "sclc_tfl_leak": ("sclc_single_trap_level_with_leak", "sclc_single_trap_level"),
 }
 #: Single-path laws whose data measure the false-composite rate.
 SINGLES = ("poole_frenkel", "schottky_emission", "direct_tunnelling", "fowler_nordheim",
-           "ohmic_activated")
+           "ohmic_activated", "sclc_single_trap_level")
 LEAK = get_mechanism("ohmic_activated")
 
 
@@ -106,8 +115,8 @@ def _leak_truth(main: Mechanism, main_truth: Mapping[str, float], scenario: Mapp
     """Activation energy and prefactor of the leak (see the module for the rules)."""
     v = np.abs(np.asarray(scenario["voltages_V"], float))
     temperatures = np.asarray(scenario["temperatures_K"], float)
-    if kind == "dt_leak":
-        energy = rng.uniform(0.1, 0.3)
+    if kind in ("dt_leak", "sclc_tfl_leak"):
+        energy = rng.uniform(0.1, 0.3) if kind == "dt_leak" else rng.uniform(0.2, 0.4)
         bias, temperature = v.min(), temperatures.max()
         target = 10 ** rng.uniform(np.log10(2.0), np.log10(30.0))
     else:
@@ -131,6 +140,14 @@ def _series_truth(main: Mechanism, main_truth: Mapping[str, float],
     return {SERIES_RESISTANCE: share * top / current}
 
 
+def _rise_is_swept(truth: Mapping[str, float], scenario: Mapping[str, Any]) -> bool:
+    """Lampert's trap-filled-limit voltage lies well inside the swept biases."""
+    v = np.abs(np.asarray(scenario["voltages_V"], float))
+    limit = float(trap_filled_limit_voltage_V(truth["trap_density_per_cm3"],
+                                              truth["thickness_nm"], truth["dielectric_constant"]))
+    return 1.5 * v.min() <= limit <= v.max() / 1.5
+
+
 def draw_mixture(kind: str, rng: np.random.Generator) -> tuple[Mechanism, dict[str, float],
                                                                Mapping[str, Any], Device]:
     """A composite truth whose parts are each seen on the grid (redrawn until they are)."""
@@ -147,6 +164,8 @@ def draw_mixture(kind: str, rng: np.random.Generator) -> tuple[Mechanism, dict[s
         values = {k: np.array([[truth[k]]]) for k in composite.parameter_names}
         current = composite.current(v, t, truth, device)
         if kind == "fn_series" and truth[SERIES_RESISTANCE] < 1.0:
+            continue
+        if kind == "sclc_tfl_leak" and not _rise_is_swept(truth, scenario):
             continue
         if np.all(np.isfinite(current)) and bool(
                 composite.window_condition(np.abs(v), t, device, **values)[0]):

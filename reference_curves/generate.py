@@ -343,6 +343,38 @@ SCENARIOS: list[dict] = [
         "voltages_V": _bias(6.0, 9.5, 20),
         "noise_relative": 0.03, "noise_floor_A": 1e-13, "seed": 118,
     },
+    {
+        "name": "larkfield_anthracene_crystal_trap_filled",
+        "story": "Vapour-grown organic single-crystal platelet (1 um) between evaporated gold "
+                 "contacts, swept to 60 V at 200-350 K; one deep trap level fills at a few "
+                 "volts and the current rises steeply to the trap-free square law.",
+        "mechanism": "sclc_single_trap_level",
+        "params": {"trap_depth_eV": 0.45, "band_density_per_cm3": 1e20,
+                   "trap_density_per_cm3": 5e15, "mobility_cm2_per_Vs": 0.05,
+                   "dielectric_constant": 3.0, "thickness_nm": 1000.0},
+        "device": {"thickness_nm": 1000.0, "thickness_sd_nm": 50.0, "area_cm2": 1e-4,
+                   "semiconductor_dielectric_constant": 3.0,
+                   "semiconductor_dielectric_constant_sd": 0.3},
+        "temperatures_K": [200, 225, 250, 275, 300, 325, 350],
+        "voltages_V": _bias(0.5, 60.0, 20),
+        "noise_relative": 0.02, "noise_floor_A": 1e-14, "seed": 119,
+    },
+    {
+        "name": "larkfield_anthracene_crystal_trap_filled_ohmic",
+        "story": "A second platelet of the trap-filled crystal, less pure: thermally excited "
+                 "carriers give an ohmic current that carries the lowest biases.",
+        "mechanism": "sclc_single_trap_level_with_leak",
+        "params": {"trap_depth_eV": 0.45, "band_density_per_cm3": 1e20,
+                   "trap_density_per_cm3": 5e15, "mobility_cm2_per_Vs": 0.05,
+                   "dielectric_constant": 3.0, "thickness_nm": 1000.0,
+                   "leak_activation_energy_eV": 0.3, "leak_prefactor_S": 1e-3},
+        "device": {"thickness_nm": 1000.0, "thickness_sd_nm": 50.0, "area_cm2": 1e-4,
+                   "semiconductor_dielectric_constant": 3.0,
+                   "semiconductor_dielectric_constant_sd": 0.3},
+        "temperatures_K": [200, 225, 250, 275, 300, 325, 350],
+        "voltages_V": _bias(0.5, 60.0, 20),
+        "noise_relative": 0.02, "noise_floor_A": 1e-14, "seed": 120,
+    },
 ]
 
 

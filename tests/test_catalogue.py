@@ -42,6 +42,9 @@ EXPECTED = {
                                                 "trap_density_per_cm3", "dielectric_constant",
                                                 "mobility_band_density_per_V_s_cm",
                                                 "thickness_nm")),
+    "sclc_single_trap_level": ("space_charge", (
+        "trap_depth_eV", "band_density_per_cm3", "trap_density_per_cm3", "mobility_cm2_per_Vs",
+        "dielectric_constant", "thickness_nm")),
     "nearest_neighbour_hopping": ("hopping", ("activation_energy_eV", "hopping_distance_nm",
                                               "prefactor_A_per_cm2", "thickness_nm")),
     "mott_vrh": ("hopping", ("characteristic_temperature_K", "prefactor_S")),
@@ -70,6 +73,9 @@ EXPECTED = {
     "direct_tunnelling_with_leak": ("tunnelling", (
         "barrier_height_eV", "thickness_nm", "effective_mass_ratio",
         "leak_activation_energy_eV", "leak_prefactor_S")),
+    "sclc_single_trap_level_with_leak": ("space_charge", (
+        "trap_depth_eV", "band_density_per_cm3", "trap_density_per_cm3", "mobility_cm2_per_Vs",
+        "dielectric_constant", "thickness_nm", "leak_activation_energy_eV", "leak_prefactor_S")),
     "fowler_nordheim_series_resistance": ("tunnelling", (
         "barrier_height_eV", "thickness_nm", "effective_mass_ratio", "series_resistance_ohm")),
 }
@@ -202,4 +208,4 @@ def test_interpret_returns_plain_floats_with_unit_suffixed_keys(mechanism):
                 assert isinstance(key, str) and isinstance(value, float)
                 assert key.endswith(("_eV", "_nm", "_K", "_S", "_S_per_cm", "_per_V2",
                                      "_A_per_cm2_K2", "_ratio", "dielectric_constant",
-                                     "_exponent", "_cm2_per_Vs"))
+                                     "_exponent", "_cm2_per_Vs", "_V", "_per_cm3"))

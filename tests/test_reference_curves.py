@@ -20,6 +20,19 @@ FOLDERS = sorted(p for p in ROOT.iterdir() if (p / "truth.json").is_file())
 #: Laws whose straightened plots and checks are those of another (the screening ties them, and
 #: catalogue order names the other): see mechid/catalogue/trap_tunnelling.py.
 SCREENED_AS = {"fowler_nordheim_image_force": "fowler_nordheim"}
+#: Series whose straightened plots name another law (recorded, not hidden): only the fit tells.
+SCREENING_MISSES = {
+    "larkfield_anthracene_crystal_trap_filled_ohmic": (
+        "ohmic at the lowest bias, a trap-filled-limit rise and the square law above: no single "
+        "straight line fits that sweep, and the Arrhenius and Zabrodskii plots of its activated "
+        "low-bias part read as nearest-neighbour hopping; the fit ranks the composite first"),
+}
+
+
+def _screened(folder: Path):
+    reason = SCREENING_MISSES.get(folder.name)
+    return pytest.param(folder, id=folder.name,
+                        marks=[pytest.mark.xfail(strict=True, reason=reason)] if reason else [])
 
 
 def test_there_is_a_reference_series_for_every_mechanism():
@@ -49,7 +62,7 @@ def test_reference_series_regenerates_from_its_manifest(folder):
     np.testing.assert_allclose(series.current_A, sim.current_A[order], rtol=1e-12, atol=0.0)
 
 
-@pytest.mark.parametrize("folder", FOLDERS, ids=lambda p: p.name)
+@pytest.mark.parametrize("folder", [_screened(f) for f in FOLDERS])
 def test_linearisation_picks_the_true_mechanism(folder):
     truth = json.loads((folder / "truth.json").read_text())
     if not get_mechanism(truth["mechanism"]).is_odd:

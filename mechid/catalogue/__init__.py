@@ -12,7 +12,8 @@ Each mechanism is declared once, in the module of its family:
 * :mod:`mechid.catalogue.diode` -- ``schottky_diode``, ``inhomogeneous_schottky_diode``,
   ``lateral_2d_schottky_diode`` (rectifying contacts, signed formulas)
 * :mod:`mechid.catalogue.ohmic` -- ``ohmic_activated``
-* :mod:`mechid.catalogue.space_charge` -- ``sclc_shallow_traps``, ``sclc_exponential_traps``
+* :mod:`mechid.catalogue.space_charge` -- ``sclc_shallow_traps``, ``sclc_exponential_traps``,
+  ``sclc_single_trap_level`` (Lampert's trap-filled-limit rise)
 * :mod:`mechid.catalogue.trap_tunnelling` -- ``trap_assisted_tunnelling``,
   ``fowler_nordheim_image_force`` (Murphy-Good rounding with Forbes' v(f); the screening
   cannot tell it from ``fowler_nordheim``, the fit can, see that module)
@@ -38,7 +39,11 @@ from mechid.catalogue.emission import POOLE_FRENKEL, SCHOTTKY_EMISSION
 from mechid.catalogue.hopping import ES_VRH, MOTT_VRH, MOTT_VRH_2D, NEAREST_NEIGHBOUR_HOPPING
 from mechid.catalogue.ohmic import OHMIC_ACTIVATED
 from mechid.catalogue.polarity import FOWLER_NORDHEIM_TWO_BARRIERS, SCHOTTKY_EMISSION_TWO_BARRIERS
-from mechid.catalogue.space_charge import SCLC_EXPONENTIAL_TRAPS, SCLC_SHALLOW_TRAPS
+from mechid.catalogue.space_charge import (
+    SCLC_EXPONENTIAL_TRAPS,
+    SCLC_SHALLOW_TRAPS,
+    SCLC_SINGLE_TRAP_LEVEL,
+)
 from mechid.catalogue.trap_tunnelling import FOWLER_NORDHEIM_IMAGE_FORCE, TRAP_ASSISTED_TUNNELLING
 from mechid.catalogue.tunnelling import (
     DIRECT_TUNNELLING,
@@ -59,6 +64,7 @@ MECHANISMS: tuple[Mechanism, ...] = (
     OHMIC_ACTIVATED,
     SCLC_SHALLOW_TRAPS,
     SCLC_EXPONENTIAL_TRAPS,
+    SCLC_SINGLE_TRAP_LEVEL,
     NEAREST_NEIGHBOUR_HOPPING,
     MOTT_VRH,
     MOTT_VRH_2D,

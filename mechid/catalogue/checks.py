@@ -165,6 +165,32 @@ class SlopeTimesTemperature(CheckSpec):
 
 
 @dataclass(frozen=True)
+class InterceptNotActivated(CheckSpec):
+    """The intercepts of a per-temperature plot do not follow an Arrhenius law.
+
+    An ``ln``-valued intercept against 1/T gives an apparent activation energy; the check
+    passes when its magnitude is at most ``max_activation_eV`` (for a trap-free square law,
+    whose prefactor holds no Boltzmann factor).
+    """
+
+    plot: str
+    max_activation_eV: float = 0.05
+
+
+@dataclass(frozen=True)
+class VoltageInsideSweep(CheckSpec):
+    """A characteristic voltage read from ``plot`` lies inside the sweep (median over lines).
+
+    Passes when ``0 < median <= largest |V| x max_share`` (e.g. a trap-filled limit that the
+    sweep has passed, so its top shows the approach to the trap-free law).
+    """
+
+    plot: str
+    quantity: str
+    max_share: float = 2.0 / 3.0
+
+
+@dataclass(frozen=True)
 class ZeroFieldBarrier(CheckSpec):
     """A per-bias activation energy extrapolated to zero field lies in a declared range.
 

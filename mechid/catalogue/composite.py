@@ -47,6 +47,7 @@ from dataclasses import replace
 import numpy as np
 
 from mechid.catalogue.base import FloatArray, Mechanism, Parameter
+from mechid.catalogue.roots import rising_root
 from mechid.catalogue.validity import ValidityCondition
 from mechid.device import Device
 
@@ -240,8 +241,7 @@ def film_voltage_V(main: Mechanism, voltage_abs_V: FloatArray, temperature_K: Fl
 
 def _illinois_film_voltage(main: Mechanism, v: FloatArray, t: FloatArray, r: FloatArray,
                            own: Mapping[str, FloatArray], device: Device) -> FloatArray:
-    """The root search of :func:`film_voltage_V` on the flattened broadcast arrays; only the
-    points not yet converged are evaluated at each step."""
+    """The root search of :func:`film_voltage_V` on the flattened broadcast arrays."""
     shape = np.broadcast_shapes(v.shape, t.shape, r.shape, *(a.shape for a in own.values()))
 
     def flat(a: FloatArray) -> FloatArray:
@@ -249,34 +249,18 @@ def _illinois_film_voltage(main: Mechanism, v: FloatArray, t: FloatArray, r: Flo
 
     bias, temperature, resistance = flat(v), flat(t), flat(r)
     params = {k: flat(a) for k, a in own.items()}
-    low, high = np.zeros(bias.size), bias.copy()
-    g_low = -bias
     g_high = resistance * np.abs(main.magnitude(bias, temperature, device, **params))
-    film = bias.copy()
-    last_side = np.zeros(bias.size, dtype=np.int8)  # +1: the upper end moved last, -1: lower
+
+    def excess(trial: FloatArray, index: np.ndarray) -> FloatArray:
+        current = main.magnitude(trial, temperature[index], device,
+                                 **{k: a[index] for k, a in params.items()})
+        return trial - bias[index] + resistance[index] * np.abs(current)
+
     # Where the formula cannot be evaluated at the applied bias itself, the point is left at
     # u = |V| (its current stays NaN, so the set is refused, never extrapolated).
     active = np.flatnonzero((bias > 0) & np.isfinite(g_high))
-    for _ in range(_FILM_MAX_STEPS):
-        if active.size == 0:
-            break
-        lo, hi, g_lo, g_hi = low[active], high[active], g_low[active], g_high[active]
-        trial = hi - g_hi * (hi - lo) / (g_hi - g_lo)
-        trial = np.where(np.isfinite(trial) & (trial > lo) & (trial < hi), trial, 0.5 * (lo + hi))
-        value = (trial - bias[active] + resistance[active] * np.abs(main.magnitude(
-            trial, temperature[active], device, **{k: a[active] for k, a in params.items()})))
-        upper = value > 0  # NaN (no current there) counts as below the root
-        side = last_side[active]
-        # Illinois: the end kept twice in a row has its g halved, so the bracket closes.
-        high[active] = np.where(upper, trial, hi)
-        g_high[active] = np.where(upper, value, np.where(side == -1, 0.5 * g_hi, g_hi))
-        low[active] = np.where(upper, lo, trial)
-        g_low[active] = np.where(upper, np.where(side == 1, 0.5 * g_lo, g_lo), value)
-        last_side[active] = np.where(upper, 1, -1)
-        film[active] = trial
-        tolerance = _FILM_TOLERANCE * bias[active]
-        done = (np.abs(value) <= tolerance) | (high[active] - low[active] <= tolerance)
-        active = active[~done]
+    film = rising_root(excess, np.zeros(bias.size), bias.copy(), -bias, g_high,
+                       _FILM_TOLERANCE * bias, max_steps=_FILM_MAX_STEPS, active=active)
     return film.reshape(shape)
 
 

@@ -18,10 +18,18 @@ temperature dependence. In the Mark-Helfrich law ``mu N_c`` is one product and `
 device description (Gaussian prior) and ``eps_r`` from the device's static permittivity when
 given, otherwise only ``eps_r/N_t`` is determined (a straight ridge in log coordinates).
 
-Trap-filled limit. Lampert's ohmic -> trap-limited -> trap-filled (steep rise) -> trap-free
-sequence has published limits (``V_TFL``, the crossover voltage) but no single closed form
-across the regimes that we could verify, so it is not a hypothesis here; the limits are
-public functions and the log-log slope plot shows the regime (slope 1, 2, > 2).
+* :func:`single_trap_level_current_density_A_per_m2` -- Lampert's single trap level across
+  the trap-limited square law, the trap-filled-limit rise and the trap-free square law
+
+Trap-filled limit. For one discrete trap level in equilibrium with the band, drift only and
+an injecting contact, Lampert's equations (current ``J = e mu n E``, Poisson
+``eps dE/dx = e (n + n_t)``, occupancy ``n_t = N_t n/(n + n_1)``) integrate in closed form
+along the film; :func:`single_trap_level_current_density_A_per_m2` gives the result in the
+collecting-end density and inverts it. It tends to the shallow-trap law ``theta``-times
+Mott-Gurney at low bias, rises at Lampert's ``V_TFL`` (vertically in the deep-trap limit)
+and tends to Mott-Gurney above it; the thermal free carriers (the ohmic regime below both)
+are not in it, so the catalogue pairs it with an ohmic leak
+(:mod:`mechid.catalogue.combinations`).
 """
 
 from __future__ import annotations
@@ -33,11 +41,19 @@ from mechid.catalogue.base import (
     FloatArray,
     Mechanism,
     Parameter,
+    PlotRegime,
     StraightenedPlot,
     iv_magnitudes,
     positive_or_nan,
 )
-from mechid.catalogue.checks import PlotEstimate, QuantityInRange, ThermallyActivated
+from mechid.catalogue.checks import (
+    InterceptNotActivated,
+    PlotEstimate,
+    QuantityInRange,
+    ThermallyActivated,
+    VoltageInsideSweep,
+)
+from mechid.catalogue.roots import rising_root
 from mechid.catalogue.validity import ValidityCondition
 from mechid.constants import BOLTZMANN_EV, ELEMENTARY_CHARGE, VACUUM_PERMITTIVITY
 from mechid.device import Device, Measured
@@ -51,6 +67,10 @@ _PER_CM_TO_PER_M = 1e2
 #: neglect diffusion, which is justified only for biases well above kT/e (common practice;
 #: the factor 10 is our threshold).
 DRIFT_ONLY_MIN_BIAS_KT = 10.0
+
+#: Tolerance on ln V of the single-trap-level root search: 1e-12 keeps ln J exact to
+#: 1e-9 even on the steepest rise seen (d ln J/d ln V of a few hundred).
+_SINGLE_LEVEL_TOLERANCE = 1e-12
 
 
 def mott_gurney_current_density_A_per_m2(
@@ -197,6 +217,136 @@ def ohmic_to_sclc_crossover_voltage_V(
     return 8.0 * ELEMENTARY_CHARGE * n0 * d_m**2 / (9.0 * theta * eps)
 
 
+def _log_tail_integral(order: int, y: FloatArray) -> FloatArray:
+    """``ln P_k(t)`` of ``P_k(t) = int_1^inf ds/(s^k (s + t))`` for k = 2, 3, at ``t = e^-y``.
+
+    Closed forms by partial fractions, written in ``u = 1/t = e^y`` so that a very deep trap
+    (``t`` beyond the floating-point range) neither overflows nor cancels:
+    ``P_2 = u (1 - u ln(1 + 1/u))`` and ``P_3 = (u/2)(1 - 2u + 2u^2 ln(1 + 1/u))``. Below
+    ``t = 0.05`` the series ``sum_m (-t)^m/(k + m)`` (14 terms, error < 1e-18) replaces them.
+    """
+    y = np.asarray(y, dtype=float)
+    out = np.empty_like(y)
+    small = y > -np.log(0.05)
+    ts = np.exp(-y[small])
+    series, power = np.zeros_like(ts), np.ones_like(ts)
+    for m in range(14):
+        series += power / (order + m)
+        power *= -ts
+    out[small] = np.log(series)
+    yl = y[~small]
+    u = np.exp(yl)
+    log_one_plus_t = np.log1p(u) - yl  # ln(1 + 1/u)
+    if order == 2:
+        out[~small] = yl + np.log1p(-u * log_one_plus_t)
+    else:
+        out[~small] = yl - np.log(2.0) + np.log1p(-2.0 * u + 2.0 * u**2 * log_one_plus_t)
+    return out
+
+
+def _single_level_shape(y: FloatArray, log_empty: FloatArray, log_filled: FloatArray
+                        ) -> tuple[FloatArray, FloatArray]:
+    """``(ln(V/V_b), ln G_1)`` at ``y = ln(n_d/b)``, in logarithms throughout.
+
+    ``V/V_b = G_2/(t G_1^2)`` with ``t = b/n_d``, ``G_1 = q/2 + (1-q) P_2(t)`` and
+    ``G_2 = q/3 + (1-q) P_3(t)``; ``log_empty = ln q`` and ``log_filled = ln(1 - q)``.
+    """
+    log_g1 = np.logaddexp(log_empty - np.log(2.0), log_filled + _log_tail_integral(2, y))
+    log_g2 = np.logaddexp(log_empty - np.log(3.0), log_filled + _log_tail_integral(3, y))
+    return log_g2 - 2.0 * log_g1 + y, log_g1
+
+
+def single_trap_level_current_density_A_per_m2(
+    voltage_V: ArrayLike, temperature_K: ArrayLike, thickness_nm: ArrayLike,
+    dielectric_constant: ArrayLike, mobility_cm2_per_Vs: ArrayLike,
+    trap_density_per_cm3: ArrayLike, band_density_per_cm3: ArrayLike, trap_depth_eV: ArrayLike,
+) -> FloatArray:
+    """Space-charge-limited current through a film with one discrete trap level, in A/m^2.
+
+    Parameters
+    ----------
+    voltage_V, temperature_K : array_like
+        Bias (> 0) in V and temperature in K.
+    thickness_nm : array_like
+        Film thickness ``d`` in nm.
+    dielectric_constant : array_like
+        Static relative permittivity ``eps_r``.
+    mobility_cm2_per_Vs : array_like
+        Free-carrier mobility ``mu``.
+    trap_density_per_cm3 : array_like
+        Density ``N_t`` of the trap level.
+    band_density_per_cm3 : array_like
+        Effective density of states ``N_c`` of the transport band.
+    trap_depth_eV : array_like
+        Depth ``E_t`` of the level below the band edge.
+
+    Returns
+    -------
+    ndarray
+        Current density in A/m^2 (NaN where an input is not positive).
+
+    Notes
+    -----
+    Lampert, Phys. Rev. 103, 1648 (1956); Lampert & Mark, *Current Injection in Solids*
+    (1970), ch. 4 (from memory): one carrier, an injecting contact (``E = 0`` at ``x = 0``),
+    drift only, thermal free carriers neglected, and the trap level in equilibrium with the
+    band, ``n_t = N_t n/(n + n_1)`` with ``n_1 = N_c exp(-E_t/kT)``. With ``J = e mu n E``
+    and ``eps dE/dx = e (n + n_t)``, ``dx = -(J eps/(e^2 mu)) g(n) dn/n^3`` where
+    ``g(n) = (n + n_1)/(n + n_1 + N_t)``, so with ``b = n_1 + N_t``, ``q = n_1/b``,
+    ``t = b/n_d`` (``n_d`` the free density at the collecting contact) and
+    ``P_k(t) = int_1^inf ds/(s^k (s+t))`` (our integration):
+
+    .. math::
+
+        d = \\frac{J \\varepsilon}{e^2 \\mu n_d^2} G_1, \\quad
+        V = \\frac{J^2 \\varepsilon}{e^3 \\mu^2 n_d^3} G_2, \\quad
+        G_1 = \\tfrac{q}{2} + (1-q) P_2(t), \\quad G_2 = \\tfrac{q}{3} + (1-q) P_3(t),
+
+    hence ``V = (e d^2 b/eps) G_2/(t G_1^2)`` and ``J = e^2 mu d n_d^2/(eps G_1)``. ``V``
+    rises with ``n_d``; the root is found between the trap-free and the all-traps-empty
+    densities, ``3 eps V q/(4 e d^2) <= n_d <= 3 eps V/(4 e d^2)``, by :func:`rising_root`.
+    Limits checked in the tests: ``N_t = 0`` gives Mott-Gurney exactly; ``n_d << n_1`` gives
+    ``theta = n_1/(n_1 + N_t)`` times Mott-Gurney (Lampert's shallow-trap law); for
+    ``n_1 << n_d << N_t``, ``V = e (N_t + n_1) d^2/(2 eps)``, Lampert's trap-filled-limit
+    voltage, independent of ``J`` (the vertical rise); a direct numerical integration of
+    the same equations agrees.
+    """
+    v, t_k, d_nm, eps_r, mu, n_t, n_c, e_t = np.broadcast_arrays(*(
+        np.asarray(a, dtype=float) for a in (
+            voltage_V, temperature_K, thickness_nm, dielectric_constant, mobility_cm2_per_Vs,
+            trap_density_per_cm3, band_density_per_cm3, trap_depth_eV)))
+    shape = v.shape
+    v, t_k, d_nm, eps_r, mu, n_t, n_c, e_t = (
+        a.ravel() for a in (v, t_k, d_nm, eps_r, mu, n_t, n_c, e_t))
+    d_m = d_nm * _NM_TO_M
+    eps = VACUUM_PERMITTIVITY * eps_r
+    with np.errstate(over="ignore", under="ignore", invalid="ignore", divide="ignore"):
+        # Occupancy in logarithms: n_1 = N_c exp(-E_t/kT) underflows for a deep level when cold.
+        log_n1 = np.log(n_c * _PER_CM3_TO_PER_M3) - e_t / (BOLTZMANN_EV * t_k)
+        log_nt = np.log(n_t * _PER_CM3_TO_PER_M3)
+        log_b = np.logaddexp(log_n1, log_nt)
+        log_empty, log_filled = log_n1 - log_b, log_nt - log_b
+        log_v_over_vb = np.log(v) - (np.log(ELEMENTARY_CHARGE * d_m**2 / eps) + log_b)
+        high = np.log(0.75) + log_v_over_vb + 1e-9
+        low = high + log_empty - 2e-9
+        ok = np.isfinite(high) & np.isfinite(low) & (v > 0) & (mu > 0) & (n_t >= 0)
+
+        def mismatch(y: FloatArray, index: np.ndarray) -> FloatArray:
+            shape_at = _single_level_shape(y, log_empty[index], log_filled[index])[0]
+            return shape_at - log_v_over_vb[index]
+
+        every = np.flatnonzero(ok)
+        f_low, f_high = np.full(v.size, -1.0), np.full(v.size, 1.0)
+        f_low[every], f_high[every] = mismatch(low[every], every), mismatch(high[every], every)
+        y = rising_root(mismatch, low, high, f_low, f_high, _SINGLE_LEVEL_TOLERANCE, active=every)
+        log_g1 = np.full(v.size, np.nan)
+        log_g1[every] = _single_level_shape(y[every], log_empty[every], log_filled[every])[1]
+        log_j = (2.0 * np.log(ELEMENTARY_CHARGE) + np.log(mu * _CM2_TO_M2) + np.log(d_m)
+                 + 2.0 * (log_b + y) - np.log(eps) - log_g1)
+        j = np.where(ok, np.exp(log_j), np.nan)
+    return j.reshape(shape)
+
+
 # --------------------------------------------------------------------------------------
 # Straightened plots
 # --------------------------------------------------------------------------------------
@@ -266,9 +416,69 @@ def _sclc_arrhenius_interpret(
     return out
 
 
+#: Points at the top of each sweep read as the approach to the trap-free square law (our
+#: choice: enough for a line, few enough to stay above a trap-filled-limit rise).
+TOP_OF_SWEEP_POINTS = 5
+
+
+def _top_of_sweep(x: FloatArray, slope: float) -> np.ndarray:
+    """The TOP_OF_SWEEP_POINTS largest biases of one line (x = 1/|V|: the smallest x)."""
+    finite = np.isfinite(x)
+    if np.count_nonzero(finite) <= TOP_OF_SWEEP_POINTS:
+        return finite
+    return finite & (x <= np.sort(x[finite])[TOP_OF_SWEEP_POINTS - 1])
+
+
+def _square_law_approach_transform(
+    voltage_V: FloatArray, temperature_K: FloatArray, current_A: FloatArray, device: Device
+) -> tuple[FloatArray, FloatArray]:
+    """x = 1/|V|, y = ln(|I|/V^2)."""
+    v, i = iv_magnitudes(voltage_V, current_A)
+    v, i, _ = np.broadcast_arrays(v, i, np.asarray(temperature_K, dtype=float))
+    return 1.0 / v, np.log(i / v**2)
+
+
+def _square_law_approach_interpret(
+    slope: float, intercept: float, temperature_K: float, device: Device
+) -> dict[str, float]:
+    """Mobility from the intercept, trap density from the slope (starting values).
+
+    Above the trap-filled limit the filled traps act as a fixed charge; treating the current
+    as Mott-Gurney in ``V - V_TFL`` (an approximation of ours, within about 10 % of the
+    single-level law at twice ``V_TFL``) gives ``ln(I/V^2) ~ ln C - 2 V_TFL/V``: the
+    intercept at ``1/V = 0`` is the trap-free ``C = (9/8) eps mu A/d^3`` and the slope is
+    ``-2 V_TFL``, hence ``N_t = 2 eps V_TFL/(e d^2)``. Needs the thickness, the area and
+    the static permittivity.
+    """
+    out = {"trap_filled_limit_voltage_V": float(-0.5 * np.float64(slope))}
+    thickness = _known(device.thickness_nm)
+    permittivity = _known(device.semiconductor_dielectric_constant)
+    if thickness is None or permittivity is None or device.area_cm2 is None:
+        return out
+    d_m = thickness * _NM_TO_M
+    eps = VACUUM_PERMITTIVITY * permittivity
+    with np.errstate(over="ignore"):
+        per_v2 = np.exp(np.float64(intercept)) / (device.area_cm2 * _CM2_TO_M2)
+    out["mobility_cm2_per_Vs"] = float(per_v2 * d_m**3 / (9.0 / 8.0 * eps) / _CM2_TO_M2)
+    if slope < 0:
+        n_t = 2.0 * eps * out["trap_filled_limit_voltage_V"] / (ELEMENTARY_CHARGE * d_m**2)
+        out["trap_density_per_cm3"] = float(n_t / _PER_CM3_TO_PER_M3)
+    return out
+
+
 SCLC_LOG_LOG_PLOT = _log_log_plot("sclc_log_log_plot", _sclc_log_log_interpret)
 MARK_HELFRICH_LOG_LOG_PLOT = _log_log_plot("mark_helfrich_log_log_plot",
                                            _mark_helfrich_log_log_interpret)
+SQUARE_LAW_APPROACH_PLOT = StraightenedPlot(
+    id="square_law_approach_plot",
+    title="ln(I/V^2) against 1/V at the top of each sweep (approach to the trap-free square law)",
+    x_label="1/|V| [1/V]",
+    y_label="ln(|I|/V^2) [ln(A/V^2)]",
+    grouping="per_temperature",
+    transform=_square_law_approach_transform,
+    interpret=_square_law_approach_interpret,
+    regime=PlotRegime(_top_of_sweep, f"the {TOP_OF_SWEEP_POINTS} largest biases of each sweep"),
+)
 SCLC_ARRHENIUS_PLOT = StraightenedPlot(
     id="sclc_arrhenius_plot",
     title="Arrhenius plot of I/V^2 (shallow-trap space-charge-limited current)",
@@ -466,4 +676,89 @@ SCLC_EXPONENTIAL_TRAPS = Mechanism(
         ThermallyActivated(),
     ),
     validity=(_DRIFT_ONLY, _DEEP_TRAP_TAIL, _TRAPS_NOT_FILLED),
+)
+
+
+def _single_trap_level_current(
+    voltage_V: FloatArray, temperature_K: FloatArray, device: Device, *,
+    trap_depth_eV: FloatArray, band_density_per_cm3: FloatArray,
+    trap_density_per_cm3: FloatArray, mobility_cm2_per_Vs: FloatArray,
+    dielectric_constant: FloatArray, thickness_nm: FloatArray,
+) -> FloatArray:
+    """|I| of Lampert's single-trap-level law x area, in A."""
+    density = single_trap_level_current_density_A_per_m2(
+        voltage_V, temperature_K, thickness_nm, dielectric_constant, mobility_cm2_per_Vs,
+        trap_density_per_cm3, band_density_per_cm3, trap_depth_eV)
+    return density * _CM2_TO_M2 * device.require_area()
+
+
+SCLC_SINGLE_TRAP_LEVEL = Mechanism(
+    id="sclc_single_trap_level",
+    family="space_charge",
+    name="Space-charge-limited current with one trap level (trap-filled-limit rise)",
+    formula=(
+        "J = e^2 mu d n_d^2/(eps G1), V = (e d^2 b/eps) G2/(t G1^2);  b = n_1 + N_t,"
+        "  t = b/n_d, n_1 = N_c exp(-E_t/kT), G1 = q/2 + (1-q) P2(t), G2 = q/3 + (1-q) P3(t),"
+        "  q = n_1/b;  theta x Mott-Gurney below V_TFL = e N_t d^2/(2 eps), Mott-Gurney above;"
+        "  valid for eV/kT >= 10"
+    ),
+    source=(
+        "Lampert, Phys. Rev. 103, 1648 (1956); Lampert & Mark, Current Injection in Solids "
+        "(1970), ch. 4; trap-free limit: Mott & Gurney (1940); closed-form integration ours "
+        "(see single_trap_level_current_density_A_per_m2)"
+    ),
+    parameters=(
+        Parameter(
+            name="trap_depth_eV", unit="eV", symbol="E_t",
+            description="depth of the trap level below the transport band",
+            lower=0.05, upper=1.5, typical=0.4,
+        ),
+        Parameter(
+            name="band_density_per_cm3", unit="cm^-3", symbol="N_c",
+            description="effective density of states of the transport band",
+            lower=1e15, upper=1e23, typical=1e20, log_scale=True,
+        ),
+        Parameter(
+            name="trap_density_per_cm3", unit="cm^-3", symbol="N_t",
+            description="density of the trap level (sets the trap-filled-limit voltage)",
+            lower=1e12, upper=1e21, typical=1e17, log_scale=True,
+        ),
+        Parameter(
+            name="mobility_cm2_per_Vs", unit="cm^2/(V s)", symbol="mu",
+            description="free-carrier mobility",
+            lower=1e-8, upper=1e4, typical=1e-2, log_scale=True,
+        ),
+        Parameter(
+            name="dielectric_constant", unit="1", symbol="eps_r",
+            description="static relative permittivity of the film",
+            lower=1.5, upper=30.0, typical=3.5,
+            device_prior="semiconductor_dielectric_constant", sample_in_log=True,
+        ),
+        _thickness(),
+    ),
+    magnitude=_single_trap_level_current,
+    # Not the Arrhenius plot of I/V^2: across the rise its slope mixes the trap depth with the
+    # trap-free law's zero, so it reads neither (measured: 0.22 eV for a 0.45 eV level).
+    plots=(SCLC_LOG_LOG_PLOT, SQUARE_LAW_APPROACH_PLOT),
+    temperature_dependence=(
+        "activated below the trap-filled limit (theta = n_1/(n_1 + N_t)), nearly "
+        "temperature-independent on the trap-free square law above it"
+    ),
+    estimates=(PlotEstimate("mobility_cm2_per_Vs", "square_law_approach_plot"),
+               PlotEstimate("trap_density_per_cm3", "square_law_approach_plot")),
+    checks=(
+        # Every regime of the law rises at least as the square law; 1.8 allows for noise
+        # [common practice], the upper bound only excludes nonsense.
+        QuantityInRange("sclc_log_log_plot", ("voltage_exponent",), 1.8, 1000.0,
+                        name="at_least_square_law_voltage_exponent"),
+        # Above the trap-filled limit the current tends to the trap-free square law, whose
+        # prefactor holds no Boltzmann factor; 50 meV allows for a sweep that ends on the rise
+        # (our threshold). A sweep that stays below the limit fails it: that is the shallow-trap
+        # law's regime, which sclc_shallow_traps screens.
+        InterceptNotActivated("square_law_approach_plot"),
+        # The sweep must pass the limit for the top to approach the trap-free law; at 1.5 x
+        # V_TFL the approach line is the starting-value approximation of that plot (ours).
+        VoltageInsideSweep("square_law_approach_plot", "trap_filled_limit_voltage_V"),
+    ),
+    validity=(_DRIFT_ONLY,),
 )

@@ -17,6 +17,7 @@ from mechid.catalogue.checks import (
     FieldLoweringDielectric,
     HopEnergyExceedsKT,
     HoppingLaw,
+    InterceptNotActivated,
     NearlyTemperatureIndependent,
     Ohmic,
     PositiveQuantity,
@@ -26,6 +27,7 @@ from mechid.catalogue.checks import (
     StraightPlot,
     ThermallyActivated,
     TunnellingRegime,
+    VoltageInsideSweep,
     ZeroFieldBarrier,
 )
 from mechid.constants import BOLTZMANN_EV
@@ -216,6 +218,34 @@ def temperature_independent_check(spec: NearlyTemperatureIndependent, ctx: Check
                  f"{len(ctx.activation)} biases")
 
 
+def intercept_not_activated_check(spec: InterceptNotActivated, ctx: CheckContext) -> Check:
+    """The per-temperature intercepts of ``spec.plot`` carry no activation energy (OLS)."""
+    name = f"{spec.plot}_intercept_not_activated"
+    expected = f"|apparent E_a of the intercepts| <= {1e3 * spec.max_activation_eV:g} meV"
+    lines = ctx.lines.get(spec.plot, ())
+    if len(lines) < 3:
+        return _unknown(name, expected, "needs lines at >= 3 temperatures")
+    inverse_t = np.array([1.0 / line.group_value for line in lines])
+    slope = float(np.polyfit(inverse_t, [line.intercept for line in lines], 1)[0])
+    energy = -slope * BOLTZMANN_EV
+    return Check(name, abs(energy) <= spec.max_activation_eV, energy, expected,
+                 f"intercepts give an apparent activation energy of {1e3 * energy:.3g} meV "
+                 f"over {len(lines)} temperatures")
+
+
+def voltage_inside_sweep_check(spec: VoltageInsideSweep, ctx: CheckContext) -> Check:
+    """The median of a voltage read from ``spec.plot`` lies in (0, max_share x largest |V|]."""
+    name = f"{spec.quantity}_inside_sweep"
+    values = ctx.quantity(spec.plot, spec.quantity)
+    top = float(np.nanmax(ctx.data.abs_voltage_V)) if ctx.data.abs_voltage_V.size else np.nan
+    expected = f"0 < {spec.quantity} <= {spec.max_share:.2g} x largest |V| ({top:.3g} V)"
+    if values.size == 0 or not np.isfinite(top):
+        return _unknown(name, expected, f"no {spec.plot} line could be drawn")
+    median = float(np.median(values))
+    return Check(name, 0.0 < median <= spec.max_share * top, median, expected,
+                 f"median {median:.3g} V over {values.size} lines")
+
+
 def straight_plot_check(spec: StraightPlot, ctx: CheckContext) -> Check:
     """The plot is straight: median R^2 over its lines >= ``spec.minimum_r_squared`` [CP]."""
     name, expected = f"{spec.plot}_straight", f"median R^2 >= {spec.minimum_r_squared:g}"
@@ -372,6 +402,8 @@ CHECK_RULES: dict[type[CheckSpec], Callable[[Any, CheckContext], Check]] = {
     TunnellingRegime: tunnelling_regime_check,
     PositiveQuantity: positive_quantity_check,
     StraightPlot: straight_plot_check,
+    InterceptNotActivated: intercept_not_activated_check,
+    VoltageInsideSweep: voltage_inside_sweep_check,
     QuantityInRange: quantity_range_check,
     DielectricRange: dielectric_range_check,
     DielectricVsOptical: dielectric_optical_check,
