@@ -20,7 +20,8 @@ Each mechanism is declared once, in the module of its family:
 * :mod:`mechid.catalogue.combinations` -- the composites (two paths in parallel, or a path
   behind a series resistance, built by :mod:`mechid.catalogue.composite`):
   ``poole_frenkel_with_leak``, ``schottky_emission_with_leak``,
-  ``direct_tunnelling_with_leak``, ``fowler_nordheim_series_resistance``
+  ``direct_tunnelling_with_leak``, ``sclc_single_trap_level_with_leak``,
+  ``fowler_nordheim_series_resistance``
 """
 
 from __future__ import annotations
