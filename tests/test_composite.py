@@ -44,6 +44,25 @@ def test_composite_current_is_the_sum_of_the_two_paths():
     np.testing.assert_allclose(rows[1], second, rtol=1e-12)
 
 
+def test_paths_evaluated_once_for_sum_and_window_never_return_a_stale_answer():
+    # The sum and the window condition share one evaluation of the two paths when asked at
+    # the same inputs; an input changed in place (or a new value) must be evaluated afresh.
+    pf, nn, values = _params()
+    v = np.array([2.0, 4.0, 8.0])
+    t = np.array([300.0, 350.0, 400.0])
+    batch = {k: np.array([[x]]) for k, x in values.items()}
+    first = COMPOSITE.magnitude(v, t, DEVICE, **batch)
+    COMPOSITE.window_condition(v, t, DEVICE, **batch)
+    batch["trap_depth_eV"] *= 0.9  # in place
+    v *= 1.5  # in place
+    pf_changed = {**pf, "trap_depth_eV": 0.9 * pf["trap_depth_eV"]}
+    expected = (PF.current(v, t, pf_changed, DEVICE, enforce_validity=False)
+                + NN.current(v, t, nn, DEVICE, enforce_validity=False))
+    again = COMPOSITE.magnitude(v, t, DEVICE, **batch)
+    np.testing.assert_allclose(again[0], expected, rtol=1e-13)
+    assert not np.allclose(again, first)
+
+
 def test_each_paths_validity_is_kept_and_the_leaks_is_renamed():
     leak_ids = {f"leak_{c.id}" for c in NN.validity}
     assert {c.id for c in COMPOSITE.validity} == {c.id for c in PF.validity} | leak_ids

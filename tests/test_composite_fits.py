@@ -17,7 +17,7 @@ import pytest
 import mechid
 from mechid.catalogue import get_mechanism
 from mechid.device import Device, Measured
-from mechid.inference.path_start import part_hints
+from mechid.inference.path_start import part_hints, top_of_sweep
 from mechid.simulate import simulate_series
 
 DEVICE = Device(area_cm2=1e-4, thickness_nm=Measured(30.0, 1.0),
@@ -81,8 +81,31 @@ def test_the_leak_fitted_to_the_excess_over_the_main_fit_lands_near_the_true_lea
 
     composite = get_mechanism("poole_frenkel_with_leak")
     hints = part_hints(composite, mixture.run.fits, QUICK_SEARCH, np.random.default_rng(0))
-    assert len(hints) == 3
+    assert len(hints) == 4
     leak = hints[2].values
     assert leak["leak_activation_energy_eV"] == pytest.approx(0.3, abs=0.05)
     assert leak["leak_prefactor_S"] == pytest.approx(1e-5, rel=1.0)
     assert "excess" in hints[2].sources["leak_prefactor_S"]
+
+
+def test_the_main_path_fitted_to_the_top_of_each_sweep_starts_both_paths_near_the_truth(mixture):
+    # The fourth start: Poole-Frenkel fitted where it leads (the top third of each sweep),
+    # then the leak fitted to the excess over that fit.
+    from mechid.inference.settings import QUICK_SEARCH
+
+    composite = get_mechanism("poole_frenkel_with_leak")
+    start = part_hints(composite, mixture.run.fits, QUICK_SEARCH, np.random.default_rng(0))[3]
+    assert start.values["trap_depth_eV"] == pytest.approx(1.2, abs=0.05)
+    assert start.values["leak_activation_energy_eV"] == pytest.approx(0.3, abs=0.05)
+    assert start.values["leak_prefactor_S"] == pytest.approx(1e-5, rel=1.0)
+    assert "top of each sweep" in start.sources["trap_depth_eV"]
+
+
+def test_top_of_sweep_keeps_the_highest_third_of_each_temperatures_biases():
+    voltage = np.tile(np.r_[-np.arange(1.0, 7.0)[::-1], 0.0, np.arange(1.0, 7.0)], 2)
+    temperature = np.repeat([300.0, 400.0], 13)
+    keep = top_of_sweep(voltage, temperature)
+    # |V| quantile 2/3 of {6..1, 0, 1..6} is 4.0: |V| 4, 5, 6 of both signs, at each T.
+    assert keep.sum() == 12
+    assert set(np.abs(voltage[keep])) == {4.0, 5.0, 6.0}
+    assert not keep[voltage == 0].any()

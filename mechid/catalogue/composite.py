@@ -99,6 +99,36 @@ def _path_condition(condition: ValidityCondition, names: Mapping[str, str],
                    quantity=f"{condition.quantity} [leak path]", evaluate=evaluate)
 
 
+class _LastEvaluation(threading.local):
+    """The last inputs and outputs of a composite's two paths, one record per thread.
+
+    Inputs are compared by value (copies are kept, so a caller that reuses or changes an
+    array in place never gets a stale answer); anything that is not an array (the device)
+    by identity.
+    """
+
+    def __init__(self) -> None:
+        self.key: tuple | None = None
+        self.value: tuple[FloatArray, FloatArray] | None = None
+
+    def lookup(self, key: tuple) -> tuple[FloatArray, FloatArray] | None:
+        if self.key is None or len(key) != len(self.key):
+            return None
+        for kept, new in zip(self.key, key, strict=True):
+            if isinstance(kept, np.ndarray):
+                new = np.asarray(new)
+                if kept.shape != new.shape or not np.array_equal(kept, new, equal_nan=True):
+                    return None
+            elif kept is not new:
+                return None
+        return self.value
+
+    def store(self, key: tuple, value: tuple[FloatArray, FloatArray]) -> None:
+        self.key = tuple(np.array(k, copy=True) if isinstance(k, np.ndarray | float | int)
+                         else k for k in key)
+        self.value = value
+
+
 def parallel_paths(main: Mechanism, leak: Mechanism, *, id: str, name: str) -> Mechanism:
     """Declare the composite of two paths in parallel, ``I = I_main + I_leak``.
 
@@ -128,25 +158,36 @@ def parallel_paths(main: Mechanism, leak: Mechanism, *, id: str, name: str) -> M
     if len({p.name for p in parameters}) != len(parameters):
         raise ValueError(f"{id}: parameter names collide after renaming the leak's")
     main_names = main.parameter_names
+    last = _LastEvaluation()
+
+    def both_paths(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,
+                   values: Mapping[str, FloatArray]) -> tuple[FloatArray, FloatArray]:
+        # The likelihood asks for the sum, then for the window condition at the same point
+        # (the same inputs): the paths are evaluated once for both.
+        key = (voltage_V, temperature_K, device, *(values[k] for k in sorted(values)))
+        found = last.lookup(key)
+        if found is not None:
+            return found
+        own_main = {k: values[k] for k in main_names}
+        own_leak = {own: values[new] for own, new in names.items()}
+        currents = (main.current(voltage_V, temperature_K, own_main, device,
+                                 enforce_validity=False),
+                    leak.current(voltage_V, temperature_K, own_leak, device,
+                                 enforce_validity=False))
+        last.store(key, currents)
+        return currents
 
     def magnitude(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,
                   **values: FloatArray) -> FloatArray:
-        own_main = {k: values[k] for k in main_names}
-        own_leak = {own: values[new] for own, new in names.items()}
         # The composite's own validity covers both paths' conditions (declared below).
-        return (main.current(voltage_V, temperature_K, own_main, device, enforce_validity=False)
-                + leak.current(voltage_V, temperature_K, own_leak, device,
-                               enforce_validity=False))
+        main_current, leak_current = both_paths(voltage_V, temperature_K, device, values)
+        return main_current + leak_current
 
     def each_path_leads_somewhere(voltage_V: FloatArray, temperature_K: FloatArray,
                                   device: Device, **values: FloatArray) -> np.ndarray:
-        own_main = {k: values[k] for k in main_names}
-        own_leak = {own: values[new] for own, new in names.items()}
         with np.errstate(invalid="ignore", over="ignore", divide="ignore"):
-            main_current = np.abs(main.current(voltage_V, temperature_K, own_main, device,
-                                               enforce_validity=False))
-            leak_current = np.abs(leak.current(voltage_V, temperature_K, own_leak, device,
-                                               enforce_validity=False))
+            main_current, leak_current = (np.abs(c) for c in both_paths(
+                voltage_V, temperature_K, device, values))
         main_leads = np.atleast_2d(main_current > leak_current)
         leak_leads = np.atleast_2d(leak_current > main_current)
         return main_leads.any(axis=-1) & leak_leads.any(axis=-1)

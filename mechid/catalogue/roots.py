@@ -51,28 +51,29 @@ def rising_root(func: RisingFunction, low: FloatArray, high: FloatArray, f_low: 
     ndarray
         The last trial of each solved entry (``high`` where nothing was solved).
     """
-    low, high = low.astype(float), high.astype(float)
-    f_low, f_high = f_low.astype(float), f_high.astype(float)
-    tol = np.broadcast_to(np.asarray(tolerance, dtype=float), low.shape)
-    root = high.copy()
-    last_side = np.zeros(low.size, dtype=np.int8)  # +1: the upper end moved last, -1: lower
-    active = np.arange(low.size) if active is None else np.asarray(active)
+    tol_all = np.broadcast_to(np.asarray(tolerance, dtype=float), low.shape)
+    root = np.array(high, dtype=float)
+    index = np.arange(low.size) if active is None else np.asarray(active)
+    # Work on compact copies of the open entries only; a finished entry leaves them.
+    lo, hi = low[index].astype(float), high[index].astype(float)
+    g_lo, g_hi = f_low[index].astype(float), f_high[index].astype(float)
+    tol = tol_all[index]
+    side = np.zeros(index.size, dtype=np.int8)  # +1: the upper end moved last, -1: the lower
     for _ in range(max_steps):
-        if active.size == 0:
+        if index.size == 0:
             break
-        lo, hi, g_lo, g_hi = low[active], high[active], f_low[active], f_high[active]
         with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
             trial = hi - g_hi * (hi - lo) / (g_hi - g_lo)
         trial = np.where(np.isfinite(trial) & (trial > lo) & (trial < hi), trial, 0.5 * (lo + hi))
-        value = func(trial, active)
+        value = func(trial, index)
         upper = value > 0  # NaN counts as below the root
-        side = last_side[active]
-        high[active] = np.where(upper, trial, hi)
-        f_high[active] = np.where(upper, value, np.where(side == -1, 0.5 * g_hi, g_hi))
-        low[active] = np.where(upper, lo, trial)
-        f_low[active] = np.where(upper, np.where(side == 1, 0.5 * g_lo, g_lo), value)
-        last_side[active] = np.where(upper, 1, -1)
-        root[active] = trial
-        done = (np.abs(value) <= tol[active]) | (high[active] - low[active] <= tol[active])
-        active = active[~done]
+        g_hi = np.where(upper, value, np.where(side == -1, 0.5 * g_hi, g_hi))
+        g_lo = np.where(upper, np.where(side == 1, 0.5 * g_lo, g_lo), value)
+        hi, lo = np.where(upper, trial, hi), np.where(upper, lo, trial)
+        side = np.where(upper, 1, -1).astype(np.int8)
+        root[index] = trial
+        open_ = ~((np.abs(value) <= tol) | (hi - lo <= tol))  # a NaN value stays open
+        if not open_.all():
+            index, lo, hi, g_lo, g_hi, tol, side = (
+                a[open_] for a in (index, lo, hi, g_lo, g_hi, tol, side))
     return root

@@ -217,31 +217,35 @@ def ohmic_to_sclc_crossover_voltage_V(
     return 8.0 * ELEMENTARY_CHARGE * n0 * d_m**2 / (9.0 * theta * eps)
 
 
-def _log_tail_integral(order: int, y: FloatArray) -> FloatArray:
-    """``ln P_k(t)`` of ``P_k(t) = int_1^inf ds/(s^k (s + t))`` for k = 2, 3, at ``t = e^-y``.
+#: Terms of the small-``t`` series of :func:`_log_tail_integrals` (error < 0.05**14 < 1e-18).
+_TAIL_SERIES_TERMS = 14
+#: Its coefficients ``1/(k + m)`` for k = 2 (first column) and k = 3 (second).
+_TAIL_SERIES_COEFFICIENTS = 1.0 / (np.arange(_TAIL_SERIES_TERMS)[:, None] + np.array([2.0, 3.0]))
+
+
+def _log_tail_integrals(y: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """``(ln P_2(t), ln P_3(t))`` of ``P_k(t) = int_1^inf ds/(s^k (s + t))``, at ``t = e^-y``.
 
     Closed forms by partial fractions, written in ``u = 1/t = e^y`` so that a very deep trap
     (``t`` beyond the floating-point range) neither overflows nor cancels:
     ``P_2 = u (1 - u ln(1 + 1/u))`` and ``P_3 = (u/2)(1 - 2u + 2u^2 ln(1 + 1/u))``. Below
-    ``t = 0.05`` the series ``sum_m (-t)^m/(k + m)`` (14 terms, error < 1e-18) replaces them.
+    ``t = 0.05``, where those forms lose digits to cancellation, the series
+    ``sum_m (-t)^m/(k + m)`` replaces them (all its terms in one matrix product, since this
+    runs at every step of the root search).
     """
     y = np.asarray(y, dtype=float)
-    out = np.empty_like(y)
+    log_p2, log_p3 = np.empty_like(y), np.empty_like(y)
     small = y > -np.log(0.05)
-    ts = np.exp(-y[small])
-    series, power = np.zeros_like(ts), np.ones_like(ts)
-    for m in range(14):
-        series += power / (order + m)
-        power *= -ts
-    out[small] = np.log(series)
+    powers = np.empty((_TAIL_SERIES_TERMS, int(small.sum())))
+    powers[0], powers[1:] = 1.0, -np.exp(-y[small])
+    np.cumprod(powers, axis=0, out=powers)  # row m: (-t)^m
+    log_p2[small], log_p3[small] = np.log(_TAIL_SERIES_COEFFICIENTS.T @ powers)
     yl = y[~small]
     u = np.exp(yl)
     log_one_plus_t = np.log1p(u) - yl  # ln(1 + 1/u)
-    if order == 2:
-        out[~small] = yl + np.log1p(-u * log_one_plus_t)
-    else:
-        out[~small] = yl - np.log(2.0) + np.log1p(-2.0 * u + 2.0 * u**2 * log_one_plus_t)
-    return out
+    log_p2[~small] = yl + np.log1p(-u * log_one_plus_t)
+    log_p3[~small] = yl - np.log(2.0) + np.log1p(-2.0 * u + 2.0 * u**2 * log_one_plus_t)
+    return log_p2, log_p3
 
 
 def _single_level_shape(y: FloatArray, log_empty: FloatArray, log_filled: FloatArray
@@ -251,8 +255,9 @@ def _single_level_shape(y: FloatArray, log_empty: FloatArray, log_filled: FloatA
     ``V/V_b = G_2/(t G_1^2)`` with ``t = b/n_d``, ``G_1 = q/2 + (1-q) P_2(t)`` and
     ``G_2 = q/3 + (1-q) P_3(t)``; ``log_empty = ln q`` and ``log_filled = ln(1 - q)``.
     """
-    log_g1 = np.logaddexp(log_empty - np.log(2.0), log_filled + _log_tail_integral(2, y))
-    log_g2 = np.logaddexp(log_empty - np.log(3.0), log_filled + _log_tail_integral(3, y))
+    log_p2, log_p3 = _log_tail_integrals(y)
+    log_g1 = np.logaddexp(log_empty - np.log(2.0), log_filled + log_p2)
+    log_g2 = np.logaddexp(log_empty - np.log(3.0), log_filled + log_p3)
     return log_g2 - 2.0 * log_g1 + y, log_g1
 
 
