@@ -26,7 +26,17 @@ Mixture kinds (the true law is the composite named, simulated with the catalogue
   (``fowler_nordheim_series_resistance``) on the Fowler-Nordheim scenario: the resistor takes
   a fraction ``q`` of the top bias at the hottest temperature, ``q`` uniform on [2 %, 15 %];
   a truth needing less than 1 ohm (the scenario's log-uniform barrier reaches 1 eV, where the
-  top current is amperes) is drawn again: leads and probes alone exceed that.
+  top current is amperes) is drawn again: leads and probes alone exceed that; so is one above
+  the resistance's declared range (1e12 ohm: a barrier so high that the top current is
+  sub-picoampere; before this rule such a draw made the simulation refuse the case).
+
+Edge kind (not in the default list; ``--kinds pf_leak_edge``): ``pf_leak_edge`` -- the same
+mixture with the leak at the edge of visibility: its largest ratio to the Poole-Frenkel current
+over the grid, ``r``, log-uniform on [0.3, 3], activation energy uniform on [0.05, 0.4] eV.
+Where ``r < 1`` the leak never leads, the truth lies outside the composite's window condition
+and the right answer is Poole-Frenkel alone; where ``r > 1`` it is the composite. The
+analysis should tie near ``r = 1``; the study reports which law led, ln B, and the coverage of
+the law it scores as right.
 
 Truths of the main path's parameters are drawn as in ``calibration.py`` (device priors for
 device quantities, +-15 % or +-0.5 decade about the scenario's value otherwise). A draw whose
@@ -81,6 +91,8 @@ KINDS = {
     "fn_series": ("fowler_nordheim_series_resistance", "fowler_nordheim"),
     "sclc_tfl_leak": ("sclc_single_trap_level_with_leak", "sclc_single_trap_level"),
 }
+#: Kinds run only when named: kind -> (composite id, main path id).
+EDGE_KINDS = {"pf_leak_edge": ("poole_frenkel_with_leak", "poole_frenkel")}
 #: Single-path laws whose data measure the false-composite rate.
 SINGLES = ("poole_frenkel", "schottky_emission", "direct_tunnelling", "fowler_nordheim",
            "ohmic_activated", "sclc_single_trap_level")
@@ -101,6 +113,7 @@ class Case:
     true_adequate: bool | None
     seconds: float
     error: str | None = None
+    note: str = ""
 
 
 def _grid(scenario: Mapping[str, Any]) -> tuple[np.ndarray, np.ndarray]:
@@ -148,14 +161,18 @@ def _rise_is_swept(truth: Mapping[str, float], scenario: Mapping[str, Any]) -> b
     return 1.5 * v.min() <= limit <= v.max() / 1.5
 
 
+def _setting(composite_id: str, main_id: str) -> tuple[Mechanism, Mechanism, Mapping[str, Any],
+                                                      Device, np.ndarray, np.ndarray]:
+    """The composite, its main path, the main path's scenario, device and (V, T) grid."""
+    scenario = SCENARIOS[main_id]
+    return (get_mechanism(composite_id), get_mechanism(main_id), scenario,
+            scenario_device(scenario), *_grid(scenario))
+
+
 def draw_mixture(kind: str, rng: np.random.Generator) -> tuple[Mechanism, dict[str, float],
                                                                Mapping[str, Any], Device]:
     """A composite truth whose parts are each seen on the grid (redrawn until they are)."""
-    composite_id, main_id = KINDS[kind]
-    composite, main = get_mechanism(composite_id), get_mechanism(main_id)
-    scenario = SCENARIOS[main_id]
-    device = scenario_device(scenario)
-    v, t = _grid(scenario)
+    composite, main, scenario, device, v, t = _setting(*KINDS[kind])
     for _ in range(200):
         truth = draw_truth(main, scenario, device, rng)
         extra = (_series_truth(main, truth, scenario, device, rng) if kind == "fn_series"
@@ -163,7 +180,9 @@ def draw_mixture(kind: str, rng: np.random.Generator) -> tuple[Mechanism, dict[s
         truth = {**truth, **extra}
         values = {k: np.array([[truth[k]]]) for k in composite.parameter_names}
         current = composite.current(v, t, truth, device)
-        if kind == "fn_series" and truth[SERIES_RESISTANCE] < 1.0:
+        if kind == "fn_series" and not (
+                max(1.0, composite.parameter(SERIES_RESISTANCE).lower)
+                <= truth[SERIES_RESISTANCE] <= composite.parameter(SERIES_RESISTANCE).upper):
             continue
         if kind == "sclc_tfl_leak" and not _rise_is_swept(truth, scenario):
             continue
@@ -171,6 +190,32 @@ def draw_mixture(kind: str, rng: np.random.Generator) -> tuple[Mechanism, dict[s
                 composite.window_condition(np.abs(v), t, device, **values)[0]):
             return composite, truth, scenario, device
     raise RuntimeError(f"{kind}: no truth with both parts seen in 200 draws")
+
+
+def draw_edge(kind: str, rng: np.random.Generator) -> tuple[Mechanism, dict[str, float],
+                                                             Mapping[str, Any], Device, str,
+                                                             str]:
+    """A mixture whose leak is at the edge of visibility (see the module), the law that is
+    right for it (the composite where the leak leads somewhere, else the main path) and a note
+    with the leak's largest ratio to the main path."""
+    composite, main, scenario, device, v, t = _setting(*EDGE_KINDS[kind])
+    for _ in range(200):
+        truth = draw_truth(main, scenario, device, rng)
+        energy = rng.uniform(0.05, 0.4)
+        ratio = 10 ** rng.uniform(np.log10(0.3), np.log10(3.0))
+        with np.errstate(invalid="ignore", divide="ignore"):
+            unit = np.abs(LEAK.current(v, t, {"activation_energy_eV": energy,
+                                              "prefactor_S": 1.0}, device))
+            largest = np.nanmax(unit / np.abs(main.current(v, t, truth, device)))
+        truth = {**truth, "leak_activation_energy_eV": energy,
+                 "leak_prefactor_S": ratio / largest}
+        values = {k: np.array([[truth[k]]]) for k in composite.parameter_names}
+        if not np.all(np.isfinite(composite.current(v, t, truth, device))):
+            continue
+        leads = bool(composite.window_condition(np.abs(v), t, device, **values)[0])
+        return (composite, truth, scenario, device, composite.id if leads else main.id,
+                f"leak/main largest {ratio:.2f}")
+    raise RuntimeError(f"{kind}: no truth inside the formulas' validity in 200 draws")
 
 
 def draw_single(mechanism_id: str, rng: np.random.Generator
@@ -202,7 +247,10 @@ def run_case(index: int, kind: str, draw: Callable[[np.random.Generator], tuple]
              rng: np.random.Generator, quick: bool) -> Case:
     """Simulate one series, analyse it with the whole catalogue and score the true law."""
     truth_rng, noise_rng = rng.spawn(2)
-    mechanism, truth, scenario, device = draw(truth_rng)
+    drawn = draw(truth_rng)
+    mechanism, truth, scenario, device = drawn[:4]
+    scored = get_mechanism(drawn[4]) if len(drawn) > 4 else mechanism
+    note = drawn[5] if len(drawn) > 5 else ""
     seed = int(rng.integers(2**31))
     started = time.perf_counter()
     try:
@@ -216,18 +264,23 @@ def run_case(index: int, kind: str, draw: Callable[[np.random.Generator], tuple]
             warnings.simplefilter("ignore")
             analysis = mechid.analyse(data, device=device, quick=quick, seed=seed)
     except Exception as exc:  # noqa: BLE001 (a failure is an outcome of the study)
-        return Case(index, kind, mechanism.id, truth, "-", float("nan"), {}, None,
-                    time.perf_counter() - started, f"{type(exc).__name__}: {exc}")
+        return Case(index, kind, scored.id, truth, "-", float("nan"), {}, None,
+                    time.perf_counter() - started, f"{type(exc).__name__}: {exc}", note)
     ranked = analysis.result.mechanisms
     by_id = {r.id: r for r in ranked}
-    true = by_id.get(mechanism.id)
-    others = [r.log_evidence for r in ranked if r.id != mechanism.id]
+    true = by_id.get(scored.id)
+    others = [r.log_evidence for r in ranked if r.id != scored.id]
     ln_b = (float("nan") if true is None
             else true.log_evidence - (max(others) if others else -np.inf))
-    return Case(index, kind, mechanism.id, truth, ranked[0].id if ranked else "-", ln_b,
+    if scored is not mechanism or note:
+        main_id = mechanism.options.get("paths", (mechanism.id,))[0]
+        pair = [by_id.get(i) for i in (mechanism.id, main_id)]
+        note += ("; lnB(composite:main) " + (f"{pair[0].log_evidence - pair[1].log_evidence:+.1f}"
+                                             if None not in pair else "n/a (one not sampled)"))
+    return Case(index, kind, scored.id, truth, ranked[0].id if ranked else "-", ln_b,
                 {} if true is None else _covered(true.draws, truth),
                 None if true is None else bool(true.fit_adequate),
-                time.perf_counter() - started)
+                time.perf_counter() - started, note=note)
 
 
 def _line(case: Case) -> str:
@@ -237,6 +290,7 @@ def _line(case: Case) -> str:
     return (f"{case.index:3d} {case.kind:14s} {status} | lnB(true:best other)="
             f"{case.ln_b_true_over_best_other:+.1f} | adequate={case.true_adequate} | "
             f"covered95 {cover or '-'} | {case.seconds:.0f} s | truth {truth}"
+            + (f" | {case.note}" if case.note else "")
             + (f" | ERROR {case.error}" if case.error else ""))
 
 
@@ -251,8 +305,19 @@ def summary(cases: list[Case]) -> list[str]:
         errors = sum(c.error is not None for c in these)
         lines.append(f"{kind}: ranked first {correct}/{len(these)}; 95 % coverage "
                      f"{sum(hits)}/{len(hits)} intervals; failed {errors}")
-    mixtures = [c for c in cases if c.true_id in composites]
-    singles = [c for c in cases if c.true_id not in composites]
+    mixtures = [c for c in cases if c.kind in KINDS]
+    singles = [c for c in cases if c.kind == "single"]
+    for kind in EDGE_KINDS:
+        these = [c for c in cases if c.kind == kind]
+        for label, group in (("leak never leads (main path right)",
+                              [c for c in these if c.true_id not in composites]),
+                             ("leak leads somewhere (composite right)",
+                              [c for c in these if c.true_id in composites])):
+            if group:
+                hits = [flag for c in group for flag in c.covered.values()]
+                lines.append(f"{kind}, {label}: right law first "
+                             f"{sum(c.leader == c.true_id for c in group)}/{len(group)}; "
+                             f"95 % coverage {sum(hits)}/{len(hits)}")
     if mixtures:
         hits = [flag for c in mixtures for flag in c.covered.values()]
         lines.append(f"mixtures: ranked first {sum(c.leader == c.true_id for c in mixtures)}/"
@@ -270,7 +335,8 @@ def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--cases", type=int, default=40, help="mixture cases (kinds in turn)")
     parser.add_argument("--singles", type=int, default=20, help="single-path cases (in turn)")
-    parser.add_argument("--kinds", nargs="*", default=list(KINDS), choices=list(KINDS))
+    parser.add_argument("--kinds", nargs="*", default=list(KINDS),
+                        choices=[*KINDS, *EDGE_KINDS])
     parser.add_argument("--seed", type=int, default=2026)
     parser.add_argument("--full", action="store_true", help="full settings (default quick)")
     args = parser.parse_args()
@@ -280,7 +346,10 @@ def main() -> None:
     plan += [(args.cases + k, SINGLES[k % len(SINGLES)], "single") for k in range(args.singles)]
     for index, what, family in plan:
         case_rng = rng.spawn(1)[0]
-        if family == "mixture":
+        if what in EDGE_KINDS:
+            case = run_case(index, what, lambda r, w=what: draw_edge(w, r), case_rng,
+                            not args.full)
+        elif family == "mixture":
             case = run_case(index, what, lambda r, w=what: draw_mixture(w, r), case_rng,
                             not args.full)
         else:

@@ -11,6 +11,9 @@ Each mechanism is declared once, in the module of its family:
   ``mott_vrh_2d``, ``es_vrh``
 * :mod:`mechid.catalogue.diode` -- ``schottky_diode``, ``inhomogeneous_schottky_diode``,
   ``lateral_2d_schottky_diode`` (rectifying contacts, signed formulas)
+* :mod:`mechid.catalogue.thermionic_field` -- ``thermionic_field_diode`` (Padovani & Stratton's
+  tunnelling through the barrier top; declared and tested, not registered: its Boltzmann
+  statistics leave the thermionic-field regime outside its validity domain, see that module)
 * :mod:`mechid.catalogue.ohmic` -- ``ohmic_activated``
 * :mod:`mechid.catalogue.space_charge` -- ``sclc_shallow_traps``, ``sclc_exponential_traps``,
   ``sclc_single_trap_level`` (Lampert's trap-filled-limit rise)

@@ -28,7 +28,8 @@ def rising_root(func: RisingFunction, low: FloatArray, high: FloatArray, f_low: 
     every root bracketed, halves the function value of an end kept twice in a row so the
     bracket closes, and falls back to bisection where the secant step leaves the bracket.
     A NaN function value counts as below the root. An entry stops when ``|f| <= tolerance``
-    or its bracket is that narrow; only the entries still open are evaluated at each step.
+    (at a bracket end already, or at a trial) or its bracket is that narrow; only the entries
+    still open are evaluated at each step.
 
     Parameters
     ----------
@@ -58,6 +59,12 @@ def rising_root(func: RisingFunction, low: FloatArray, high: FloatArray, f_low: 
     lo, hi = low[index].astype(float), high[index].astype(float)
     g_lo, g_hi = f_low[index].astype(float), f_high[index].astype(float)
     tol = tol_all[index]
+    # An end that already meets the tolerance is the root (a secant step from it would not
+    # move, and bisection would only creep towards it).
+    at_high, at_low = np.abs(g_hi) <= tol, np.abs(g_lo) <= tol
+    root[index] = np.where(at_high, hi, np.where(at_low, lo, root[index]))
+    keep = ~(at_high | at_low)
+    index, lo, hi, g_lo, g_hi, tol = (a[keep] for a in (index, lo, hi, g_lo, g_hi, tol))
     side = np.zeros(index.size, dtype=np.int8)  # +1: the upper end moved last, -1: the lower
     for _ in range(max_steps):
         if index.size == 0:

@@ -36,6 +36,7 @@ from mechid.catalogue.base import Mechanism, ParameterHints
 from mechid.catalogue.composite import leak_parameter_names
 from mechid.inference.fit import MechanismFit
 from mechid.inference.likelihood import MechanismTarget
+from mechid.inference.nesting import best_found
 from mechid.inference.nesting import best_values as best_values_with_noise
 from mechid.inference.priors import mechanism_priors
 from mechid.inference.settings import SearchSettings
@@ -168,3 +169,27 @@ def part_hints(mechanism: Mechanism, fits: Mapping[str, MechanismFit],
                 {**top_sources, **{name: f"{parts[1]} fitted to the excess over "
                                    f"{parts[0]} at the top of each sweep" for name in top_leak}}))
     return tuple(hints)
+
+
+def main_path_restart(composite_fit: MechanismFit, main_fit: MechanismFit,
+                      search: SearchSettings, rng: np.random.Generator,
+                      margin: float) -> ParameterHints | None:
+    """Starting values for fitting a composite's main path again, or None when not needed.
+
+    The reverse of :func:`part_hints`: where a parallel composite's evidence beats its main
+    path's alone, the main path's own search may have stalled where the composite's did not
+    (a leak then patches a misfit the single law would not have had; seen on simulated
+    single-trap-level data, the single law's search ending 550 nats below its truth and the
+    composite leading). A mode search of the main path started from the composite's main-path
+    values decides: if it beats everything the main path's fit reached by more than
+    ``margin`` nats, those values are returned to fit it again; otherwise None.
+    """
+    main = main_fit.target.mechanism
+    values = {name: value for name, value in best_values(composite_fit).items()
+              if name in main.parameter_names}
+    start = ParameterHints(main.id, values, {name: f"best fit of {composite_fit.result.id}"
+                                             for name in values})
+    mode = find_modes(main_fit.target, rng, start, search=search)[0]
+    if not np.isfinite(mode.log_posterior) or mode.log_posterior <= best_found(main_fit) + margin:
+        return None
+    return start

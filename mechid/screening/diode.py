@@ -54,7 +54,8 @@ from numpy.lib.stride_tricks import sliding_window_view
 from scipy import optimize
 
 from mechid.catalogue.base import FloatArray
-from mechid.constants import BOLTZMANN_EV, ELECTRON_MASS, HBAR, VACUUM_PERMITTIVITY
+from mechid.catalogue.thermionic_field import characteristic_tunnelling_energy_eV
+from mechid.constants import BOLTZMANN_EV
 from mechid.device import Device
 from mechid.screening.biases import MIN_TEMPERATURES, PreparedSeries
 from mechid.screening.lines import robust_line
@@ -552,14 +553,10 @@ def ideality_thermionic_field(characteristic_energy_eV: float | FloatArray,
 
 def characteristic_energy_from_doping_eV(doping_cm3: float, dielectric_constant: float,
                                          effective_mass_ratio: float) -> float:
-    """E00 = (e hbar/2) sqrt(N_D/(m* eps_s)) in eV (Padovani & Stratton 1966).
-
-    With N_D in m^-3, m* = m_r m0 and eps_s = eps_r eps0 in SI units, hbar/2 sqrt(N/(m eps))
-    is E00 in eV (the factor e cancels the conversion J -> eV).
-    """
-    doping_m3 = doping_cm3 * 1e6
-    return 0.5 * HBAR * math.sqrt(doping_m3 / (effective_mass_ratio * ELECTRON_MASS
-                                               * dielectric_constant * VACUUM_PERMITTIVITY))
+    """E00 = (e hbar/2) sqrt(N_D/(m* eps_s)) in eV (Padovani & Stratton 1966), see
+    :func:`mechid.catalogue.thermionic_field.characteristic_tunnelling_energy_eV`."""
+    return float(characteristic_tunnelling_energy_eV(doping_cm3, dielectric_constant,
+                                                     effective_mass_ratio))
 
 
 def _doping_energy(device: Device) -> dict[str, float] | str:
