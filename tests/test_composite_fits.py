@@ -109,3 +109,21 @@ def test_top_of_sweep_keeps_the_highest_third_of_each_temperatures_biases():
     assert keep.sum() == 12
     assert set(np.abs(voltage[keep])) == {4.0, 5.0, 6.0}
     assert not keep[voltage == 0].any()
+
+
+def test_main_path_restart_starts_from_the_composites_main_values_only_when_it_pays(mixture):
+    # The reverse hand-off: the main path is searched again from the composite's main-path
+    # values; its start is returned only if that search beats the main fit by the margin.
+    from mechid.inference.path_start import best_values, main_path_restart
+    from mechid.inference.settings import QUICK_SEARCH
+
+    fits = mixture.run.fits
+    composite, main = fits["poole_frenkel_with_leak"], fits["poole_frenkel"]
+    never = main_path_restart(composite, main, QUICK_SEARCH, np.random.default_rng(0), 1e9)
+    assert never is None
+    start = main_path_restart(composite, main, QUICK_SEARCH, np.random.default_rng(0), -1e9)
+    assert start is not None and start.mechanism_id == "poole_frenkel"
+    expected = {k: v for k, v in best_values(composite).items()
+                if k in get_mechanism("poole_frenkel").parameter_names}
+    assert start.values == expected
+    assert set(start.sources.values()) == {"best fit of poole_frenkel_with_leak"}
