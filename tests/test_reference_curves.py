@@ -57,9 +57,12 @@ def test_reference_series_regenerates_from_its_manifest(folder):
     # Currents were written with 17 significant digits on the machine that generated them. On
     # another processor NumPy's vectorised exp/log/power may round the last bit differently, and
     # the formulas amplify a one-ulp difference in an exponent by the exponent's size (up to
-    # ~50 here), so ~1e-14 is possible; rtol 1e-12 keeps a margin of 100 while any change of a
-    # formula, a true value or the noise stream (differences >= 1e-6) still fails.
-    np.testing.assert_allclose(series.current_A, sim.current_A[order], rtol=1e-12, atol=0.0)
+    # ~50 here), so ~1e-14 is possible. An implicit law (a root search per point) is defined
+    # only to its search's tolerance: 1e-12 in ln V times d ln J/d ln V (a few hundred on a
+    # trap-filled rise) gives up to ~1e-10, and a change of the search's steps moves it within
+    # that. rtol 1e-9 keeps a margin of 10 there while any change of a formula, a true value
+    # or the noise stream (differences >= 1e-6) still fails.
+    np.testing.assert_allclose(series.current_A, sim.current_A[order], rtol=1e-9, atol=0.0)
 
 
 @pytest.mark.parametrize("folder", [_screened(f) for f in FOLDERS])

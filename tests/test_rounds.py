@@ -10,7 +10,7 @@ from mechid.catalogue import MECHANISMS, get_mechanism
 from mechid.catalogue.base import Mechanism
 from mechid.device import Device, device_from_values
 from mechid.errors import MechidWarning
-from mechid.inference.rounds import FitJob, fit_in_rounds
+from mechid.inference.rounds import FitJob, _SharedInputs, expected_cost, fit_in_rounds
 from mechid.inference.settings import QUICK_LADDER, QUICK_SEARCH, LadderSettings, SearchSettings
 from mechid.simulate import simulate_series
 
@@ -69,6 +69,16 @@ def test_worker_processes_give_the_numbers_of_the_in_process_rounds(small_series
     expected = {f"fitting {i}" for i in results[1]}
     assert labels[1] == expected and labels[2] == expected
 
+
+def test_an_implicit_law_is_expected_to_cost_more_than_an_explicit_one(small_series):
+    # Only the order of submission to the workers reads this figure (longest first); the
+    # numbers do not depend on it (test above, whose mechanisms it reorders).
+    sim, device = small_series
+    shared = _SharedInputs(sim.voltage_V, sim.temperature_K, sim.current_A, device,
+                           TINY_LADDER, TINY_SEARCH)
+    implicit = expected_cost("sclc_single_trap_level_with_leak", shared)
+    explicit = expected_cost("ohmic_activated", shared)
+    assert 0 < 5 * explicit < implicit  # measured ~50 x apart; timing noise cannot flip it
 
 
 def test_a_sampler_that_cannot_start_lists_the_mechanism_as_not_fitted(monkeypatch):

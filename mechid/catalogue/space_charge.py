@@ -53,7 +53,7 @@ from mechid.catalogue.checks import (
     ThermallyActivated,
     VoltageInsideSweep,
 )
-from mechid.catalogue.roots import rising_root
+from mechid.catalogue.roots import rising_root_with_slope
 from mechid.catalogue.validity import ValidityCondition
 from mechid.constants import BOLTZMANN_EV, ELEMENTARY_CHARGE, VACUUM_PERMITTIVITY
 from mechid.device import Device, Measured
@@ -219,12 +219,17 @@ def ohmic_to_sclc_crossover_voltage_V(
 
 #: Terms of the small-``t`` series of :func:`_log_tail_integrals` (error < 0.05**14 < 1e-18).
 _TAIL_SERIES_TERMS = 14
-#: Its coefficients ``1/(k + m)`` for k = 2 (first column) and k = 3 (second).
-_TAIL_SERIES_COEFFICIENTS = 1.0 / (np.arange(_TAIL_SERIES_TERMS)[:, None] + np.array([2.0, 3.0]))
+#: Its coefficients ``1/(k + m)`` for k = 2 and 3 (columns 0 and 1), and those of the
+#: series of ``t R_k`` (columns 2 and 3), ``-m/(k + m)``.
+_TAIL_SERIES_COEFFICIENTS = np.hstack([
+    1.0 / (np.arange(_TAIL_SERIES_TERMS)[:, None] + np.array([2.0, 3.0])),
+    -np.arange(_TAIL_SERIES_TERMS)[:, None]
+    / (np.arange(_TAIL_SERIES_TERMS)[:, None] + np.array([2.0, 3.0]))])
 
 
-def _log_tail_integrals(y: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """``(ln P_2(t), ln P_3(t))`` of ``P_k(t) = int_1^inf ds/(s^k (s + t))``, at ``t = e^-y``.
+def _log_tail_integrals(y: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray, FloatArray]:
+    """``ln P_2``, ``ln P_3`` and their slopes in ``y``, where
+    ``P_k(t) = int_1^inf ds/(s^k (s + t))`` at ``t = e^-y``.
 
     Closed forms by partial fractions, written in ``u = 1/t = e^y`` so that a very deep trap
     (``t`` beyond the floating-point range) neither overflows nor cancels:
@@ -232,33 +237,73 @@ def _log_tail_integrals(y: FloatArray) -> tuple[FloatArray, FloatArray]:
     ``t = 0.05``, where those forms lose digits to cancellation, the series
     ``sum_m (-t)^m/(k + m)`` replaces them (all its terms in one matrix product, since this
     runs at every step of the root search).
+
+    The slopes ``d ln P_k/dy = t R_k/P_k`` with ``R_k = -dP_k/dt = int_1^inf ds/(s^k
+    (s + t)^2)`` come from the same pieces (our derivation): the series
+    ``t R_k = -sum_m m (-t)^m/(k + m)``, and above ``t = 0.05`` the recurrence
+    ``P_k = (1/(k-1) - P_(k-1))/t`` differentiated, ``t R_1 = u (ln(1 + 1/u) - 1/(1 + u))``,
+    ``t R_2 = P_2 - u t R_1``, ``t R_3 = P_3 - u t R_2``. They steer the root search only
+    (a few digits lost to cancellation near ``t = 0.05`` slow it, never move its root).
     """
     y = np.asarray(y, dtype=float)
     log_p2, log_p3 = np.empty_like(y), np.empty_like(y)
+    slope_2, slope_3 = np.empty_like(y), np.empty_like(y)
     small = y > -np.log(0.05)
     powers = np.empty((_TAIL_SERIES_TERMS, int(small.sum())))
     powers[0], powers[1:] = 1.0, -np.exp(-y[small])
     np.cumprod(powers, axis=0, out=powers)  # row m: (-t)^m
-    log_p2[small], log_p3[small] = np.log(_TAIL_SERIES_COEFFICIENTS.T @ powers)
+    p2, p3, tr2, tr3 = _TAIL_SERIES_COEFFICIENTS.T @ powers
+    log_p2[small], log_p3[small] = np.log(p2), np.log(p3)
+    slope_2[small], slope_3[small] = tr2 / p2, tr3 / p3
     yl = y[~small]
     u = np.exp(yl)
     log_one_plus_t = np.log1p(u) - yl  # ln(1 + 1/u)
     log_p2[~small] = yl + np.log1p(-u * log_one_plus_t)
     log_p3[~small] = yl - np.log(2.0) + np.log1p(-2.0 * u + 2.0 * u**2 * log_one_plus_t)
-    return log_p2, log_p3
+    p2, p3 = np.exp(log_p2[~small]), np.exp(log_p3[~small])
+    tr2 = p2 - u * u * (log_one_plus_t - 1.0 / (1.0 + u))
+    slope_2[~small], slope_3[~small] = tr2 / p2, (p3 - u * tr2) / p3
+    return log_p2, log_p3, slope_2, slope_3
 
 
 def _single_level_shape(y: FloatArray, log_empty: FloatArray, log_filled: FloatArray
-                        ) -> tuple[FloatArray, FloatArray]:
-    """``(ln(V/V_b), ln G_1)`` at ``y = ln(n_d/b)``, in logarithms throughout.
+                        ) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """``(ln(V/V_b), ln G_1, d ln(V/V_b)/dy)`` at ``y = ln(n_d/b)``, in logarithms throughout.
 
     ``V/V_b = G_2/(t G_1^2)`` with ``t = b/n_d``, ``G_1 = q/2 + (1-q) P_2(t)`` and
     ``G_2 = q/3 + (1-q) P_3(t)``; ``log_empty = ln q`` and ``log_filled = ln(1 - q)``.
+    The slope is ``1 + d ln G_2/dy - 2 d ln G_1/dy`` with
+    ``d ln G_k/dy = ((1-q) P_k/G_k) d ln P_k/dy``.
     """
-    log_p2, log_p3 = _log_tail_integrals(y)
+    log_p2, log_p3, slope_p2, slope_p3 = _log_tail_integrals(y)
     log_g1 = np.logaddexp(log_empty - np.log(2.0), log_filled + log_p2)
     log_g2 = np.logaddexp(log_empty - np.log(3.0), log_filled + log_p3)
-    return log_g2 - 2.0 * log_g1 + y, log_g1
+    slope = (1.0 + np.exp(log_filled + log_p3 - log_g2) * slope_p3
+             - 2.0 * np.exp(log_filled + log_p2 - log_g1) * slope_p2)
+    return log_g2 - 2.0 * log_g1 + y, log_g1, slope
+
+
+def _deep_injection_start(log_v_over_vb: FloatArray, log_empty: FloatArray,
+                          log_filled: FloatArray) -> FloatArray:
+    """A start for the root search: ``y`` where ``V/V_b`` of the ``t >> 1`` asymptote
+    (``P_2 ~ 1/t``, ``P_3 ~ 1/(2t)``) equals the target.
+
+    With ``w = e^y = q z`` the asymptote ``V/V_b = w (q/3 + (1-q) w/2)/(q/2 + (1-q) w)^2 = c``
+    is the quadratic ``(1-q)(c(1-q) - 1/2) z^2 + (c(1-q) - 1/3) z + c/4 = 0`` (our algebra),
+    whose one positive root exists below the plateau ``c < 1/(2(1-q))`` (the trap-filled
+    limit). Above it (or where the quadratic fails) the trap-free limit is returned. Starting
+    values only: the search itself brackets and refines.
+    """
+    c = np.exp(np.minimum(log_v_over_vb, 0.0))
+    filled = np.exp(log_filled)
+    a2 = filled * (c * filled - 0.5)
+    a1 = c * filled - 1.0 / 3.0
+    a0 = 0.25 * c
+    with np.errstate(invalid="ignore", divide="ignore"):
+        z = 2.0 * a0 / (-a1 + np.sqrt(a1 * a1 - 4.0 * a2 * a0))
+        y = log_empty + np.log(z)
+    trap_free = np.log(0.75) + log_v_over_vb
+    return np.where((a2 < 0) & np.isfinite(y), y, trap_free)
 
 
 def single_trap_level_current_density_A_per_m2(
@@ -309,7 +354,8 @@ def single_trap_level_current_density_A_per_m2(
 
     hence ``V = (e d^2 b/eps) G_2/(t G_1^2)`` and ``J = e^2 mu d n_d^2/(eps G_1)``. ``V``
     rises with ``n_d``; the root is found between the trap-free and the all-traps-empty
-    densities, ``3 eps V q/(4 e d^2) <= n_d <= 3 eps V/(4 e d^2)``, by :func:`rising_root`.
+    densities, ``3 eps V q/(4 e d^2) <= n_d <= 3 eps V/(4 e d^2)``, by
+    :func:`~mechid.catalogue.roots.rising_root_with_slope`.
     Limits checked in the tests: ``N_t = 0`` gives Mott-Gurney exactly; ``n_d << n_1`` gives
     ``theta = n_1/(n_1 + N_t)`` times Mott-Gurney (Lampert's shallow-trap law); for
     ``n_1 << n_d << N_t``, ``V = e (N_t + n_1) d^2/(2 eps)``, Lampert's trap-filled-limit
@@ -336,14 +382,23 @@ def single_trap_level_current_density_A_per_m2(
         low = high + log_empty - 2e-9
         ok = np.isfinite(high) & np.isfinite(low) & (v > 0) & (mu > 0) & (n_t >= 0)
 
-        def mismatch(y: FloatArray, index: np.ndarray) -> FloatArray:
-            shape_at = _single_level_shape(y, log_empty[index], log_filled[index])[0]
-            return shape_at - log_v_over_vb[index]
+        def mismatch(y: FloatArray, index: np.ndarray) -> tuple[FloatArray, FloatArray]:
+            shape_at, _, slope = _single_level_shape(y, log_empty[index], log_filled[index])
+            return shape_at - log_v_over_vb[index], slope
 
+        # Two candidate starts, the one nearer the root kept: the trap-free end, and the
+        # root of the deep-injection asymptote (below).
         every = np.flatnonzero(ok)
-        f_low, f_high = np.full(v.size, -1.0), np.full(v.size, 1.0)
-        f_low[every], f_high[every] = mismatch(low[every], every), mismatch(high[every], every)
-        y = rising_root(mismatch, low, high, f_low, f_high, _SINGLE_LEVEL_TOLERANCE, active=every)
+        deep = np.clip(_deep_injection_start(log_v_over_vb[every], log_empty[every],
+                                             log_filled[every]), low[every], high[every])
+        ends = np.concatenate([deep, high[every]])
+        f_ends, slope_ends = mismatch(ends, np.concatenate([every, every]))
+        nearer_deep = ~(np.abs(f_ends[every.size:]) < np.abs(f_ends[:every.size]))
+        start, f_start, slope_start = (np.full(v.size, np.nan) for _ in range(3))
+        for out, both in ((start, ends), (f_start, f_ends), (slope_start, slope_ends)):
+            out[every] = np.where(nearer_deep, both[:every.size], both[every.size:])
+        y = rising_root_with_slope(mismatch, low, high, start, f_start, slope_start,
+                                   _SINGLE_LEVEL_TOLERANCE, active=every)
         log_g1 = np.full(v.size, np.nan)
         log_g1[every] = _single_level_shape(y[every], log_empty[every], log_filled[every])[1]
         log_j = (2.0 * np.log(ELEMENTARY_CHARGE) + np.log(mu * _CM2_TO_M2) + np.log(d_m)

@@ -23,6 +23,7 @@ from __future__ import annotations
 import multiprocessing
 import os
 import queue as queue_module
+import time
 import warnings
 from collections.abc import Callable, Iterable, Sequence
 from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
@@ -38,8 +39,9 @@ from mechid.catalogue.validity import FormulaNotApplicableError
 from mechid.device import Device
 from mechid.errors import MechidWarning
 from mechid.inference.fit import BelowLeaderError, MechanismFit, fit_mechanism
-from mechid.inference.likelihood import set_likelihood_threads
+from mechid.inference.likelihood import MechanismTarget, set_likelihood_threads
 from mechid.inference.noise import GAUSSIAN, NoiseLaw
+from mechid.inference.priors import mechanism_priors
 from mechid.inference.reference import SamplerStartError
 from mechid.inference.settings import LadderSettings, SearchSettings
 from mechid.results import BelowLeaderMechanism, NotFittedMechanism
@@ -194,21 +196,54 @@ def _fit_on_workers(rounds: list[list[FitJob]], shared: _SharedInputs, workers: 
     with ProcessPoolExecutor(max_workers=workers, mp_context=context,
                              initializer=_start_worker, initargs=(shared, messages)) as pool:
         for batch in rounds:
+            # Longest first, so that a slow fit does not start last and hold up the round
+            # (the numbers do not depend on the order: each job has its own stream).
+            costs = {job.mechanism_id: expected_cost(job.mechanism_id, shared) for job in batch}
+            submitted = sorted(batch, key=lambda job: -costs[job.mechanism_id])
             futures: dict[Future, FitJob] = {
-                pool.submit(_fit_in_worker, job, leader): job for job in batch
+                pool.submit(_fit_in_worker, job, leader): job for job in submitted
             }
             pending = set(futures)
             while pending:
                 _, pending = wait(pending, timeout=0.1, return_when=FIRST_COMPLETED)
                 _relay(messages, progress)
             _relay(messages, progress)
-            for future, job in futures.items():
-                fit, caught = future.result()
+            outcomes = {job.mechanism_id: future.result() for future, job in futures.items()}
+            for job in batch:  # warnings and records in the given order, whatever ran first
+                fit, caught = outcomes[job.mechanism_id]
                 for message, category in caught:
                     warnings.warn(message, category, stacklevel=3)
                 fits[job.mechanism_id] = fit
             leader = best_evidence(leader, (fits[job.mechanism_id] for job in batch))
     return fits
+
+
+#: Single-point likelihood evaluations timed per mechanism by :func:`expected_cost`.
+COST_PROBES = 3
+
+
+def expected_cost(mechanism_id: str, shared: _SharedInputs) -> float:
+    """A fit's expected run time, for scheduling only: seconds per single-point likelihood
+    evaluation (the mode search's unit of work, timed on a few prior draws from a fixed
+    stream) times the number of free parameters (the search's steps grow with it).
+
+    Implicit laws (a root search per point) cost ~10-30 x an explicit one, so a round that
+    started them last would wait for them alone.
+    """
+    mechanism = get_mechanism(mechanism_id)
+    target = MechanismTarget(mechanism, shared.voltage_V, shared.temperature_K,
+                             shared.current_A, shared.device,
+                             mechanism_priors(mechanism, shared.device, shared.current_A),
+                             noise_law=shared.noise_law)
+    draws = target.sample_prior(np.random.default_rng(0), COST_PROBES)
+    timings = []
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        for draw in draws:
+            started = time.perf_counter()
+            target.log_likelihood(draw[None, :])
+            timings.append(time.perf_counter() - started)
+    return float(np.median(timings)) * target.ndim
 
 
 def _start_method() -> str:
