@@ -12,7 +12,8 @@ other, how much the spread matters over the window (the change of the lowering
 e sigma^2/2kT between the coldest and the warmest temperature, in meV), and whether the 95 %
 intervals of the right hypothesis cover phi_B (or phibar), sigma, n and R_s.
 
-Run: ``python benchmarks/diode_study.py [n_cases] [--from K] [--full] [--small-spread]``;
+Run: ``python benchmarks/diode_study.py [n_cases] [--from K] [--seed N] [--full]
+[--small-spread]``;
 ``--full`` instead times one full (non-quick) analysis of a typical homogeneous diode series;
 ``--small-spread`` draws only inhomogeneous diodes with a small spread (sigma 0.003-0.03 V, its
 own seed :data:`SMALL_SPREAD_SEED`) and fits only the three diode hypotheses, to find where the
@@ -268,6 +269,8 @@ def main(argv: list[str]) -> None:
     n_cases = int(argv[0]) if argv and not argv[0].startswith("--") else 12
     first = int(argv[argv.index("--from") + 1]) if "--from" in argv else 0
     seed = SPREAD_ONLY_SEED if spread_only else SMALL_SPREAD_SEED if small else STUDY_SEED
+    if "--seed" in argv:  # a seed not looked at before, for a study that decides a design
+        seed = int(argv[argv.index("--seed") + 1])
     rng = np.random.default_rng(seed)
     rows = []
     for index in range(n_cases):

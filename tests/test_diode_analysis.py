@@ -25,9 +25,13 @@ from mechid.screening.biases import prepare_series
 from mechid.screening.diode import (
     ForwardBranch,
     diode_analysis,
+    gaussian_richardson_fit,
+    local_window,
     norde_function_V,
     norde_minimum,
+    start_values,
 )
+from mechid.screening.records import DiodeLine
 
 KB_EV = constants.k / constants.e
 #: Richardson constant 4 pi m_e k^2 e/h^3 in A cm^-2 K^-2 (120.173 in the shared reference
@@ -232,7 +236,8 @@ def test_one_temperature_gives_no_richardson_plot():
 
 
 def test_too_few_points_and_non_rectifying_data_do_not_run():
-    few = analyse(simulate(TEMPS, np.array([0.1, 0.2, 0.3, 0.4]), lambda t: 0.75,
+    # Three forward points: one window, no degree of freedom left to show it is straight.
+    few = analyse(simulate(TEMPS, np.array([0.1, 0.2, 0.3]), lambda t: 0.75,
                            lambda t: 1.05))
     assert not few.ran and "not run" in few.reason and few.temperatures == ()
     # An ohmic resistor: ln I vs V is not straight (local n grows like V), so no diode.
@@ -360,3 +365,61 @@ def test_doping_implied_and_fitted_characteristic_energy_agree_on_a_thermionic_f
     # Without the doping values the comparison is not made, and the line says why.
     flat = analyse(simulate(TEMPS, VOLTS, lambda t: 0.75, lambda t: 1.05, both_polarities=True))
     assert "not given" in flat.thermionic_field_ideality.detail
+
+
+# A coarse grid (0.1 V steps, 80-320 K) over a Gaussian barrier distribution: Werner &
+# Guettler (1991), phi_ap = phibar - sigma^2/2kT and 1/n_ap - 1 = -rho2 + rho3/2kT, with
+# phibar = 0.85 eV, sigma^2 = 0.0064 V^2, rho2 = 0.05, rho3 = -2 mV (values of the shipped
+# patchy-Si reference series), R_s = 30 ohm, R_sh = 1e10 ohm.
+COARSE_TEMPS = np.arange(80.0, 321.0, 40.0)
+COARSE_VOLTS = np.round(np.arange(0.1, 1.01, 0.1), 2)
+
+
+def _wg_barrier(t: float) -> float:
+    return 0.85 - 0.0064 / (2 * KB_EV * t)
+
+
+def _wg_ideality(t: float) -> float:
+    return 1.0 / (1.0 - 0.05 - 0.002 / (2 * KB_EV * t))
+
+
+def test_a_coarse_grid_uses_three_point_windows_and_reads_n_where_it_is_straight():
+    """Five-point windows on this grid span 58 kT/e at 80 K (shunt, exponential and series
+    bend together); before the windows adapted the semilog n read 1.7-3.7 against 1.1-1.24."""
+    series = simulate(COARSE_TEMPS, COARSE_VOLTS, _wg_barrier, _wg_ideality, rs=30.0,
+                      rsh=1e10, noise=0.01, seed=3, both_polarities=True)
+    result = analyse(series, Device(area_cm2=AREA_CM2))
+    assert result.ran
+    assert local_window(np.arange(0.1, 1.01, 0.1), 200.0) == 3
+    assert local_window(np.linspace(0.01, 0.8, 80), 300.0) == 5  # fine grids keep five
+    warm = [r for r in result.temperatures if r.temperature_K >= 200]
+    for record in warm:
+        n = record.semilog.quantities["ideality_factor"]
+        assert n == pytest.approx(_wg_ideality(record.temperature_K), rel=0.12)
+
+
+def test_gaussian_start_values_come_near_the_werner_guettler_truth():
+    series = simulate(COARSE_TEMPS, COARSE_VOLTS, _wg_barrier, _wg_ideality, rs=30.0,
+                      rsh=1e10, noise=0.01, seed=3, both_polarities=True)
+    data = prepare_series(series, 0)
+    device = Device(area_cm2=AREA_CM2)
+    values = start_values(diode_analysis(data, device), data, device)
+    # Starting values only: they need to land in the right basin, not on the truth.
+    assert values["gaussian_mean_barrier_eV"] == pytest.approx(0.85, abs=0.1)
+    assert values["gaussian_barrier_variance_V2"] == pytest.approx(0.0064, rel=0.5)
+    assert values["series_resistance_ohm"] == pytest.approx(30.0, rel=0.3)
+    assert values["shunt_resistance_ohm"] == pytest.approx(1e10, rel=0.1)
+    assert values["rho3_V"] < 0
+
+
+def test_exact_werner_guettler_saturation_currents_give_back_the_distribution():
+    """The regression alone, on saturation currents from WG's formula itself."""
+    records = []
+    for t in (150.0, 200.0, 250.0, 300.0, 350.0):
+        i_s = AREA_CM2 * 100.0 * t**2 * math.exp(-_wg_barrier(t) / (KB_EV * t))
+        semilog = DiodeLine(True, "exact", 5, quantities={"saturation_current_A": i_s})
+        records.append(SimpleNamespace(temperature_K=t, semilog=semilog))
+    values = gaussian_richardson_fit(records, AREA_CM2)
+    assert values["gaussian_mean_barrier_eV"] == pytest.approx(0.85, rel=1e-9)
+    assert values["gaussian_barrier_variance_V2"] == pytest.approx(0.0064, rel=1e-7)
+    assert values["gaussian_richardson_constant_A_cm2_K2"] == pytest.approx(100.0, rel=1e-7)

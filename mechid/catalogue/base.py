@@ -22,7 +22,7 @@ from typing import Any, Literal
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from mechid.catalogue.checks import CheckSpec, PlotEstimate
+from mechid.catalogue.checks import CheckSpec, DiodeEstimate, PlotEstimate
 from mechid.catalogue.validity import ValidityCondition, within_validity
 from mechid.device import Device
 from mechid.errors import UnknownMechanismError
@@ -226,7 +226,7 @@ class Mechanism:
     temperature_dependence: str = ""
     options: Mapping[str, Any] = field(default_factory=dict)
     needs_area: bool = True
-    estimates: tuple[PlotEstimate, ...] = ()
+    estimates: tuple[PlotEstimate | DiodeEstimate, ...] = ()
     checks: tuple[CheckSpec, ...] = ()
     validity: tuple[ValidityCondition, ...] = ()
     signed_current: SignedFormula | None = None
@@ -254,7 +254,7 @@ class Mechanism:
         for estimate in self.estimates:
             if estimate.parameter not in self.parameter_names:
                 raise ValueError(f"{self.id}: estimate of unknown parameter {estimate.parameter!r}")
-            if estimate.plot not in plot_ids:
+            if isinstance(estimate, PlotEstimate) and estimate.plot not in plot_ids:
                 raise ValueError(f"{self.id}: estimate from undeclared plot {estimate.plot!r}")
 
     @property

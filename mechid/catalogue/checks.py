@@ -50,6 +50,24 @@ class PlotEstimate:
         return self.quantity or self.parameter
 
 
+@dataclass(frozen=True)
+class DiodeEstimate:
+    """A declared parameter read from the rectifying-contact analysis (a starting value).
+
+    The analysis (:func:`mechid.screening.diode.start_values`) reads per-temperature semilog
+    lines, the Richardson plot, Werner & Guettler's plots, Cheung's lines and the reverse
+    branch into named quantities; ``quantity`` is one of those names.
+    """
+
+    parameter: str
+    quantity: str
+
+    @property
+    def key(self) -> str:
+        """The quantity's name."""
+        return self.quantity
+
+
 # --------------------------------------------------------------------------------------------
 # Consistency checks (each evaluated by its rule in mechid.screening.checks)
 # --------------------------------------------------------------------------------------------

@@ -41,7 +41,7 @@ from numpy.typing import ArrayLike
 from scipy import special
 
 from mechid.catalogue.base import FloatArray, Mechanism, Parameter
-from mechid.catalogue.checks import ThermallyActivated
+from mechid.catalogue.checks import DiodeEstimate, ThermallyActivated
 from mechid.catalogue.validity import ValidityCondition
 from mechid.constants import BOLTZMANN_EV, RICHARDSON_A_CM2_K2
 from mechid.device import Device
@@ -611,6 +611,14 @@ _BARRIER = Parameter(
     lower=0.1, upper=2.0, typical=0.7,
 )
 
+#: Starting values every diode hypothesis reads from the rectifying-contact analysis
+#: (:func:`mechid.screening.diode.start_values`): Cheung's series resistance and the
+#: cold reverse branch's shunt.
+_RESISTANCE_ESTIMATES = (
+    DiodeEstimate("series_resistance_ohm", "series_resistance_ohm"),
+    DiodeEstimate("shunt_resistance_ohm", "shunt_resistance_ohm"),
+)
+
 _DIODE_FORMULA = (
     "I = I_s [exp(e(V - I R_s)/(n kT)) - 1] + (V - I R_s)/R_sh, solved with the Lambert W "
     "function"
@@ -628,6 +636,12 @@ SCHOTTKY_DIODE = Mechanism(
     formula=_DIODE_FORMULA + ";  I_s = A A** T^2 exp(-phi_B/kT), n constant",
     source=_DIODE_SOURCE,
     parameters=(_BARRIER, _IDEALITY, _RICHARDSON, _SERIES, _SHUNT),
+    estimates=(
+        DiodeEstimate("barrier_height_eV", "barrier_height_eV"),
+        DiodeEstimate("ideality_factor", "ideality_factor"),
+        DiodeEstimate("richardson_constant_A_cm2_K2", "richardson_constant_A_cm2_K2"),
+        *_RESISTANCE_ESTIMATES,
+    ),
     checks=(ThermallyActivated(),),  # thermionic emission: the saturation current is activated
     needs=("polarities_differ",),  # a rectifier cannot describe polarities that agree
     signed_current=_schottky_diode_current,
@@ -696,6 +710,14 @@ INHOMOGENEOUS_SCHOTTKY_DIODE = Mechanism(
         ),
         _RICHARDSON, _SERIES, _SHUNT,
     ),
+    estimates=(
+        DiodeEstimate("mean_barrier_height_eV", "gaussian_mean_barrier_eV"),
+        DiodeEstimate("barrier_variance_V2", "gaussian_barrier_variance_V2"),
+        DiodeEstimate("voltage_coefficient_rho2", "rho2"),
+        DiodeEstimate("voltage_coefficient_rho3_V", "rho3_V"),
+        DiodeEstimate("richardson_constant_A_cm2_K2", "gaussian_richardson_constant_A_cm2_K2"),
+        *_RESISTANCE_ESTIMATES,
+    ),
     checks=(ThermallyActivated(),),  # thermionic emission: the saturation current is activated
     needs=("polarities_differ",),  # a rectifier cannot describe polarities that agree
     signed_current=_inhomogeneous_diode_current,
@@ -726,6 +748,8 @@ LATERAL_2D_SCHOTTKY_DIODE = Mechanism(
         ),
         _SERIES, _SHUNT,
     ),
+    # The barrier is not read from the T^2 Richardson plot: its slope differs by kT/2.
+    estimates=(DiodeEstimate("ideality_factor", "ideality_factor"), *_RESISTANCE_ESTIMATES),
     checks=(ThermallyActivated(),),  # thermionic emission: the saturation current is activated
     needs=("polarities_differ",),  # a rectifier cannot describe polarities that agree
     signed_current=_lateral_2d_diode_current,

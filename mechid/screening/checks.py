@@ -20,6 +20,7 @@ from mechid.catalogue.checks import (
     InterceptNotActivated,
     NearlyTemperatureIndependent,
     Ohmic,
+    PlotEstimate,
     PositiveQuantity,
     QuantityInRange,
     RichardsonConstant,
@@ -388,6 +389,8 @@ def declared_range_checks(ctx: CheckContext) -> list[Check]:
 def _outside_regime(ctx: CheckContext, parameter: str) -> str | None:
     """Why ``parameter`` is undetermined, when its plot drew no line for want of regime points."""
     for estimate in ctx.mechanism.estimates:
+        if not isinstance(estimate, PlotEstimate):
+            continue
         plot = next(p for p in ctx.mechanism.plots if p.id == estimate.plot)
         if estimate.parameter == parameter and plot.regime is not None and not ctx.lines.get(plot.id):
             return (f"undetermined: no {plot.id} line, no point lies where the plot is straight "

@@ -38,9 +38,15 @@ quoting them; Cheung & Cheung's two functions and Bohlin's generalisation are fr
 quoted.
 
 Every quantity is "not determined", with the reason, when the data do not allow it: fewer
-than :data:`MIN_LINE_POINTS` points on a line, fewer than :data:`MIN_TEMPERATURES`
-temperatures across temperature, a missing device value (area, A**), no minimum of F(V)
-inside the measured range. No number comes from a line through two points.
+than :data:`MIN_LINE_POINTS` points on a line (a semilog line on a coarse bias grid may hold
+one :func:`local_window` of three), fewer than :data:`MIN_TEMPERATURES` temperatures across
+temperature, a missing device value (area, A**), no minimum of F(V) inside the measured
+range. No number comes from a line through two points.
+
+:func:`start_values` reads the analysis into the fit's starting values (the catalogue's
+:class:`~mechid.catalogue.checks.DiodeEstimate` declarations name them); without them the
+quick mode search of the inhomogeneous diode ended thousands of nats below the truth on a
+simulated 80-320 K series.
 """
 
 from __future__ import annotations
@@ -67,8 +73,20 @@ MIN_LINE_POINTS = 5
 #: (and the reverse term exp(-eV/kT) of the thermionic-emission form) a few per cent at most
 #: (common practice, Rhoderick & Williams 1988).
 THERMAL_VOLTAGES_ABOVE = 3.0
-#: Points in the sliding window of the local ideality factor (e/kT) dV/d ln I.
+#: Points in the sliding window of the local ideality factor (e/kT) dV/d ln I...
 LOCAL_WINDOW = 5
+#: ...unless the bias steps are coarse: a window spans at most this many kT/e (at n = 1 about
+#: 2.6 decades of current), and at least 3 points. On a 0.1 V grid at 80 K five points span
+#: 58 kT/e, from the shunt through the exponential to the series-resistance bend, and their
+#: slope is none of them (our threshold; seen on a simulated 80-320 K diode whose semilog n
+#: read 1.7-3.7 against a true 1.1-1.24).
+WINDOW_SPAN_KT = 6.0
+#: Fewest points of a local window (a slope and its standard error need one degree of freedom).
+MIN_WINDOW = 3
+#: A window whose local ideality factor has a larger relative standard error than this is
+#: curved, not noisy (1 % noise over a window spanning a decade gives ~1 %), and does not
+#: extend the straight region however close its value (our threshold).
+WINDOW_RELATIVE_ERROR = 0.1
 #: The straight part of ln I vs V: the contiguous run of windows whose local ideality factor
 #: is within this fraction of its lowest value, two standard errors allowed on each (see
 #: :func:`straight_region`). Above it, the series resistance bends the curve (I R_s adds
@@ -80,6 +98,10 @@ MIN_LINE_DECADES = 1.5
 #: The data look like a rectifying contact when at least one temperature has a straight
 #: forward ln I vs V region of at least this many decades of current (our threshold)...
 RECTIFYING_DECADES = 3.0
+#: ...over at least this many points (two degrees of freedom for its straightness: on a
+#: bias grid fine enough for five-point windows three decades hold many more points; on a
+#: 0.1 V grid they may hold four)...
+MIN_RECTIFYING_POINTS = 4
 #: ...with an ideality factor in this range: thermionic emission gives n >= 1 (0.95 allows
 #: for noise); n well above 2 points to tunnelling or leakage (common practice).
 IDEALITY_RANGE = (0.95, 3.0)
@@ -124,25 +146,38 @@ def forward_branches(data: PreparedSeries, polarity: str) -> list[ForwardBranch]
     return branches
 
 
+def local_window(voltage_V: FloatArray, temperature_K: float) -> int:
+    """Points per local window: :data:`LOCAL_WINDOW`, fewer where the median bias step is so
+    coarse that they would span more than :data:`WINDOW_SPAN_KT` kT/e, never fewer than
+    :data:`MIN_WINDOW`."""
+    if voltage_V.size < 2:
+        return LOCAL_WINDOW
+    step = float(np.median(np.diff(voltage_V)))
+    span = WINDOW_SPAN_KT * thermal_voltage_V(temperature_K)
+    fitting = 1 + int(span // step) if step > 0 else LOCAL_WINDOW
+    return int(np.clip(fitting, MIN_WINDOW, LOCAL_WINDOW))
+
+
 def local_ideality(voltage_V: FloatArray, current_A: FloatArray,
                    temperature_K: float) -> tuple[FloatArray, FloatArray]:
     """Local ideality factor (e/kT) / (d ln I/dV) and its standard error, per window.
 
-    Least-squares slopes of ln I vs V over :data:`LOCAL_WINDOW` consecutive points; element
-    i belongs to points i .. i + LOCAL_WINDOW - 1. The standard error is
-    n se(slope)/slope with the usual se(slope) = s/sqrt(S_xx). Infinite where the slope is
-    not positive; empty arrays when there are fewer points than a window.
+    Least-squares slopes of ln I vs V over ``w`` = :func:`local_window` consecutive points;
+    element i belongs to points i .. i + w - 1. The standard error is n se(slope)/slope with
+    the usual se(slope) = s/sqrt(S_xx). Infinite where the slope is not positive; empty
+    arrays when there are fewer points than a window.
     """
-    if voltage_V.size < LOCAL_WINDOW:
+    window = local_window(voltage_V, temperature_K)
+    if voltage_V.size < window:
         return np.empty(0), np.empty(0)
-    x = sliding_window_view(voltage_V, LOCAL_WINDOW)
-    y = sliding_window_view(np.log(current_A), LOCAL_WINDOW)
+    x = sliding_window_view(voltage_V, window)
+    y = sliding_window_view(np.log(current_A), window)
     xc = x - x.mean(axis=1, keepdims=True)
     yc = y - y.mean(axis=1, keepdims=True)
     s_xx = np.sum(xc**2, axis=1)
     slope = np.sum(xc * yc, axis=1) / s_xx
     residual = yc - slope[:, None] * xc
-    slope_err = np.sqrt(np.sum(residual**2, axis=1) / (LOCAL_WINDOW - 2) / s_xx)
+    slope_err = np.sqrt(np.sum(residual**2, axis=1) / (window - 2) / s_xx)
     with np.errstate(divide="ignore", invalid="ignore"):
         ideality = np.where(slope > 0, 1.0 / (thermal_voltage_V(temperature_K) * slope), np.inf)
         error = np.where(slope > 0, ideality * slope_err / slope, np.inf)
@@ -155,27 +190,30 @@ def straight_region(branch: ForwardBranch) -> tuple[int, int] | str:
     Rule (stated in the module constants): only V > 3kT/e; n_ref is the lowest upper bound
     n_local + 2 se(n_local) over the windows (so one noisy window cannot set it); the region is
     the contiguous run of windows around that one whose n_local - 2 se(n_local) stays within
-    :data:`STRAIGHT_TOLERANCE` of n_ref. On noiseless data this is "local ideality within
-    5 % of its lowest value"; noise widens it by two standard errors.
+    :data:`STRAIGHT_TOLERANCE` of n_ref and whose relative standard error is at most
+    :data:`WINDOW_RELATIVE_ERROR`. On noiseless data this is "local ideality within 5 % of
+    its lowest value"; noise widens it by two standard errors.
     """
     v, t = branch.voltage_V, branch.temperature_K
     lower = THERMAL_VOLTAGES_ABOVE * thermal_voltage_V(t)
     start = int(np.searchsorted(v, lower, side="right"))
+    window = local_window(v[start:], t)
     local, error = local_ideality(v[start:], branch.current_A[start:], t)
     upper = local + 2.0 * error
     if local.size == 0 or not np.isfinite(upper).any():
-        return (f"fewer than {LOCAL_WINDOW} forward points above 3kT/e = {lower:.3g} V with "
+        return (f"fewer than {window} forward points above 3kT/e = {lower:.3g} V with "
                 "a rising current")
     best = int(np.argmin(upper))
     with np.errstate(invalid="ignore"):  # inf - inf where a window's slope is not positive
-        ok = np.isfinite(local) & (local - 2.0 * error <= (1.0 + STRAIGHT_TOLERANCE) * upper[best])
+        ok = (np.isfinite(local) & (error <= WINDOW_RELATIVE_ERROR * local)
+              & (local - 2.0 * error <= (1.0 + STRAIGHT_TOLERANCE) * upper[best]))
     first = best
     while first > 0 and ok[first - 1]:
         first -= 1
     last = best
     while last < ok.size - 1 and ok[last + 1]:
         last += 1
-    return start + first, start + last + LOCAL_WINDOW - 1
+    return start + first, start + last + window - 1
 
 
 @dataclass(frozen=True)
@@ -258,7 +296,8 @@ def semilog_line(branch: ForwardBranch, device: Device) -> DiodeLine:
     rule = (f"straight for V = {v[0]:.3g}-{v[-1]:.3g} V (V > 3kT/e; local ideality factor "
             f"within {STRAIGHT_TOLERANCE:.0%} of its lowest value, two standard errors allowed: "
             "below the series-resistance bend)")
-    if v.size < MIN_LINE_POINTS:
+    # A coarse grid's straight part may hold one window only (:func:`local_window`).
+    if v.size < min(MIN_LINE_POINTS, local_window(branch.voltage_V, branch.temperature_K)):
         return DiodeLine(False, f"not determined: only {v.size} points {rule}", int(v.size))
     decades = float((ln_i[-1] - ln_i[0]) / math.log(10.0))
     if decades < MIN_LINE_DECADES:
@@ -620,9 +659,10 @@ def thermionic_field_ideality(records: Sequence[DiodeTemperature], device: Devic
 def rectifying_reason(records: Sequence[DiodeTemperature]) -> tuple[bool, str]:
     """Whether the data look like a rectifying contact, and why (the rule in words)."""
     rule = (f"a straight forward ln I vs V region over >= {RECTIFYING_DECADES:g} decades and "
-            f">= {MIN_LINE_POINTS} points with {IDEALITY_RANGE[0]:g} <= n <= "
+            f">= {MIN_RECTIFYING_POINTS} points with {IDEALITY_RANGE[0]:g} <= n <= "
             f"{IDEALITY_RANGE[1]:g} at one temperature at least")
     passing = [r.temperature_K for r in records if r.semilog.determined
+               and r.semilog.n_points >= MIN_RECTIFYING_POINTS
                and r.semilog.quantities["current_decades"] >= RECTIFYING_DECADES
                and IDEALITY_RANGE[0] <= r.semilog.quantities["ideality_factor"]
                <= IDEALITY_RANGE[1]]
@@ -662,3 +702,88 @@ def diode_analysis(data: PreparedSeries, device: Device) -> DiodeAnalysis:
         modified_richardson=modified_richardson_line(records, spread, device),
         thermionic_field_ideality=thermionic_field_ideality(records, device),
     )
+
+
+# --------------------------------------------------------------------------------------------
+# Starting values for the fit
+# --------------------------------------------------------------------------------------------
+
+#: Fewest temperatures with a semilog line for the Gaussian-barrier regression (three
+#: coefficients and one degree of freedom).
+MIN_GAUSSIAN_TEMPERATURES = 4
+
+
+def gaussian_richardson_fit(records: Sequence[DiodeTemperature],
+                            area_cm2: float | None) -> dict[str, float]:
+    """Mean barrier, variance and A** from ln I_s(T) by one least-squares regression.
+
+    Werner & Guettler (1991): with a Gaussian barrier distribution
+    ``ln(I_s/T^2) = ln(A A**) - phibar/kT + sigma^2/(2 (kT)^2)`` (phi in eV, sigma in V), so
+    ``ln(I_s/T^2)`` regressed on ``1, -1/kT, 1/(2 (kT)^2)`` gives ``ln(A A**)``, ``phibar``
+    and ``sigma^2`` without A** being known -- their modified Richardson plot and their
+    phi_ap-vs-1/T plot in one step (our arrangement). Empty with fewer than
+    :data:`MIN_GAUSSIAN_TEMPERATURES` semilog lines; ``sigma^2`` below 0 (no spread seen)
+    is given as 0.
+    """
+    t, current = _semilog_table(records, "saturation_current_A")
+    if t.size < MIN_GAUSSIAN_TEMPERATURES:
+        return {}
+    kt = BOLTZMANN_EV * t
+    design = np.column_stack([np.ones_like(t), -1.0 / kt, 1.0 / (2.0 * kt**2)])
+    coefficients = np.linalg.lstsq(design, np.log(current / t**2), rcond=None)[0]
+    values = {"gaussian_mean_barrier_eV": float(coefficients[1]),
+              "gaussian_barrier_variance_V2": max(float(coefficients[2]), 0.0)}
+    if area_cm2:
+        values["gaussian_richardson_constant_A_cm2_K2"] = float(
+            np.exp(coefficients[0]) / area_cm2)
+    return values
+
+
+def reverse_shunt_resistance_ohm(data: PreparedSeries, forward: str) -> float | None:
+    """R_sh read from the reverse branch at the coldest temperature: median |V/I| there.
+
+    Cold, the reverse saturation current of a barrier of a few tenths of an eV is far below
+    any shunt current, so the reverse current is the shunt's (our reading for a start value
+    only; a warm-only series gives an upper bound on the conductance instead). None without
+    reverse points.
+    """
+    sign = -1.0 if forward == "positive" else 1.0
+    coldest = float(np.min(data.temperatures))
+    on = ((data.temperature_K == coldest) & (np.sign(data.voltage_V) == sign)
+          & (data.folded_current_A > 0))
+    if not on.any():
+        return None
+    return float(np.median(data.abs_voltage_V[on] / data.folded_current_A[on]))
+
+
+def start_values(analysis: DiodeAnalysis, data: PreparedSeries, device: Device
+                 ) -> dict[str, float]:
+    """The rectifying-contact analysis read into starting values, keyed by quantity name.
+
+    The names the catalogue's :class:`~mechid.catalogue.checks.DiodeEstimate` declarations
+    read: ``ideality_factor`` (median of the semilog lines), ``barrier_height_eV`` and
+    ``richardson_constant_A_cm2_K2`` (Richardson plot), ``gaussian_*`` (see
+    :func:`gaussian_richardson_fit`), ``rho2`` and ``rho3_V`` (Werner & Guettler's 1/n - 1
+    vs 1/(2kT)), ``series_resistance_ohm`` (median of Cheung's dV/d ln I lines) and
+    ``shunt_resistance_ohm`` (:func:`reverse_shunt_resistance_ohm`). Empty when the
+    analysis did not run; a quantity it could not read is left out.
+    """
+    if not analysis.ran or analysis.forward_polarity is None:
+        return {}
+    values: dict[str, float] = {}
+    _, ideality = _semilog_table(analysis.temperatures, "ideality_factor")
+    if ideality.size:
+        values["ideality_factor"] = float(np.median(ideality))
+    for line in (analysis.richardson, analysis.ideality_vs_inverse_2kt):
+        if line is not None and line.determined:
+            values |= {k: v for k, v in line.quantities.items() if not k.endswith("_err")}
+    values |= gaussian_richardson_fit(analysis.temperatures, device.area_cm2)
+    resistances = [r.cheung_derivative.quantities.get("series_resistance_ohm", math.nan)
+                   for r in analysis.temperatures if r.cheung_derivative.determined]
+    positive = [r for r in resistances if r > 0]
+    if positive:
+        values["series_resistance_ohm"] = float(np.median(positive))
+    shunt = reverse_shunt_resistance_ohm(data, analysis.forward_polarity)
+    if shunt is not None:
+        values["shunt_resistance_ohm"] = shunt
+    return {k: v for k, v in values.items() if math.isfinite(v)}

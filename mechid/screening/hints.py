@@ -8,29 +8,35 @@ from collections.abc import Mapping, Sequence
 import numpy as np
 
 from mechid.catalogue.base import Mechanism, ParameterHints
-from mechid.catalogue.checks import PlotEstimate
+from mechid.catalogue.checks import DiodeEstimate, PlotEstimate
 from mechid.screening.lines import zero_bias_line
 from mechid.screening.records import LineFit
 
 
-def parameter_hints(mechanism: Mechanism,
-                    lines: Mapping[str, Sequence[LineFit]]) -> ParameterHints:
+def parameter_hints(mechanism: Mechanism, lines: Mapping[str, Sequence[LineFit]],
+                    diode_values: Mapping[str, float] | None = None) -> ParameterHints:
     """Starting values of the parameters the mechanism's plots determine.
 
     Evaluates every declared :class:`~mechid.catalogue.checks.PlotEstimate`: the median of
     the quantity over the plot's lines, or its extrapolation to zero bias
-    (:func:`zero_bias_line`). Values that are not finite are left out; whether a value lies
-    inside the prior is for the mode search to decide.
+    (:func:`zero_bias_line`); and every :class:`~mechid.catalogue.checks.DiodeEstimate`
+    from ``diode_values`` (:func:`mechid.screening.diode.start_values`). Values that are not
+    finite are left out; whether a value lies inside the prior is for the mode search to
+    decide.
     """
     values: dict[str, float] = {}
     sources: dict[str, str] = {}
     for estimate in mechanism.estimates:
-        value = _estimate_value(estimate, lines.get(estimate.plot, ()))
+        if isinstance(estimate, DiodeEstimate):
+            value = (diode_values or {}).get(estimate.key)
+            source = f"rectifying-contact analysis: {estimate.key}"
+        else:
+            value = _estimate_value(estimate, lines.get(estimate.plot, ()))
+            source = (f"{estimate.plot}.{estimate.key}"
+                      + ("" if estimate.zero_bias_power is None else " at zero bias"))
         if value is not None and math.isfinite(value):
-            values[estimate.parameter] = value
-            sources[estimate.parameter] = (f"{estimate.plot}.{estimate.key}"
-                                           + ("" if estimate.zero_bias_power is None
-                                              else " at zero bias"))
+            values[estimate.parameter] = float(value)
+            sources[estimate.parameter] = source
     return ParameterHints(mechanism.id, values, sources)
 
 

@@ -24,7 +24,7 @@ from mechid.screening.asymmetry import polarity_asymmetry
 from mechid.screening.biases import PreparedSeries, prepare_series
 from mechid.screening.checks import CheckContext, declared_range_checks, evaluate_check
 from mechid.screening.conductance import conductance_asymmetry
-from mechid.screening.diode import diode_analysis
+from mechid.screening.diode import diode_analysis, start_values
 from mechid.screening.hints import parameter_hints
 from mechid.screening.plots import plot_lines
 from mechid.screening.records import LinearisationResult, LineFit, MechanismLinearisation
@@ -44,7 +44,8 @@ def _summary(lines: Mapping[str, Sequence[LineFit]]) -> dict[str, float]:
 
 
 def _analyse_mechanism(mechanism: Mechanism, data: PreparedSeries, device: Device,
-                       shared: Mapping[str, Any]) -> MechanismLinearisation:
+                       shared: Mapping[str, Any], diode_values: Mapping[str, float]
+                       ) -> MechanismLinearisation:
     lines: dict[str, list[LineFit]] = {}
     notes: list[str] = []
     for plot in mechanism.plots:
@@ -64,7 +65,7 @@ def _analyse_mechanism(mechanism: Mechanism, data: PreparedSeries, device: Devic
         straightness=straightness,
         score=screening_score(straightness, checks),
         notes=tuple(notes),
-        hints=parameter_hints(mechanism, lines),
+        hints=parameter_hints(mechanism, lines, diode_values),
     )
 
 
@@ -119,8 +120,10 @@ def linearise(series: SeriesLike, device: Device | None = None, *,
             "low_bias_exponents": low_bias_exponents(data),
             "log_log_slopes": log_log_slopes(data),
         }
-        results = tuple(_analyse_mechanism(m, data, device, shared) for m in mechanisms)
         diode = diode_analysis(data, device)
+        diode_values = start_values(diode, data, device)
+        results = tuple(_analyse_mechanism(m, data, device, shared, diode_values)
+                        for m in mechanisms)
         asymmetry = polarity_asymmetry(data)
     order = sorted(range(len(results)), key=lambda k: (-results[k].score, k))
     return LinearisationResult(
