@@ -99,3 +99,29 @@ def test_a_sampler_that_cannot_start_lists_the_mechanism_as_not_fitted(monkeypat
         outcome = rounds_module._fit(job, shared, None, None)
     assert outcome.id == "poole_frenkel" and outcome.violations == ()
     assert "says nothing about the physics" in outcome.reason
+
+
+def test_a_ladder_without_a_finite_evidence_is_not_ranked(monkeypatch, small_series):
+    # Seen on a simulated diode: dissimilar-electrode tunnelling's walkers all sat where its
+    # validity domain refuses, the ladder's mean log-likelihoods were NaN and the NaN ln Z was
+    # ranked (and written as null). Such a fit is listed as not fitted instead.
+    from dataclasses import replace
+
+    import mechid.inference.fit as fit_module
+    import mechid.inference.rounds as rounds_module
+
+    real = fit_module.estimate_evidence
+
+    def without_evidence(*args, **kwargs):
+        run, evidence = real(*args, **kwargs)
+        return run, replace(evidence, log_evidence=float("nan"))
+
+    monkeypatch.setattr(fit_module, "estimate_evidence", without_evidence)
+    sim, device = small_series
+    shared = rounds_module._SharedInputs(sim.voltage_V, sim.temperature_K, sim.current_A, device,
+                                         TINY_LADDER, TINY_SEARCH)
+    job = rounds_module.FitJob("poole_frenkel", np.random.default_rng(0))
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        outcome = rounds_module._fit(job, shared, None, None)
+    assert outcome.id == "poole_frenkel" and "no evidence could be estimated" in outcome.reason

@@ -26,7 +26,12 @@ from mechid.inference.likelihood import MechanismTarget
 from mechid.inference.noise import GAUSSIAN, NoiseLaw
 from mechid.inference.predictive import PosteriorPredictive, posterior_predictive
 from mechid.inference.priors import NOISE_FLOOR, NOISE_RELATIVE, mechanism_priors
-from mechid.inference.reference import PilotRun, ReferencePathTarget, pilot_reference
+from mechid.inference.reference import (
+    PilotRun,
+    ReferencePathTarget,
+    SamplerStartError,
+    pilot_reference,
+)
 from mechid.inference.settings import LadderSettings, SearchSettings
 from mechid.inference.start import find_modes
 from mechid.inference.tempering import LadderRun
@@ -194,6 +199,11 @@ def fit_mechanism(
     for warning in caught:  # say which mechanism a sampler warning is about
         warnings.warn(f"{mechanism.id}: {warning.message}", warning.category, stacklevel=2)
     evidence = _with_pilot(evidence, pilot, multimodal=len(modes) > 1)
+    if not (np.isfinite(evidence.log_evidence) and np.isfinite(evidence.log_evidence_err)):
+        # Seen: a law whose validity domain refused every walker the reference placed (the
+        # ladder's mean log-likelihoods all NaN); a NaN ln Z must not be ranked as a fit.
+        raise SamplerStartError("the tempered chains found no finite likelihood to average, so "
+                                "no evidence could be estimated")
     draws = posterior_draws(run)
     adequacy = check_adequacy(target, draws, rng)
     # Last use of rng, after the sampling: the fit's numbers do not depend on the check.
