@@ -209,6 +209,8 @@ def draw_edge(kind: str, rng: np.random.Generator) -> tuple[Mechanism, dict[str,
             largest = np.nanmax(unit / np.abs(main.current(v, t, truth, device)))
         truth = {**truth, "leak_activation_energy_eV": energy,
                  "leak_prefactor_S": ratio / largest}
+        if not all(p.lower <= truth[p.name] <= p.upper for p in composite.parameters):
+            continue  # a leak prefactor below the declared range: the simulation refuses it
         values = {k: np.array([[truth[k]]]) for k in composite.parameter_names}
         if not np.all(np.isfinite(composite.current(v, t, truth, device))):
             continue
