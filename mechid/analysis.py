@@ -43,6 +43,7 @@ from mechid.inference.fit import BELOW_LEADER_MARGIN, MechanismFit
 from mechid.inference.nesting import (
     MISS_MARGIN,
     UNRELIABLE_EVIDENCE,
+    beaten_nested_restart,
     best_found,
     nested_search_misses,
     refit_caution,
@@ -294,6 +295,8 @@ def run_analysis_full(
         )
         repaired = _refit_nested_misses(outcome.fits, series, mask, device, settings, master,
                                         progress, noise)
+        repaired += _refit_beaten_nested_laws(outcome.fits, series, mask, device, settings,
+                                              master, progress, noise)
         outcome = _fit_composites([job for job in jobs if job not in singles], outcome, series,
                                   mask, device, settings, progress, noise, margin)
         repaired += _refit_stalled_main_paths(outcome.fits, series, mask, device, settings,
@@ -487,6 +490,43 @@ def _refit_nested_misses(fits: dict[str, MechanismFit], series: IVSeries, mask: 
         if again is not None and best_found(again) > best_found(fits[miss.mechanism_id]):
             fits[miss.mechanism_id] = again
             notes.append(refit_caution(miss))
+    return notes
+
+
+def _refit_beaten_nested_laws(fits: dict[str, MechanismFit], series: IVSeries,
+                              mask: np.ndarray, device: Device, settings: AnalysisSettings,
+                              master: np.random.Generator, progress: ProgressHook | None,
+                              noise: NoiseLawChoice) -> list[str]:
+    """Search again, with the full search, a nested law whose container's evidence beats it.
+
+    Where that search beats the nested fit by more than :data:`MISS_MARGIN` nats
+    (:func:`beaten_nested_restart`) the law is fitted again from there and replaces the first
+    fit when it reached a better point. Streams are spawned from ``master`` only for such
+    pairs. ``fits`` is updated in place; returns a caution per refit.
+    """
+    notes = []
+    for container_id in list(fits):
+        for nested_id in get_mechanism(container_id).contains:
+            nested = fits.get(nested_id)
+            if nested is None or (fits[container_id].evidence.log_evidence
+                                  <= nested.evidence.log_evidence):
+                continue
+            search_rng, fit_rng = master.spawn(2)
+            start = beaten_nested_restart(fits[container_id], nested, FULL_SEARCH, search_rng)
+            if start is None:
+                continue
+            again = fit_candidates_in_rounds(
+                [FitJob(nested_id, fit_rng, start)], series.voltage_V[mask],
+                series.temperature_K[mask], series.current_A[mask], device, settings.ladder(),
+                settings.search(), workers=1, progress=progress, noise_law=noise.law,
+            ).fits.get(nested_id)
+            if again is not None and best_found(again) > best_found(nested):
+                gain = best_found(again) - best_found(nested)
+                fits[nested_id] = again
+                notes.append(f"{nested_id}'s first search stalled: a second search (beaten by "
+                             f"{container_id}, which contains it) reached a point {gain:.0f} "
+                             "nats higher in posterior density, and the numbers shown are "
+                             "that fit's")
     return notes
 
 

@@ -28,6 +28,8 @@ from mechid.catalogue import get_mechanism
 from mechid.catalogue.base import ParameterHints
 from mechid.inference.fit import NOISE_PARAMETERS, MechanismFit
 from mechid.inference.flags import SamplerFlag
+from mechid.inference.settings import SearchSettings
+from mechid.inference.start import find_modes
 
 #: Nats by which the mapped point must beat the best point found to count as a miss (a margin
 #: for the differences between the two fits' noise parameters; our choice).
@@ -159,3 +161,28 @@ def nested_search_misses(fits: Mapping[str, MechanismFit]) -> list[NestedSearchM
                 misses.append(NestedSearchMiss(container.result.id, nested_id, deficit,
                                                proven=False))
     return misses
+
+
+def beaten_nested_restart(container: MechanismFit, nested: MechanismFit, search: SearchSettings,
+                          rng: np.random.Generator, margin: float = MISS_MARGIN
+                          ) -> ParameterHints | None:
+    """Starting values for fitting a nested law again where its container beats it, or None.
+
+    The reverse of :func:`nested_search_misses`: a container whose evidence beats the law it
+    contains may do so because the nested law's own search stalled (seen: homogeneous diode
+    data, the plain diode's quick search ~35 nats low, the inhomogeneous and the 2D diode
+    ahead of it). A second mode search of the nested law -- from its best point and from
+    ``search``'s fresh prior draws -- decides: if it beats everything the nested fit reached by
+    more than ``margin`` nats, its best values are returned to fit the law again.
+    """
+    law = nested.target.mechanism
+    own = {name: value for name, value in best_values(nested).items()
+           if name in law.parameter_names}
+    start = ParameterHints(law.id, own, {name: f"best fit of {law.id}" for name in own})
+    mode = find_modes(nested.target, rng, start, search=search)[0]
+    if not np.isfinite(mode.log_posterior) or mode.log_posterior <= best_found(nested) + margin:
+        return None
+    physical = nested.target.physical_values(mode.point[None, :])
+    found = {name: float(physical[name][0, 0]) for name in law.parameter_names}
+    return ParameterHints(law.id, found, {name: f"second search of {law.id} (beaten by "
+                                         f"{container.result.id})" for name in found})
