@@ -404,18 +404,27 @@ def _refit_stalled_main_paths(fits: dict[str, MechanismFit], series: IVSeries,
                                   MISS_MARGIN)
         if start is None:
             continue
-        again = fit_candidates_in_rounds(
-            [FitJob(parts[0], fit_rng, start)], series.voltage_V[mask],
-            series.temperature_K[mask], series.current_A[mask], device, settings.ladder(),
-            settings.search(), workers=1, progress=progress, noise_law=noise.law,
-        ).fits.get(parts[0])
-        if again is not None and best_found(again) > best_found(main_fit):
+        again = _better_fit(FitJob(parts[0], fit_rng, start), main_fit, series, mask, device,
+                            settings, progress, noise)
+        if again is not None:
             gain = best_found(again) - best_found(main_fit)
             fits[parts[0]] = again
             notes.append(f"{parts[0]}'s first search stalled: started again from the main path "
                          f"of {composite_id}'s best fit it reached a point {gain:.0f} nats "
                          f"higher in posterior density, and the numbers shown are that fit's")
     return notes
+
+
+def _better_fit(job: FitJob, first: MechanismFit, series: IVSeries, mask: np.ndarray,
+                device: Device, settings: AnalysisSettings, progress: ProgressHook | None,
+                noise: NoiseLawChoice) -> MechanismFit | None:
+    """The job fitted again (this run's settings, one worker), or None when it did not reach
+    a better point than ``first`` (the restarts below keep a new fit only then)."""
+    again = fit_candidates_in_rounds(
+        [job], series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
+        device, settings.ladder(), settings.search(), workers=1, progress=progress,
+        noise_law=noise.law).fits.get(job.mechanism_id)
+    return again if again is not None and best_found(again) > best_found(first) else None
 
 
 #: A quick fit whose evidence its own sampler flags as unreliable is fitted again with the full
@@ -483,11 +492,9 @@ def _refit_nested_misses(fits: dict[str, MechanismFit], series: IVSeries, mask: 
     notes = []
     for miss in nested_search_misses(fits):
         job = FitJob(miss.mechanism_id, master.spawn(1)[0], restart_hints(miss, fits))
-        again = fit_candidates_in_rounds(
-            [job], series.voltage_V[mask], series.temperature_K[mask], series.current_A[mask],
-            device, settings.ladder(), settings.search(), workers=1, progress=progress,
-            noise_law=noise.law).fits.get(miss.mechanism_id)
-        if again is not None and best_found(again) > best_found(fits[miss.mechanism_id]):
+        again = _better_fit(job, fits[miss.mechanism_id], series, mask, device, settings,
+                            progress, noise)
+        if again is not None:
             fits[miss.mechanism_id] = again
             notes.append(refit_caution(miss))
     return notes
@@ -515,12 +522,9 @@ def _refit_beaten_nested_laws(fits: dict[str, MechanismFit], series: IVSeries,
             start = beaten_nested_restart(fits[container_id], nested, FULL_SEARCH, search_rng)
             if start is None:
                 continue
-            again = fit_candidates_in_rounds(
-                [FitJob(nested_id, fit_rng, start)], series.voltage_V[mask],
-                series.temperature_K[mask], series.current_A[mask], device, settings.ladder(),
-                settings.search(), workers=1, progress=progress, noise_law=noise.law,
-            ).fits.get(nested_id)
-            if again is not None and best_found(again) > best_found(nested):
+            again = _better_fit(FitJob(nested_id, fit_rng, start), nested, series, mask,
+                                device, settings, progress, noise)
+            if again is not None:
                 gain = best_found(again) - best_found(nested)
                 fits[nested_id] = again
                 notes.append(f"{nested_id}'s first search stalled: a second search (beaten by "

@@ -116,12 +116,8 @@ def rising_root_with_slope(func: RisingFunctionWithSlope, low: FloatArray, high:
         Bracket ends, flat, with ``f(low) <= 0 <= f(high)`` (not checked).
     start, f_start, slope_start : ndarray
         First point (inside ``[low, high]``) with its function value and slope.
-    tolerance : ndarray or float
-        Absolute tolerance on ``f`` and on the bracket width, per entry or for all.
-    max_steps : int
-        Steps after which the last trial is returned.
-    active : ndarray of int, optional
-        The entries to solve; the others keep ``high``. All by default.
+    tolerance, max_steps, active
+        As for :func:`rising_root`.
 
     Returns
     -------

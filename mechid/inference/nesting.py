@@ -29,7 +29,7 @@ from mechid.catalogue.base import ParameterHints
 from mechid.inference.fit import NOISE_PARAMETERS, MechanismFit
 from mechid.inference.flags import SamplerFlag
 from mechid.inference.settings import SearchSettings
-from mechid.inference.start import find_modes
+from mechid.inference.start import Mode, find_modes
 
 #: Nats by which the mapped point must beat the best point found to count as a miss (a margin
 #: for the differences between the two fits' noise parameters; our choice).
@@ -163,6 +163,17 @@ def nested_search_misses(fits: Mapping[str, MechanismFit]) -> list[NestedSearchM
     return misses
 
 
+def search_beats(fit: MechanismFit, start: ParameterHints, search: SearchSettings,
+                 rng: np.random.Generator, margin: float = MISS_MARGIN) -> Mode | None:
+    """A second mode search of ``fit``'s law from ``start`` (and ``search``'s fresh prior
+    draws): its best mode when that beats everything the fit reached by more than ``margin``
+    nats, else None."""
+    mode = find_modes(fit.target, rng, start, search=search)[0]
+    if not np.isfinite(mode.log_posterior) or mode.log_posterior <= best_found(fit) + margin:
+        return None
+    return mode
+
+
 def beaten_nested_restart(container: MechanismFit, nested: MechanismFit, search: SearchSettings,
                           rng: np.random.Generator, margin: float = MISS_MARGIN
                           ) -> ParameterHints | None:
@@ -171,16 +182,16 @@ def beaten_nested_restart(container: MechanismFit, nested: MechanismFit, search:
     The reverse of :func:`nested_search_misses`: a container whose evidence beats the law it
     contains may do so because the nested law's own search stalled (seen: homogeneous diode
     data, the plain diode's quick search ~35 nats low, the inhomogeneous and the 2D diode
-    ahead of it). A second mode search of the nested law -- from its best point and from
-    ``search``'s fresh prior draws -- decides: if it beats everything the nested fit reached by
-    more than ``margin`` nats, its best values are returned to fit the law again.
+    ahead of it). A second mode search of the nested law from its best point
+    (:func:`search_beats`) decides.
     """
     law = nested.target.mechanism
     own = {name: value for name, value in best_values(nested).items()
            if name in law.parameter_names}
-    start = ParameterHints(law.id, own, {name: f"best fit of {law.id}" for name in own})
-    mode = find_modes(nested.target, rng, start, search=search)[0]
-    if not np.isfinite(mode.log_posterior) or mode.log_posterior <= best_found(nested) + margin:
+    mode = search_beats(nested, ParameterHints(law.id, own, {name: f"best fit of {law.id}"
+                                                             for name in own}),
+                        search, rng, margin)
+    if mode is None:
         return None
     physical = nested.target.physical_values(mode.point[None, :])
     found = {name: float(physical[name][0, 0]) for name in law.parameter_names}

@@ -36,8 +36,8 @@ from mechid.catalogue.base import Mechanism, ParameterHints
 from mechid.catalogue.composite import leak_parameter_names
 from mechid.inference.fit import MechanismFit
 from mechid.inference.likelihood import MechanismTarget
-from mechid.inference.nesting import best_found
 from mechid.inference.nesting import best_values as best_values_with_noise
+from mechid.inference.nesting import search_beats
 from mechid.inference.priors import mechanism_priors
 from mechid.inference.settings import SearchSettings
 from mechid.inference.start import find_modes
@@ -189,7 +189,4 @@ def main_path_restart(composite_fit: MechanismFit, main_fit: MechanismFit,
               if name in main.parameter_names}
     start = ParameterHints(main.id, values, {name: f"best fit of {composite_fit.result.id}"
                                              for name in values})
-    mode = find_modes(main_fit.target, rng, start, search=search)[0]
-    if not np.isfinite(mode.log_posterior) or mode.log_posterior <= best_found(main_fit) + margin:
-        return None
-    return start
+    return None if search_beats(main_fit, start, search, rng, margin) is None else start

@@ -184,6 +184,12 @@ def local_ideality(voltage_V: FloatArray, current_A: FloatArray,
     return ideality, error
 
 
+def _first_above_thermal(branch: ForwardBranch) -> int:
+    """Index of the first forward point above :data:`THERMAL_VOLTAGES_ABOVE` kT/e."""
+    lower = THERMAL_VOLTAGES_ABOVE * thermal_voltage_V(branch.temperature_K)
+    return int(np.searchsorted(branch.voltage_V, lower, side="right"))
+
+
 def straight_region(branch: ForwardBranch) -> tuple[int, int] | str:
     """Index range [first, last] of the straight forward ln I vs V region, or why there is none.
 
@@ -196,7 +202,7 @@ def straight_region(branch: ForwardBranch) -> tuple[int, int] | str:
     """
     v, t = branch.voltage_V, branch.temperature_K
     lower = THERMAL_VOLTAGES_ABOVE * thermal_voltage_V(t)
-    start = int(np.searchsorted(v, lower, side="right"))
+    start = _first_above_thermal(branch)
     window = local_window(v[start:], t)
     local, error = local_ideality(v[start:], branch.current_A[start:], t)
     upper = local + 2.0 * error
@@ -297,7 +303,8 @@ def semilog_line(branch: ForwardBranch, device: Device) -> DiodeLine:
             f"within {STRAIGHT_TOLERANCE:.0%} of its lowest value, two standard errors allowed: "
             "below the series-resistance bend)")
     # A coarse grid's straight part may hold one window only (:func:`local_window`).
-    if v.size < min(MIN_LINE_POINTS, local_window(branch.voltage_V, branch.temperature_K)):
+    above = branch.voltage_V[_first_above_thermal(branch):]  # the grid straight_region read
+    if v.size < min(MIN_LINE_POINTS, local_window(above, branch.temperature_K)):
         return DiodeLine(False, f"not determined: only {v.size} points {rule}", int(v.size))
     decades = float((ln_i[-1] - ln_i[0]) / math.log(10.0))
     if decades < MIN_LINE_DECADES:
