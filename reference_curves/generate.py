@@ -360,6 +360,25 @@ SCENARIOS: list[dict] = [
         "noise_relative": 0.02, "noise_floor_A": 1e-14, "seed": 119,
     },
     {
+        "name": "larkfield_gaas_heavily_doped_schottky_contact",
+        "story": "Ti/Au dot (0.16 mm) on Si-doped n+ GaAs (Hall: about 2e18 cm^-3) with an "
+                 "alloyed back contact, swept -2 to +1 V at 80-300 K; the ideality grows on "
+                 "cooling, tunnelling through the thin depletion region is suspected.",
+        "mechanism": "thermionic_field_diode",
+        "params": {"barrier_height_eV": 0.78, "doping_per_cm3": 2e18,
+                   "semiconductor_effective_mass_ratio": 0.067, "dielectric_constant": 12.9,
+                   "richardson_constant_A_cm2_K2": 8.2, "series_resistance_ohm": 20.0,
+                   "shunt_resistance_ohm": 1e9},
+        "device": {"area_cm2": 2e-4, "doping_cm3": 2e18, "doping_sd_cm3": 4e17,
+                   "semiconductor_dielectric_constant": 12.9,
+                   "semiconductor_dielectric_constant_sd": 0.3,
+                   "semiconductor_effective_mass_ratio": 0.067,
+                   "semiconductor_effective_mass_sd": 0.004},
+        "temperatures_K": [80, 135, 190, 245, 300],
+        "voltages_V": _sweep(-2.0, 1.0, 31),
+        "noise_relative": 0.02, "noise_floor_A": 1e-13, "seed": 121,
+    },
+    {
         "name": "larkfield_anthracene_crystal_trap_filled_ohmic",
         "story": "A second platelet of the trap-filled crystal, less pure: thermally excited "
                  "carriers give an ohmic current that carries the lowest biases.",

@@ -60,6 +60,10 @@ EXPECTED = {
     "lateral_2d_schottky_diode": ("emission", ("barrier_height_eV", "ideality_factor",
                                                "prefactor_A_per_K1_5", "series_resistance_ohm",
                                                "shunt_resistance_ohm")),
+    "thermionic_field_diode": ("emission", (
+        "barrier_height_eV", "doping_per_cm3", "semiconductor_effective_mass_ratio",
+        "dielectric_constant", "richardson_constant_A_cm2_K2", "series_resistance_ohm",
+        "shunt_resistance_ohm")),
     "trap_assisted_tunnelling": ("tunnelling", ("trap_energy_eV", "prefactor_A_per_cm2",
                                                 "thickness_nm", "effective_mass_ratio")),
     "fowler_nordheim_image_force": ("tunnelling", (

@@ -423,3 +423,50 @@ def test_exact_werner_guettler_saturation_currents_give_back_the_distribution():
     assert values["gaussian_mean_barrier_eV"] == pytest.approx(0.85, rel=1e-9)
     assert values["gaussian_barrier_variance_V2"] == pytest.approx(0.0064, rel=1e-7)
     assert values["gaussian_richardson_constant_A_cm2_K2"] == pytest.approx(100.0, rel=1e-7)
+
+
+# Thermionic-field emission's data need and starting values.
+
+
+def _screened(series, device=DEVICE):
+    return SimpleNamespace(diode=analyse(series, device), polarity_asymmetry=None)
+
+
+def test_ideality_growth_need_tells_a_thermionic_field_diode_from_a_constant_ideality():
+    from mechid.screening.applicability import IDEALITY_GROWTH_SIGMAS, _judge, ideality_growth
+    from mechid.screening.diode import ideality_thermionic_field
+
+    growing = simulate(TEMPS, np.linspace(0.01, 1.0, 100), lambda t: 0.9,
+                       lambda t: float(ideality_thermionic_field(0.030, t)), rs=2.0,
+                       noise=0.01, seed=4, both_polarities=True)
+    slope, error, count = ideality_growth(_screened(growing).diode)
+    assert count >= 5 and slope > IDEALITY_GROWTH_SIGMAS * error
+    assert _judge("ideality_grows_on_cooling", _screened(growing)) is None
+    constant = simulate(TEMPS, VOLTS, lambda t: 0.75, lambda t: 1.05, noise=0.01, seed=5,
+                        both_polarities=True)
+    reason = _judge("ideality_grows_on_cooling", _screened(constant))
+    assert reason is not None and "do not" in reason and "schottky_diode" in reason
+    # Nothing is skipped on missing evidence: no analysis, or too few temperatures.
+    assert _judge("ideality_grows_on_cooling",
+                  SimpleNamespace(diode=None, polarity_asymmetry=None)) is None
+    two = simulate(TEMPS[:2], VOLTS, lambda t: 0.75, lambda t: 1.05, both_polarities=True)
+    assert _judge("ideality_grows_on_cooling", _screened(two)) is None
+
+
+def test_thermionic_field_start_values_come_near_the_truth_on_the_reference_series():
+    # The invented heavily doped GaAs contact (reference_curves/, simulated by mechid's own
+    # thermionic-field law; true N_D = 2e18 cm^-3, phi_B = 0.78 eV with A** = 8.2, which the
+    # start value does not know: it uses the declared typical A** = 30, so its barrier is
+    # higher by about E0 ln(30/8.2) at the warmest temperature).
+    from pathlib import Path
+
+    from mechid.data import read_series
+    from mechid.device import read_device_toml
+
+    folder = (Path(__file__).resolve().parents[1] / "reference_curves"
+              / "larkfield_gaas_heavily_doped_schottky_contact")
+    series, device = read_series(folder / "data.csv"), read_device_toml(folder / "device.toml")
+    values = start_values(diode_analysis(prepare_series(series, 0), device),
+                          prepare_series(series, 0), device)
+    assert values["thermionic_field_doping_per_cm3"] == pytest.approx(2e18, rel=0.5)
+    assert 0.78 < values["thermionic_field_barrier_eV"] < 0.78 + 0.2

@@ -12,8 +12,7 @@ Each mechanism is declared once, in the module of its family:
 * :mod:`mechid.catalogue.diode` -- ``schottky_diode``, ``inhomogeneous_schottky_diode``,
   ``lateral_2d_schottky_diode`` (rectifying contacts, signed formulas)
 * :mod:`mechid.catalogue.thermionic_field` -- ``thermionic_field_diode`` (Padovani & Stratton's
-  tunnelling through the barrier top; declared and tested, not registered: its Boltzmann
-  statistics leave the thermionic-field regime outside its validity domain, see that module)
+  tunnelling through the barrier top, with Fermi-Dirac statistics for degenerate doping)
 * :mod:`mechid.catalogue.ohmic` -- ``ohmic_activated``
 * :mod:`mechid.catalogue.space_charge` -- ``sclc_shallow_traps``, ``sclc_exponential_traps``,
   ``sclc_single_trap_level`` (Lampert's trap-filled-limit rise)
@@ -48,6 +47,7 @@ from mechid.catalogue.space_charge import (
     SCLC_SHALLOW_TRAPS,
     SCLC_SINGLE_TRAP_LEVEL,
 )
+from mechid.catalogue.thermionic_field import THERMIONIC_FIELD_DIODE
 from mechid.catalogue.trap_tunnelling import FOWLER_NORDHEIM_IMAGE_FORCE, TRAP_ASSISTED_TUNNELLING
 from mechid.catalogue.tunnelling import (
     DIRECT_TUNNELLING,
@@ -76,6 +76,7 @@ MECHANISMS: tuple[Mechanism, ...] = (
     SCHOTTKY_DIODE,
     INHOMOGENEOUS_SCHOTTKY_DIODE,
     LATERAL_2D_SCHOTTKY_DIODE,
+    THERMIONIC_FIELD_DIODE,
     TRAP_ASSISTED_TUNNELLING,
     FOWLER_NORDHEIM_IMAGE_FORCE,
     *COMPOSITES,

@@ -34,8 +34,10 @@ FloatArray = NDArray[np.float64]
 #: screening, :mod:`mechid.screening.applicability`): ``"both_polarities"`` -- data at both bias
 #: signs (parameters declared per polarity are otherwise undetermined); ``"polarities_differ"``
 #: -- not judged symmetric by the polarity-asymmetry diagnostic (a hypothesis whose current
-#: differs between the polarities cannot win on data whose polarities agree).
-DataNeed = Literal["both_polarities", "polarities_differ"]
+#: differs between the polarities cannot win on data whose polarities agree);
+#: ``"ideality_grows_on_cooling"`` -- the rectifying-contact analysis finds the ideality factor
+#: rising as the temperature falls (thermionic-field emission's signature).
+DataNeed = Literal["both_polarities", "polarities_differ", "ideality_grows_on_cooling"]
 
 #: Signature of a condition on a whole fitted window: f(V, T, device, **params) -> bool of
 #: shape (m,), whether each parameter set is admissible on these points (see Mechanism).

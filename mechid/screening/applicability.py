@@ -11,12 +11,31 @@ judged here from the screening alone (no fit):
   (:mod:`mechid.screening.asymmetry`) did not find the two polarities equal. When it could not
   judge (one polarity, too few matched pairs) the need counts as met: nothing is skipped on
   missing evidence.
+* ``ideality_grows_on_cooling``: the rectifying-contact analysis (:mod:`mechid.screening.diode`)
+  finds the semilog ideality factor rising as the temperature falls: the slope of n against
+  1/T (weighted least squares, its standard error scaled up by the scatter) exceeds
+  :data:`IDEALITY_GROWTH_SIGMAS` standard errors. Thermionic-field emission has
+  n = (E00/kT) coth(E00/kT), which grows on cooling wherever E00 is not << kT; where it is,
+  n = 1 and the current is thermionic emission, which the plain diode law describes. When the
+  analysis did not run or has fewer than :data:`MIN_IDEALITY_TEMPERATURES` temperatures the
+  need counts as met.
 """
 
 from __future__ import annotations
 
+import math
+
+import numpy as np
+
 from mechid.catalogue.base import DataNeed, Mechanism
-from mechid.screening.records import LinearisationResult
+from mechid.screening.records import DiodeAnalysis, LinearisationResult
+
+#: Standard errors by which the slope of n against 1/T must exceed zero (about a one-sided
+#: 2 % false alarm on Gaussian errors; common practice for "significant").
+IDEALITY_GROWTH_SIGMAS = 2.0
+#: Fewest temperatures with a semilog ideality factor for that slope (a line and one degree
+#: of freedom).
+MIN_IDEALITY_TEMPERATURES = 3
 
 
 def unmet_need(mechanism: Mechanism, screening: LinearisationResult) -> str | None:
@@ -41,4 +60,53 @@ def _judge(need: DataNeed, screening: LinearisationResult) -> str | None:
                     f"diagnostic finds them equal ({asymmetry.reason}; criterion: "
                     f"{asymmetry.criterion})")
         return None
+    if need == "ideality_grows_on_cooling":
+        return _ideality_does_not_grow(screening.diode)
     raise ValueError(f"unknown data need {need!r}")
+
+
+def ideality_growth(diode: DiodeAnalysis | None) -> tuple[float, float, int] | None:
+    """Slope of the semilog ideality factor against 1/T (K), its standard error and the number
+    of temperatures, or None when the rectifying-contact analysis cannot say.
+
+    Weighted least squares with the lines' standard errors as weights; the slope's error is
+    scaled by sqrt(chi^2/dof) when the scatter exceeds those errors (never scaled down).
+    """
+    if diode is None or not diode.ran:
+        return None
+    rows = [(r.temperature_K, r.semilog.quantities["ideality_factor"],
+             r.semilog.quantities.get("ideality_factor_err", math.nan))
+            for r in diode.temperatures
+            if r.semilog.determined and "ideality_factor" in r.semilog.quantities]
+    if len(rows) < MIN_IDEALITY_TEMPERATURES:
+        return None
+    t, n, err = (np.array(c, dtype=float) for c in zip(*rows, strict=True))
+    usable = np.isfinite(err) & (err > 0)
+    weight = np.where(usable, 1.0 / np.where(usable, err, 1.0) ** 2, 0.0)
+    if not usable.all():
+        weight = np.ones_like(n)
+    x = 1.0 / t
+    x_mean = np.sum(weight * x) / np.sum(weight)
+    spread = np.sum(weight * (x - x_mean) ** 2)
+    if not spread > 0:
+        return None
+    slope = float(np.sum(weight * (x - x_mean) * n) / spread)
+    intercept = np.sum(weight * n) / np.sum(weight) - slope * x_mean
+    chi2 = float(np.sum(weight * (n - intercept - slope * x) ** 2))
+    dof = len(rows) - 2
+    scale = max(1.0, chi2 / dof) if dof > 0 else 1.0
+    return slope, math.sqrt(scale / spread), len(rows)
+
+
+def _ideality_does_not_grow(diode: DiodeAnalysis | None) -> str | None:
+    growth = ideality_growth(diode)
+    if growth is None:
+        return None
+    slope, error, count = growth
+    if slope > IDEALITY_GROWTH_SIGMAS * error:
+        return None
+    return ("its ideality factor n = (E00/kT) coth(E00/kT) grows on cooling, but the semilog "
+            f"ideality factors do not (slope of n against 1/T: {slope:.3g} +- {error:.2g} K "
+            f"over {count} temperatures; needed: above {IDEALITY_GROWTH_SIGMAS:g} standard "
+            "errors); where n does not grow, thermionic-field emission reduces to thermionic "
+            "emission with n = 1, which the plain diode law (schottky_diode) describes")

@@ -60,7 +60,13 @@ from numpy.lib.stride_tricks import sliding_window_view
 from scipy import optimize
 
 from mechid.catalogue.base import FloatArray
-from mechid.catalogue.thermionic_field import characteristic_tunnelling_energy_eV
+from mechid.catalogue.thermionic_field import (
+    THERMIONIC_FIELD_DIODE,
+    characteristic_tunnelling_energy_eV,
+    doping_for_tunnelling_energy_per_cm3,
+    reduced_fermi_level,
+    thermionic_field_current_density_A_per_cm2,
+)
 from mechid.constants import BOLTZMANN_EV
 from mechid.device import Device
 from mechid.screening.biases import MIN_TEMPERATURES, PreparedSeries
@@ -772,8 +778,11 @@ def start_values(analysis: DiodeAnalysis, data: PreparedSeries, device: Device
     ``richardson_constant_A_cm2_K2`` (Richardson plot), ``gaussian_*`` (see
     :func:`gaussian_richardson_fit`), ``rho2`` and ``rho3_V`` (Werner & Guettler's 1/n - 1
     vs 1/(2kT)), ``series_resistance_ohm`` (median of Cheung's dV/d ln I lines) and
-    ``shunt_resistance_ohm`` (:func:`reverse_shunt_resistance_ohm`). Empty when the
-    analysis did not run; a quantity it could not read is left out.
+    ``shunt_resistance_ohm`` (:func:`reverse_shunt_resistance_ohm`) and
+    ``thermionic_field_doping_per_cm3`` (the doping whose E00 fits n(T), see
+    :func:`_doping_from_ideality`) with ``thermionic_field_barrier_eV``
+    (:func:`_thermionic_field_barrier`). Empty when the analysis did not run; a quantity it
+    could not read is left out.
     """
     if not analysis.ran or analysis.forward_polarity is None:
         return {}
@@ -793,4 +802,60 @@ def start_values(analysis: DiodeAnalysis, data: PreparedSeries, device: Device
     shunt = reverse_shunt_resistance_ohm(data, analysis.forward_polarity)
     if shunt is not None:
         values["shunt_resistance_ohm"] = shunt
+    doping = _doping_from_ideality(analysis.thermionic_field_ideality, device)
+    if doping is not None:
+        values["thermionic_field_doping_per_cm3"] = doping
+        barrier = _thermionic_field_barrier(analysis.temperatures, device, doping)
+        if barrier is not None:
+            values["thermionic_field_barrier_eV"] = barrier
     return {k: v for k, v in values.items() if math.isfinite(v)}
+
+
+def _thermionic_field_barrier(records: Sequence[DiodeTemperature], device: Device,
+                              doping: float) -> float | None:
+    """The barrier at which the thermionic-field current (with ``doping``, the device's or
+    the declared typical permittivity, mass and A**) passes through the middle of the warmest
+    semilog line: our own inversion of the model at one point (below the series-resistance
+    bend, where the junction takes the whole bias), a starting value only."""
+    drawn = [r for r in records if r.semilog.determined]
+    if not drawn or device.area_cm2 is None:
+        return None
+    warmest = max(drawn, key=lambda r: r.temperature_K)
+    line, temperature = warmest.semilog, warmest.temperature_K
+    bias = 0.5 * (line.x_min + line.x_max)
+    target = line.intercept + line.slope * bias - math.log(device.area_cm2)
+    declared = {p.name: p.typical for p in THERMIONIC_FIELD_DIODE.parameters}
+    known = {"dielectric_constant": device.semiconductor_dielectric_constant,
+             "semiconductor_effective_mass_ratio": device.semiconductor_effective_mass_ratio,
+             "richardson_constant_A_cm2_K2": device.richardson_constant_A_cm2_K2}
+    eps, mass, richardson = (declared[k] if m is None else m.value for k, m in known.items())
+    fermi = float(reduced_fermi_level(temperature, doping, mass))
+    kt = BOLTZMANN_EV * temperature
+    lowest = bias - fermi * kt + 3.0 * kt  # the depletion approximation's edge (3 kT)
+
+    def excess(barrier: float) -> float:
+        density = thermionic_field_current_density_A_per_cm2(
+            bias, temperature, barrier, doping, mass, eps, richardson)
+        return math.log(float(density)) - target if density > 0 else -math.inf
+
+    highest = 2.0
+    if not lowest < highest or not (excess(lowest) > 0 > excess(highest)):
+        return None
+    return float(optimize.brentq(excess, lowest, highest, xtol=1e-6))
+
+
+def _doping_from_ideality(line: DiodeLine | None, device: Device) -> float | None:
+    """The donor density whose E00 is the one fitted to n(T) (:func:`thermionic_field_ideality`),
+    with the device's semiconductor permittivity and effective mass, or the thermionic-field
+    hypothesis' typical values where the device gives none."""
+    if line is None or not line.determined:
+        return None
+    energy = line.quantities.get("characteristic_energy_eV", math.nan)
+    if not energy > 0:
+        return None
+    declared = {p.name: p.typical for p in THERMIONIC_FIELD_DIODE.parameters}
+    eps = device.semiconductor_dielectric_constant
+    mass = device.semiconductor_effective_mass_ratio
+    return float(doping_for_tunnelling_energy_per_cm3(
+        energy, declared["dielectric_constant"] if eps is None else eps.value,
+        declared["semiconductor_effective_mass_ratio"] if mass is None else mass.value))
