@@ -446,9 +446,11 @@ def test_ideality_growth_need_tells_a_thermionic_field_diode_from_a_constant_ide
                         both_polarities=True)
     reason = _judge("ideality_grows_on_cooling", _screened(constant))
     assert reason is not None and "do not" in reason and "schottky_diode" in reason
-    # Nothing is skipped on missing evidence: no analysis, or too few temperatures.
-    assert _judge("ideality_grows_on_cooling",
-                  SimpleNamespace(diode=None, polarity_asymmetry=None)) is None
+    # No rectifying contact seen: not fitted (it is a contact's law); a rectifier with too few
+    # temperatures to judge the trend: fitted (nothing skipped on missing evidence).
+    unseen = _judge("ideality_grows_on_cooling", SimpleNamespace(diode=None,
+                                                                 polarity_asymmetry=None))
+    assert unseen is not None and "by name" in unseen
     two = simulate(TEMPS[:2], VOLTS, lambda t: 0.75, lambda t: 1.05, both_polarities=True)
     assert _judge("ideality_grows_on_cooling", _screened(two)) is None
 

@@ -66,6 +66,7 @@ image force is left out, as in the source.
 
 from __future__ import annotations
 
+import threading
 from collections.abc import Callable
 
 import numpy as np
@@ -122,6 +123,9 @@ _FERMI_PANEL = 4.0
 #: leaves the bracket halves it instead).
 _JUNCTION_TOLERANCE = 1e-10
 _JUNCTION_MAX_STEPS = 100
+#: A Newton step below this share of kT/e, changing the current by less than this share of
+#: itself, is taken by linearising the current (see :func:`_solve_contact_current`).
+_LINEAR_STEP = 1e-6
 #: Smallest band bending, in kT, where the model holds.
 MIN_BAND_BENDING_KT = 3.0
 #: Fermi-Dirac integral of order 1/2: Gauss-Legendre nodes per piece, the reach (in kT) past
@@ -647,9 +651,18 @@ def _solve_contact_current(
             current[restart], slope[restart] = current_and_slope(u[restart], index[restart])
         for _ in range(_JUNCTION_MAX_STEPS):
             excess = u + r_s[index] * current - v[index]
+            # Where the Newton step is below 1e-6 kT/e and changes the current by under 1e-6
+            # of itself, the current linearised to that step is exact to ~1e-12 (the curvature
+            # term of an exponential is (I' du/I)^2/2 of I; no law here rises faster than
+            # e^{eV/kT}) and meets the circuit exactly: taken without evaluating the integral
+            # again (most low-current points settle on their first evaluation).
+            shift = -excess / (1.0 + r_s[index] * slope)
+            linear = (np.abs(slope * shift) <= _LINEAR_STEP * np.abs(current)) & (
+                np.abs(shift) <= _LINEAR_STEP * BOLTZMANN_EV * t[index])
             settled = (np.abs(excess) <= _JUNCTION_TOLERANCE * np.abs(v[index])) | (
-                high - low <= _JUNCTION_TOLERANCE * np.abs(v[index]))
-            result[index[settled]] = current[settled]
+                high - low <= _JUNCTION_TOLERANCE * np.abs(v[index])) | linear
+            result[index[settled]] = np.where(linear, current + slope * shift,
+                                              current)[settled]
             keep = ~settled
             if not keep.any():
                 break
@@ -673,22 +686,13 @@ def _solve_contact_current(
 
 
 
-class _LastCircuit:
-    """The last circuit :func:`_contact_current` solved: copies of its inputs and its junction
-    voltages ``u = V - I R_s``. The validity check of the same evaluation
-    (:func:`_band_bending_in_kt`, called by :meth:`Mechanism.current` right after the current
-    with the same arrays) reads ``u`` from here instead of solving again; inputs are compared
-    by value, so a stale entry is never used."""
-
-    inputs: tuple | None = None
-    junction_V: FloatArray | None = None
-
-    @classmethod
-    def matches(cls, inputs: tuple) -> bool:
-        return cls.inputs is not None and len(cls.inputs) == len(inputs) and all(
-            (a == b) if isinstance(a, Device) else
-            (np.shape(a) == np.shape(b) and np.array_equal(a, b, equal_nan=True))
-            for a, b in zip(cls.inputs, inputs, strict=True))
+#: The last circuit :func:`_contact_current` solved in this thread: ``(inputs, junction
+#: voltages)``, the inputs copied. The validity check of the same evaluation
+#: (:func:`_band_bending_in_kt`, called by :meth:`Mechanism.current` right after the current
+#: with the same arrays) reads ``u = V - I R_s`` from here instead of solving again. Inputs are
+#: compared by value, so a stale entry is never used; one per thread, as the likelihood runs
+#: blocks of walkers on a thread pool.
+_LAST_CIRCUIT = threading.local()
 
 
 def _circuit_inputs(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,
@@ -697,25 +701,33 @@ def _circuit_inputs(voltage_V: FloatArray, temperature_K: FloatArray, device: De
             *(np.asarray(params[name]) for name in sorted(params)))
 
 
+def _same_inputs(first: tuple, second: tuple) -> bool:
+    return len(first) == len(second) and all(
+        (a == b) if isinstance(a, Device) else
+        (np.shape(a) == np.shape(b) and np.array_equal(a, b, equal_nan=True))
+        for a, b in zip(first, second, strict=True))
+
+
 def _contact_current(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,
                      **params: FloatArray) -> FloatArray:
-    """:func:`_solve_contact_current`, remembering the junction voltages (see
-    :class:`_LastCircuit`)."""
+    """:func:`_solve_contact_current`, remembering the junction voltages
+    (:data:`_LAST_CIRCUIT`)."""
     current = _solve_contact_current(voltage_V, temperature_K, device, **params)
-    _LastCircuit.inputs = tuple(a if isinstance(a, Device) else np.array(a, copy=True)
-                                for a in _circuit_inputs(voltage_V, temperature_K, device,
-                                                         params))
-    _LastCircuit.junction_V = voltage_V - current * params["series_resistance_ohm"]
+    inputs = tuple(a if isinstance(a, Device) else np.array(a, copy=True)
+                   for a in _circuit_inputs(voltage_V, temperature_K, device, params))
+    _LAST_CIRCUIT.entry = (inputs, voltage_V - current * params["series_resistance_ohm"])
     return current
 
 
 def junction_voltage_V(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,
                        **params: FloatArray) -> FloatArray:
     """``u = V - I R_s``: the share of the bias across the contact itself."""
-    if not _LastCircuit.matches(_circuit_inputs(voltage_V, temperature_K, device, params)):
+    inputs = _circuit_inputs(voltage_V, temperature_K, device, params)
+    entry = getattr(_LAST_CIRCUIT, "entry", None)
+    if entry is None or not _same_inputs(entry[0], inputs):
         _contact_current(voltage_V, temperature_K, device, **params)
-    assert _LastCircuit.junction_V is not None
-    return _LastCircuit.junction_V
+        entry = _LAST_CIRCUIT.entry
+    return entry[1]
 
 
 def _band_bending_in_kt(voltage_V: FloatArray, temperature_K: FloatArray, device: Device,

@@ -17,8 +17,8 @@ judged here from the screening alone (no fit):
   :data:`IDEALITY_GROWTH_SIGMAS` standard errors. Thermionic-field emission has
   n = (E00/kT) coth(E00/kT), which grows on cooling wherever E00 is not << kT; where it is,
   n = 1 and the current is thermionic emission, which the plain diode law describes. When the
-  analysis did not run or has fewer than :data:`MIN_IDEALITY_TEMPERATURES` temperatures the
-  need counts as met.
+  analysis did not run (no rectifying contact seen) the need is not met; when it has fewer
+  than :data:`MIN_IDEALITY_TEMPERATURES` temperatures with a semilog line it counts as met.
 """
 
 from __future__ import annotations
@@ -99,6 +99,12 @@ def ideality_growth(diode: DiodeAnalysis | None) -> tuple[float, float, int] | N
 
 
 def _ideality_does_not_grow(diode: DiodeAnalysis | None) -> str | None:
+    if diode is None or not diode.ran:
+        why = "no rectifying-contact analysis" if diode is None else diode.reason
+        return ("its current is that of a rectifying Schottky contact, and the rectifying-"
+                f"contact analysis did not run on these data ({why}); ask for it by name to fit "
+                "it anyway (a contact so heavily doped that field emission makes it nearly "
+                "symmetric looks like this)")
     growth = ideality_growth(diode)
     if growth is None:
         return None
