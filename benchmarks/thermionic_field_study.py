@@ -105,7 +105,7 @@ def need_only(index: int, draw, seed: int) -> None:
     mechanism_id, _, temperatures, device, series = _simulated(draw, seed)[:5]
     screening = linearise(series, device)
     growth = ideality_growth(screening.diode)
-    reason = unmet_need(get_mechanism("thermionic_field_diode"), screening)
+    reason = unmet_need(get_mechanism("thermionic_field_diode"), screening, device)
     slope = "not judged" if growth is None else f"slope {growth[0]:.3g} +- {growth[1]:.2g} K"
     print(f"{index:>3} {mechanism_id:<28} T={temperatures.min():.0f}-{temperatures.max():.0f} K "
           f"{slope}: {'fitted' if reason is None else 'not fitted'}", flush=True)

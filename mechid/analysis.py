@@ -276,7 +276,7 @@ def run_analysis_full(
         # Most promising first (screening rank), so that mechanisms far below the leader are
         # not refined; each keeps its own random stream whatever the order.
         screening = {mid: rank for rank, mid in enumerate(lin.ranking)}
-        skipped = _skipped_mechanisms(mechanisms, lin, settings)
+        skipped = _skipped_mechanisms(mechanisms, lin, settings, device)
         left_out = {entry.id for entry in skipped}
         jobs = sorted((FitJob(m.id, child, hints.get(m.id))
                        for m, child in zip(mechanisms, children, strict=True)
@@ -576,13 +576,14 @@ def _regime_map(results: list[MechanismResult], fits: Mapping[str, MechanismFit]
 
 
 def _skipped_mechanisms(mechanisms: list[Mechanism], lin: LinearisationResult,
-                        settings: AnalysisSettings) -> tuple[SkippedMechanism, ...]:
+                        settings: AnalysisSettings, device: Device
+                        ) -> tuple[SkippedMechanism, ...]:
     """Mechanisms whose declared needs these data do not meet (never one asked for by name)."""
     if settings.mechanisms is not None:
         return ()
     found = []
     for mechanism in mechanisms:
-        reason = unmet_need(mechanism, lin)
+        reason = unmet_need(mechanism, lin, device)
         if (reason is None and "both_polarities" in mechanism.needs
                 and settings.polarity in ("positive", "negative")):
             reason = (f"its parameters differ between the polarities and only {settings.polarity} "

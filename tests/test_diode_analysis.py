@@ -472,3 +472,20 @@ def test_thermionic_field_start_values_come_near_the_truth_on_the_reference_seri
                           prepare_series(series, 0), device)
     assert values["thermionic_field_doping_per_cm3"] == pytest.approx(2e18, rel=0.5)
     assert 0.78 < values["thermionic_field_barrier_eV"] < 0.78 + 0.2
+
+
+def test_thermionic_field_signature_is_the_device_or_a_growing_rectifier():
+    from mechid.screening.applicability import _judge
+
+    constant = _screened(simulate(TEMPS, VOLTS, lambda t: 0.75, lambda t: 1.05, noise=0.01,
+                                  seed=5, both_polarities=True))
+    plain = _judge("thermionic_field_signature", constant, DEVICE)
+    assert plain is not None and "nor does the device description" in plain
+    # A device described as a doped semiconductor: fitted whatever the data show (a heavily
+    # doped contact is nearly symmetric and has no straight semilog region).
+    for described in (Device(area_cm2=AREA_CM2, doping_cm3=Measured(1e19, 2e18)),
+                      Device(area_cm2=AREA_CM2,
+                             semiconductor_effective_mass_ratio=Measured(0.067, 0.003))):
+        assert _judge("thermionic_field_signature", constant, described) is None
+        assert _judge("thermionic_field_signature", SimpleNamespace(
+            diode=None, polarity_asymmetry=None), described) is None

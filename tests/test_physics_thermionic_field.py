@@ -374,7 +374,7 @@ def test_the_band_bending_is_checked_at_the_junction_voltage():
 
 def test_registered_as_a_rectifying_contact_with_a_growing_ideality():
     assert not THERMIONIC_FIELD_DIODE.is_odd
-    assert THERMIONIC_FIELD_DIODE.needs == ("polarities_differ", "ideality_grows_on_cooling")
+    assert THERMIONIC_FIELD_DIODE.needs == ("thermionic_field_signature",)
     assert "thermionic_field_diode" in mechanism_ids()
 
 

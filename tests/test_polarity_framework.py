@@ -198,8 +198,10 @@ def test_declared_needs_skip_a_mechanism_with_the_reason_unless_asked_for():
     assert unmet_need(needy, lin_asym) is None
     assert "only one bias polarity" in unmet_need(needy, lin_pos)
     assert unmet_need(TOY, lin_sym) is None  # declares no needs
-    (entry,) = _skipped_mechanisms([needy, TOY], lin_sym, AnalysisSettings())
+    (entry,) = _skipped_mechanisms([needy, TOY], lin_sym, AnalysisSettings(), Device())
     assert entry.id == "toy_needy" and "finds them equal" in entry.reason
-    assert _skipped_mechanisms([needy], lin_sym, AnalysisSettings(mechanisms=("toy_needy",))) == ()
-    (only_positive,) = _skipped_mechanisms([needy], lin_asym, AnalysisSettings(polarity="positive"))
+    assert _skipped_mechanisms([needy], lin_sym, AnalysisSettings(mechanisms=("toy_needy",)),
+                               Device()) == ()
+    (only_positive,) = _skipped_mechanisms([needy], lin_asym, AnalysisSettings(polarity="positive"),
+                                         Device())
     assert "only positive bias was fitted" in only_positive.reason

@@ -36,8 +36,10 @@ FloatArray = NDArray[np.float64]
 #: -- not judged symmetric by the polarity-asymmetry diagnostic (a hypothesis whose current
 #: differs between the polarities cannot win on data whose polarities agree);
 #: ``"ideality_grows_on_cooling"`` -- the rectifying-contact analysis finds the ideality factor
-#: rising as the temperature falls (thermionic-field emission's signature).
-DataNeed = Literal["both_polarities", "polarities_differ", "ideality_grows_on_cooling"]
+#: rising as the temperature falls; ``"thermionic_field_signature"`` -- the device describes a
+#: doped semiconductor, or the data meet both of the last two.
+DataNeed = Literal["both_polarities", "polarities_differ", "ideality_grows_on_cooling",
+                   "thermionic_field_signature"]
 
 #: Signature of a condition on a whole fitted window: f(V, T, device, **params) -> bool of
 #: shape (m,), whether each parameter set is admissible on these points (see Mechanism).

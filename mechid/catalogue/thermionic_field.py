@@ -804,9 +804,10 @@ THERMIONIC_FIELD_DIODE = Mechanism(
         _RESISTANCE_ESTIMATES[0],
     ),
     checks=(ThermallyActivated(),),  # the supply over the barrier is thermally activated
-    # A rectifier cannot describe polarities that agree; an ideality that does not grow on
-    # cooling leaves E00 << kT, i.e. thermionic emission, which schottky_diode describes.
-    needs=("polarities_differ", "ideality_grows_on_cooling"),
+    # A doped semiconductor in the device description, or a rectifier (polarities differ)
+    # whose ideality grows on cooling: where n does not grow, E00 << kT, i.e. thermionic
+    # emission, which schottky_diode describes.
+    needs=("thermionic_field_signature",),
     signed_current=_contact_current,
     temperature_dependence=(
         "activated, with an ideality n = (E00/kT) coth(E00/kT) that grows on cooling; "

@@ -19,6 +19,11 @@ judged here from the screening alone (no fit):
   n = 1 and the current is thermionic emission, which the plain diode law describes. When the
   analysis did not run (no rectifying contact seen) the need is not met; when it has fewer
   than :data:`MIN_IDEALITY_TEMPERATURES` temperatures with a semilog line it counts as met.
+* ``thermionic_field_signature``: the device description gives the semiconductor's doping or
+  its effective mass (the user describes a doped semiconductor contact), or the data meet
+  both ``polarities_differ`` and ``ideality_grows_on_cooling``. The device route matters:
+  a contact so heavily doped that field emission dominates is nearly symmetric and shows no
+  straight semilog region, so the data alone do not announce it.
 """
 
 from __future__ import annotations
@@ -28,6 +33,7 @@ import math
 import numpy as np
 
 from mechid.catalogue.base import DataNeed, Mechanism
+from mechid.device import Device
 from mechid.screening.records import DiodeAnalysis, LinearisationResult
 
 #: Standard errors by which the slope of n against 1/T must exceed zero (about a one-sided
@@ -38,16 +44,29 @@ IDEALITY_GROWTH_SIGMAS = 2.0
 MIN_IDEALITY_TEMPERATURES = 3
 
 
-def unmet_need(mechanism: Mechanism, screening: LinearisationResult) -> str | None:
-    """The reason ``mechanism`` is not worth fitting on these data, or None to fit it."""
+def unmet_need(mechanism: Mechanism, screening: LinearisationResult,
+               device: Device | None = None) -> str | None:
+    """The reason ``mechanism`` is not worth fitting on these data (and this device
+    description), or None to fit it."""
     for need in mechanism.needs:
-        reason = _judge(need, screening)
+        reason = _judge(need, screening, device)
         if reason is not None:
             return reason
     return None
 
 
-def _judge(need: DataNeed, screening: LinearisationResult) -> str | None:
+def _judge(need: DataNeed, screening: LinearisationResult,
+           device: Device | None = None) -> str | None:
+    if need == "thermionic_field_signature":
+        if device is not None and (device.doping_cm3 is not None
+                                   or device.semiconductor_effective_mass_ratio is not None):
+            return None
+        for part in ("polarities_differ", "ideality_grows_on_cooling"):
+            reason = _judge(part, screening)
+            if reason is not None:
+                return (reason + "; nor does the device description give the semiconductor's "
+                        "doping or effective mass")
+        return None
     asymmetry = screening.polarity_asymmetry
     if need == "both_polarities":
         if asymmetry is not None and asymmetry.reason == "only one bias polarity was measured":
