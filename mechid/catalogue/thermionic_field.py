@@ -515,6 +515,7 @@ def _tunnelling_sums(start: FloatArray, end: FloatArray, a: FloatArray, e00: Flo
     x = lead[:, None] - nodes / kt[:, None]
     ratio = np.maximum(nodes / a[:, None], 1e-300)  # the nodes lie in [0, a]
     root = np.sqrt(1.0 - ratio)
+    # depletion_barrier_exponent written out, to reuse sqrt(1 - u) in the bending slope
     log_transmission = -(a / e00)[:, None] * (
         root - ratio * (np.log1p(root) - 0.5 * np.log(ratio)))
     net, metal_share = _net_supply_at_nodes(x, width[:, None],
